@@ -1,0 +1,2 @@
+/** @packageDocumentation */
+export {};

@@ -1,0 +1,5 @@
+/**
+ * Private test helpers shared by the motorprint packages.
+ * @packageDocumentation
+ */
+export { expectClose } from './expectClose.js';
