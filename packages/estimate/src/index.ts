@@ -1,2 +1,35 @@
-/** @packageDocumentation */
-export {};
+/**
+ * Estimation for motorprint. This part is the least-squares core: a streaming
+ * Levenberg–Marquardt solver that never holds the Jacobian (the problem accumulates JᵀJ and Jᵀr
+ * chunk by chunk), a dense curve-fit convenience with analytic or central-difference Jacobians,
+ * covariance summaries that mark unidentifiable directions, and the LRE score used against the
+ * NIST StRD certified values.
+ *
+ * @packageDocumentation
+ */
+export { accumulateNormalEquations } from './solver/accumulateNormalEquations.js';
+export { centralDifferenceJacobian } from './solver/centralDifferenceJacobian.js';
+export { checkSolverOptions } from './solver/checkSolverOptions.js';
+export { covarianceFromJacobian } from './solver/covarianceFromJacobian.js';
+export { covarianceFromNormalMatrix } from './solver/covarianceFromNormalMatrix.js';
+export { createNormalEquations } from './solver/createNormalEquations.js';
+export { fitCurve } from './solver/fitCurve.js';
+export { fitCurveWithMlLm } from './solver/fitCurveWithMlLm.js';
+export type { FitCurveWithMlLmInput, FitCurveWithMlLmResult } from './solver/fitCurveWithMlLm.js';
+export { logRelativeError } from './solver/logRelativeError.js';
+export { resetNormalEquations } from './solver/resetNormalEquations.js';
+export { solveLeastSquares } from './solver/solveLeastSquares.js';
+export type {
+  CovarianceSummary,
+  CurveInputs,
+  CurveJacobian,
+  CurveModel,
+  FitCurveInput,
+  FitCurveResult,
+  LeastSquaresProblem,
+  NormalEquations,
+  ResolvedSolverOptions,
+  SolverOptions,
+  SolverResult,
+  StopReason,
+} from './solver/types.js';

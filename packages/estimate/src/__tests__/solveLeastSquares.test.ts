@@ -1,0 +1,249 @@
+import { expectClose } from '@motorprint/testkit';
+import { describe, expect, it } from 'vitest';
+import { accumulateNormalEquations } from '../solver/accumulateNormalEquations.js';
+import { createNormalEquations } from '../solver/createNormalEquations.js';
+import { resetNormalEquations } from '../solver/resetNormalEquations.js';
+import { solveLeastSquares } from '../solver/solveLeastSquares.js';
+import type { LeastSquaresProblem, NormalEquations } from '../solver/types.js';
+
+/**
+ * Invented 8-parameter model (two decays, a sinusoid, an offset):
+ * y(t) = a1·e^(−k1·t) + a2·e^(−k2·t) + c·sin(ω·t + φ) + d, θ = [a1, k1, a2, k2, c, ω, φ, d].
+ */
+function eightParameterProblem(n: number, chunk: number, y: Float64Array | null): LeastSquaresProblem & { data: Float64Array } {
+  const p = 8;
+  const r = new Float64Array(chunk);
+  const J = new Float64Array(chunk * p);
+  const data = y ?? new Float64Array(n);
+  return {
+    parameterCount: p,
+    data,
+    evaluate(th, wantJacobian, acc) {
+      const [a1, k1, a2, k2, c, w, ph, d] = th as unknown as number[];
+      for (let s = 0; s < n; s += chunk) {
+        const rows = Math.min(chunk, n - s);
+        for (let i = 0; i < rows; i++) {
+          const t = ((s + i) / n) * 10; // t in [0, 10) s
+          const e1 = Math.exp(-k1! * t);
+          const e2 = Math.exp(-k2! * t);
+          const sn = Math.sin(w! * t + ph!);
+          const cs = Math.cos(w! * t + ph!);
+          r[i] = a1! * e1 + a2! * e2 + c! * sn + d! - data[s + i]!;
+          if (wantJacobian) {
+            J[i] = e1;
+            J[rows + i] = -a1! * t * e1;
+            J[2 * rows + i] = e2;
+            J[3 * rows + i] = -a2! * t * e2;
+            J[4 * rows + i] = sn;
+            J[5 * rows + i] = c! * t * cs;
+            J[6 * rows + i] = c! * cs;
+            J[7 * rows + i] = 1;
+          }
+        }
+        accumulateNormalEquations(acc, r, wantJacobian ? J : null, rows);
+      }
+      return acc.ssr;
+    },
+  };
+}
+
+// Invented true values for the synthetic 8-parameter record.
+const TRUE8 = [2, 1.5, 0.5, 0.2, 0.3, 2.5, 0.4, 0.1];
+const START8 = [1.8, 1.3, 0.6, 0.25, 0.25, 2.45, 0.3, 0.0];
+
+function synthesise(n: number): Float64Array {
+  const y = new Float64Array(n);
+  const [a1, k1, a2, k2, c, w, ph, d] = TRUE8 as [number, number, number, number, number, number, number, number];
+  for (let k = 0; k < n; k++) {
+    const t = (k / n) * 10;
+    y[k] = a1 * Math.exp(-k1 * t) + a2 * Math.exp(-k2 * t) + c * Math.sin(w * t + ph) + d;
+  }
+  return y;
+}
+
+describe('solveLeastSquares streams the normal equations', () => {
+  const n = 100_000;
+  const y = synthesise(n);
+
+  it('accumulates JᵀJ, Jᵀr and rᵀr in chunks of 4096 equal to one dense pass (p = 8, n = 1e5)', () => {
+    const theta = Float64Array.from(START8);
+    const streamed = createNormalEquations(8);
+    const dense = createNormalEquations(8);
+    eightParameterProblem(n, 4096, y).evaluate(theta, true, streamed);
+    eightParameterProblem(n, n, y).evaluate(theta, true, dense);
+    expect(streamed.rows).toBe(n);
+    expect(dense.rows).toBe(n);
+    // Same sums in a different order. Derived here: recursive summation of n terms errs by at most
+    // n·eps·Σ|xₖ| ≈ 1.1e-11·Σ|xₖ| (n = 1e5), and Σ|JᵢJⱼ| ≤ √(JᵀJᵢᵢ·JᵀJⱼⱼ) (Cauchy–Schwarz); the
+    // tolerance 1e-10·√(JᵀJᵢᵢ·JᵀJⱼⱼ) covers both passes with margin. Cancelling entries (Σ sin) need
+    // this scale: a tolerance relative to the entry itself would be meaningless there.
+    const d = (i: number) => dense.JtJ[i * 8 + i]!;
+    for (let i = 0; i < 8; i++) {
+      for (let j = 0; j < 8; j++) {
+        const tol = 1e-10 * Math.sqrt(d(i) * d(j));
+        expectClose(streamed.JtJ[i * 8 + j]!, dense.JtJ[i * 8 + j]!, { abs: tol }, `JtJ[${i},${j}]`);
+      }
+      expectClose(streamed.Jtr[i]!, dense.Jtr[i]!, { abs: 1e-10 * Math.sqrt(d(i) * dense.ssr) }, `Jtr[${i}]`);
+    }
+    expectClose(streamed.ssr, dense.ssr, { rel: 1e-10 }, 'ssr');
+  });
+
+  it('fits the invented 8-parameter record from chunks and from one dense pass to the same optimum', () => {
+    const a = solveLeastSquares(eightParameterProblem(n, 4096, y), START8);
+    const b = solveLeastSquares(eightParameterProblem(n, n, y), START8);
+    expect(a.converged).toBe(true);
+    expect(b.converged).toBe(true);
+    TRUE8.forEach((v, j) => {
+      // Noise-free data generated from TRUE8 (invented): the optimum is TRUE8 itself.
+      expectClose(a.theta[j]!, v, { rel: 1e-7, abs: 1e-9 }, `streamed theta[${j}]`);
+      expectClose(b.theta[j]!, v, { rel: 1e-7, abs: 1e-9 }, `dense theta[${j}]`);
+    });
+    expect(a.jacobianEvaluations).toBeLessThanOrEqual(a.functionEvaluations);
+    expect(a.JtJ.length).toBe(64);
+  });
+});
+
+describe('accumulateNormalEquations compensates chunk totals', () => {
+  it('keeps 1000 unit chunks added after a 1e16 chunk (plain addition drops them)', () => {
+    // Derived here: 1e16 + 1 rounds back to 1e16 in double precision (ulp(1e16) = 2), so a plain
+    // running sum stays at 1e16; the exact total 1e16 + 1000 is representable.
+    const comp = createNormalEquations(1, true);
+    const plain = createNormalEquations(1, false);
+    for (const acc of [comp, plain]) {
+      accumulateNormalEquations(acc, Float64Array.of(1e8), null, 1);
+      for (let i = 0; i < 1000; i++) accumulateNormalEquations(acc, Float64Array.of(1), null, 1);
+    }
+    expect(comp.ssr).toBe(1e16 + 1000);
+    expect(plain.ssr).toBe(1e16);
+  });
+
+  it('reads Jacobian columns with a stride and resets to zero', () => {
+    const acc = createNormalEquations(2);
+    // Columns [1, 2] and [3, 4] stored with stride 3 (one unused slot each); r = [1, 1].
+    accumulateNormalEquations(acc, Float64Array.of(1, 1), Float64Array.of(1, 2, 99, 3, 4, 99), 2, 3);
+    // Derived here: JᵀJ = [[5, 11], [11, 25]], Jᵀr = [3, 7], rᵀr = 2.
+    expect(Array.from(acc.JtJ)).toEqual([5, 11, 11, 25]);
+    expect(Array.from(acc.Jtr)).toEqual([3, 7]);
+    expect(acc.ssr).toBe(2);
+    resetNormalEquations(acc);
+    expect(acc.ssr).toBe(0);
+    expect(Array.from(acc.JtJ)).toEqual([0, 0, 0, 0]);
+  });
+});
+
+/** Rosenbrock's function as residuals r = [10(θ₂ − θ₁²), 1 − θ₁] (Moré, Garbow, Hillstrom 1981, problem 1). */
+function rosenbrock(): LeastSquaresProblem {
+  const r = new Float64Array(2);
+  const J = new Float64Array(4);
+  return {
+    parameterCount: 2,
+    evaluate(t, want, acc: NormalEquations) {
+      r[0] = 10 * (t[1]! - t[0]! * t[0]!);
+      r[1] = 1 - t[0]!;
+      J[0] = -20 * t[0]!;
+      J[1] = -1;
+      J[2] = 10;
+      J[3] = 0;
+      accumulateNormalEquations(acc, r, want ? J : null, 2);
+      return acc.ssr;
+    },
+  };
+}
+
+describe('solveLeastSquares stops and reports honestly', () => {
+  it('solves Rosenbrock from (−1.2, 1) to (1, 1) with zero residual', () => {
+    // Moré, Garbow, Hillstrom (1981), ACM TOMS 7(1), problem 1: minimiser (1, 1), f = 0.
+    const res = solveLeastSquares(rosenbrock(), [-1.2, 1]);
+    expect(res.converged).toBe(true);
+    expectClose(res.theta[0]!, 1, { rel: 1e-9 }, 'theta0');
+    expectClose(res.theta[1]!, 1, { rel: 1e-9 }, 'theta1');
+    expect(res.ssr).toBeLessThan(1e-20);
+  });
+
+  it('reports a maxIterations stop as not converged', () => {
+    const res = solveLeastSquares(rosenbrock(), [-1.2, 1], { maxIterations: 2 });
+    expect(res.stopReason).toBe('max-iterations');
+    expect(res.converged).toBe(false);
+    expect(res.iterations).toBe(2);
+  });
+
+  it("stops with 'non-finite' when the residuals at the start are NaN", () => {
+    const res = solveLeastSquares(
+      { parameterCount: 1, evaluate: (t, w, acc) => (accumulateNormalEquations(acc, Float64Array.of(Math.sqrt(t[0]!)), w ? Float64Array.of(1) : null, 1), acc.ssr) },
+      [-1],
+    );
+    expect(res.stopReason).toBe('non-finite');
+    expect(res.converged).toBe(false);
+    expect(res.functionEvaluations).toBe(1);
+  });
+
+  it("stops with 'non-finite' when every step lands where the residuals are NaN", () => {
+    // r = θ − 5 for θ ≤ 1, NaN above: the downhill direction is always NaN.
+    const problem: LeastSquaresProblem = {
+      parameterCount: 1,
+      evaluate(t, w, acc) {
+        const v = t[0]! <= 1 ? t[0]! - 5 : NaN;
+        accumulateNormalEquations(acc, Float64Array.of(v), w ? Float64Array.of(1) : null, 1);
+        return acc.ssr;
+      },
+    };
+    const res = solveLeastSquares(problem, [1]);
+    expect(res.stopReason).toBe('non-finite');
+    expect(res.converged).toBe(false);
+    expect(res.theta[0]).toBe(1);
+  });
+
+  it('rejects a trial step into a NaN region and still converges', () => {
+    // r = [√θ − 2, 0.1·(θ − 3)] is NaN for θ < 0; from θ = 0.05 the first Gauss–Newton steps are
+    // long. Minimiser derived here: d/dθ[(√θ − 2)² + 0.01(θ − 3)²] = 0 → θ ≈ 3.9 (checked by
+    // a finite gradient below rather than pinned).
+    const r = new Float64Array(2);
+    const J = new Float64Array(2);
+    const problem: LeastSquaresProblem = {
+      parameterCount: 1,
+      evaluate(t, w, acc) {
+        const s = Math.sqrt(t[0]!);
+        r[0] = s - 2;
+        r[1] = 0.1 * (t[0]! - 3);
+        J[0] = 0.5 / s;
+        J[1] = 0.1;
+        accumulateNormalEquations(acc, r, w ? J : null, 2);
+        return acc.ssr;
+      },
+    };
+    const res = solveLeastSquares(problem, [0.05]);
+    expect(res.converged).toBe(true);
+    expect(Math.abs(res.gradient[0]!)).toBeLessThan(1e-9);
+    expect(res.theta[0]!).toBeGreaterThan(3);
+  });
+});
+
+describe('solveLeastSquares validates its inputs', () => {
+  const ok = rosenbrock();
+  it('throws TypeError for a start of the wrong length, naming the lengths', () => {
+    expect(() => solveLeastSquares(ok, [1])).toThrow(TypeError);
+    expect(() => solveLeastSquares(ok, [1])).toThrow('solveLeastSquares: start must have length 2 (got 1)');
+  });
+  it('throws RangeError for a non-finite start value, naming the index', () => {
+    expect(() => solveLeastSquares(ok, [1, NaN])).toThrow(RangeError);
+    expect(() => solveLeastSquares(ok, [1, NaN])).toThrow('start[1] must be finite (got NaN)');
+  });
+  it('throws TypeError when the problem has no evaluate function', () => {
+    expect(() => solveLeastSquares({ parameterCount: 2 } as unknown as LeastSquaresProblem, [1, 1])).toThrow(
+      'problem must be an object with an evaluate function',
+    );
+  });
+  it('throws RangeError for a bad parameterCount and bad options', () => {
+    expect(() => solveLeastSquares({ ...ok, parameterCount: 0 }, [])).toThrow(
+      'problem.parameterCount must be an integer >= 1 (got 0)',
+    );
+    expect(() => solveLeastSquares(ok, [1, 1], { maxIterations: -1 })).toThrow(
+      'solveLeastSquares: options.maxIterations must be an integer >= 0 (got -1)',
+    );
+    expect(() => solveLeastSquares(ok, [1, 1], { stepTolerance: 2 })).toThrow(RangeError);
+    expect(() => solveLeastSquares(ok, [1, 1], { compensatedSums: 'yes' as unknown as boolean })).toThrow(TypeError);
+  });
+  it('createNormalEquations throws RangeError for p < 1', () => {
+    expect(() => createNormalEquations(0)).toThrow('createNormalEquations: p must be an integer >= 1 (got 0)');
+  });
+});

@@ -1,0 +1,102 @@
+import type { NormalEquations } from './types.js';
+
+/**
+ * Adds one chunk of residuals (and optionally their Jacobian) to the normal equations.
+ *
+ * Within the chunk the sums are plain dot products; the chunk totals are then added to the running
+ * sums with Neumaier's compensated summation (when `acc.compensated`), so the rounding error grows
+ * with the chunk length and not with the record length. After the call `acc.JtJ`, `acc.Jtr` and
+ * `acc.ssr` hold the current totals.
+ *
+ * Kernel: allocates nothing, never throws; non-finite inputs propagate into the sums.
+ *
+ * ## Method
+ * Blocked summation with Neumaier's improved Kahan–Babuška compensation of the block totals.
+ *
+ * ## References
+ * A. Neumaier (1974), "Rundungsfehleranalyse einiger Verfahren zur Summation endlicher Summen",
+ * ZAMM 54(1), 39–51, doi:10.1002/zamm.19740540106.
+ *
+ * @param acc - accumulator (modified in place)
+ * @param residuals - residuals r[k], k < rows
+ * @param jacobian - column-major sensitivities: ∂r[k]/∂θⱼ at `jacobian[j * stride + k]`; null to add rᵀr only
+ * @param rows - number of rows in this chunk
+ * @param stride - distance between Jacobian columns (default `rows`)
+ * @returns the chunk's own sum of squared residuals
+ * @example
+ * const acc = createNormalEquations(1);
+ * accumulateNormalEquations(acc, Float64Array.of(1, 2), Float64Array.of(3, 4), 2);
+ * acc.JtJ[0]; // => 25
+ * acc.Jtr[0]; // => 11
+ * acc.ssr; // => 5
+ */
+export function accumulateNormalEquations(
+  acc: NormalEquations,
+  residuals: Float64Array,
+  jacobian: Float64Array | null,
+  rows: number,
+  stride: number = rows,
+): number {
+  const p = acc.p;
+  const chunk = acc.chunk;
+  const high = acc.high;
+  const low = acc.low;
+  const tri = (p * (p + 1)) / 2;
+  const last = tri + p;
+  let t = 0;
+  let s = 0;
+  let k = 0;
+  for (k = 0; k < rows; k++) s += residuals[k]! * residuals[k]!;
+  const chunkSsr = s;
+  chunk[last] = s;
+  if (jacobian !== null) {
+    for (let i = 0; i < p; i++) {
+      const oi = i * stride;
+      for (let j = i; j < p; j++) {
+        const oj = j * stride;
+        s = 0;
+        for (k = 0; k < rows; k++) s += jacobian[oi + k]! * jacobian[oj + k]!;
+        chunk[t++] = s;
+      }
+    }
+    for (let i = 0; i < p; i++) {
+      const oi = i * stride;
+      s = 0;
+      for (k = 0; k < rows; k++) s += jacobian[oi + k]! * residuals[k]!;
+      chunk[t++] = s;
+    }
+  }
+  const end = jacobian !== null ? last + 1 : 0;
+  const compensated = acc.compensated;
+  // Neumaier addition of the chunk totals (only rᵀr when no Jacobian was given).
+  for (let m = jacobian !== null ? 0 : last; m < (jacobian !== null ? end : last + 1); m++) {
+    const x = chunk[m]!;
+    const h = high[m]!;
+    const sum = h + x;
+    if (compensated) {
+      if (Math.abs(h) >= Math.abs(x)) low[m] = low[m]! + (h - sum + x);
+      else low[m] = low[m]! + (x - sum + h);
+    }
+    high[m] = sum;
+  }
+  acc.ssr = high[last]! + low[last]!;
+  acc.rows += rows;
+  if (jacobian !== null) {
+    const JtJ = acc.JtJ;
+    const Jtr = acc.Jtr;
+    t = 0;
+    for (let i = 0; i < p; i++) {
+      for (let j = i; j < p; j++) {
+        const v = high[t]! + low[t]!;
+        JtJ[i * p + j] = v;
+        JtJ[j * p + i] = v;
+        t++;
+      }
+    }
+    for (let i = 0; i < p; i++) {
+      Jtr[i] = high[t]! + low[t]!;
+      t++;
+    }
+  }
+  return chunkSsr;
+}

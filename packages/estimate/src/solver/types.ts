@@ -1,0 +1,181 @@
+/**
+ * Shared shapes of the least-squares core: the streamed problem, the accumulator it fills, the
+ * solver options and result, dense curve fits, and covariance summaries.
+ */
+
+/**
+ * Running sums of the normal equations over a residual vector r(θ) and its Jacobian J = ∂r/∂θ,
+ * built chunk by chunk so the solver never holds J. Create it with `createNormalEquations`,
+ * fill it with `accumulateNormalEquations`.
+ */
+export interface NormalEquations {
+  /** Number of parameters p. */
+  readonly p: number;
+  /** Whether chunk totals are added with Neumaier compensation (true) or plainly (false). */
+  readonly compensated: boolean;
+  /** JᵀJ, p×p row-major; both triangles are kept current after every chunk. */
+  readonly JtJ: Float64Array;
+  /** Jᵀr, length p. */
+  readonly Jtr: Float64Array;
+  /** Sum of squared residuals rᵀr accumulated so far. */
+  ssr: number;
+  /** Number of residual rows accumulated so far. */
+  rows: number;
+  /** Internal: high parts of the compensated sums (upper triangle of JᵀJ, then Jᵀr, then rᵀr). */
+  readonly high: Float64Array;
+  /** Internal: compensation terms matching `high`. */
+  readonly low: Float64Array;
+  /** Internal: per-chunk scratch matching `high`. */
+  readonly chunk: Float64Array;
+}
+
+/**
+ * A least-squares problem for `solveLeastSquares`, described only by how to evaluate it.
+ */
+export interface LeastSquaresProblem {
+  /** Number of parameters p (≥ 1). */
+  readonly parameterCount: number;
+  /**
+   * Evaluates the residuals at `theta` and returns their sum of squares. When `wantJacobian` is
+   * true it also adds JᵀJ and Jᵀr into `acc` (normally through `accumulateNormalEquations`).
+   * `acc` arrives zeroed. Return NaN or ±Infinity when the residuals cannot be computed; the
+   * solver treats that as a failed step, never as an error. Must not keep `theta` (it is reused).
+   */
+  evaluate(theta: Float64Array, wantJacobian: boolean, acc: NormalEquations): number;
+}
+
+/** Why `solveLeastSquares` stopped. */
+export type StopReason =
+  | 'relative-reduction'
+  | 'small-step'
+  | 'small-gradient'
+  | 'zero-residual'
+  | 'max-iterations'
+  | 'non-finite';
+
+/** Options of `solveLeastSquares`; `checkSolverOptions` fills the defaults. */
+export interface SolverOptions {
+  /**
+   * Most trial steps (each one evaluation of the residuals).
+   * @default 200
+   */
+  maxIterations?: number;
+  /**
+   * Stop when both the actual and the predicted relative reduction of the SSR over an accepted
+   * step are at most this value (Moré's `ftol` test).
+   * @default 1e-10
+   */
+  relativeReductionTolerance?: number;
+  /**
+   * Stop when the scaled step is at most this value times the scaled parameter norm (Moré's
+   * `xtol` test).
+   * @default 1e-10
+   */
+  stepTolerance?: number;
+  /**
+   * Stop when the largest cosine between the residual vector and a Jacobian column is at most
+   * this value (Moré's `gtol` test).
+   * @default 1e-12
+   */
+  gradientTolerance?: number;
+  /**
+   * Starting damping λ₀, relative to the scaled normal matrix (whose diagonal is ≤ 1).
+   * @default 1e-3
+   */
+  initialDamping?: number;
+  /**
+   * Add chunk totals with Neumaier compensation (true) or plainly (false).
+   * @default true
+   */
+  compensatedSums?: boolean;
+}
+
+/** The resolved options (every field present). */
+export type ResolvedSolverOptions = Required<SolverOptions>;
+
+/** What `solveLeastSquares` returns. */
+export interface SolverResult {
+  /** Best parameters found. */
+  theta: Float64Array;
+  /** Sum of squared residuals at `theta`. */
+  ssr: number;
+  /** Trial steps taken. */
+  iterations: number;
+  /** Evaluations that accumulated the normal equations. */
+  jacobianEvaluations: number;
+  /** All evaluations of the residuals (with or without the Jacobian). */
+  functionEvaluations: number;
+  /** True when a relative convergence test (or an exact fit) stopped the solver. */
+  converged: boolean;
+  /** Which test stopped the solver. */
+  stopReason: StopReason;
+  /** JᵀJ at `theta`, p×p row-major (empty-filled with NaN when it could not be evaluated). */
+  JtJ: Float64Array;
+  /** Jᵀr at `theta` (half the gradient of the SSR). */
+  gradient: Float64Array;
+  /** Number of residual rows the problem accumulated at `theta`. */
+  rows: number;
+  /** Damping λ in use when the solver stopped (relative to the scaled normal matrix). */
+  damping: number;
+}
+
+/** Predictor columns of a dense curve fit: one column, or several of equal length. */
+export type CurveInputs = Float64Array | readonly Float64Array[];
+
+/**
+ * Model of a dense curve fit: writes the predictions for every point into `out`.
+ * `x` always arrives as an array of columns.
+ */
+export type CurveModel = (theta: Float64Array, x: readonly Float64Array[], out: Float64Array) => void;
+
+/**
+ * Analytic Jacobian of a curve model: writes ∂model/∂θⱼ for point k into `out[j * n + k]`
+ * (column-major, n points).
+ */
+export type CurveJacobian = (theta: Float64Array, x: readonly Float64Array[], out: Float64Array) => void;
+
+/** Input of `fitCurve`. */
+export interface FitCurveInput {
+  /** Predictor column(s), n points each. */
+  x: CurveInputs;
+  /** Observed response, n points. */
+  y: Float64Array;
+  /** The model. */
+  model: CurveModel;
+  /** Analytic Jacobian; when absent a central-difference Jacobian with relative steps is used. */
+  jacobian?: CurveJacobian;
+  /** Starting parameters, length p. */
+  start: ArrayLike<number>;
+  /** Solver options. */
+  options?: SolverOptions;
+  /** Relative singular-value threshold of the covariance (see `covarianceFromJacobian`). */
+  rankTolerance?: number;
+}
+
+/** What `fitCurve` returns: the solver result plus residuals and covariance at the optimum. */
+export interface FitCurveResult extends SolverResult {
+  /** model − y at `theta`. */
+  residuals: Float64Array;
+  /** Covariance summary at `theta`. */
+  covariance: CovarianceSummary;
+}
+
+/** Covariance of least-squares estimates, from the Jacobian or the normal matrix at the optimum. */
+export interface CovarianceSummary {
+  /** Residual variance σ² = SSR/(n − p). */
+  residualVariance: number;
+  /** Degrees of freedom n − p. */
+  degreesOfFreedom: number;
+  /** Covariance σ²(JᵀJ)⁺, p×p row-major, restricted to the identifiable directions. */
+  covariance: Float64Array;
+  /** Standard errors √diag(covariance); NaN for parameters marked not identifiable. */
+  standardErrors: Float64Array;
+  /** Singular values of the column-scaled Jacobian, largest first. */
+  singularValues: Float64Array;
+  /** Largest over smallest singular value of the column-scaled Jacobian (Infinity when one is 0). */
+  conditionNumber: number;
+  /** Per parameter: false when it loads on a direction whose singular value was dropped. */
+  identifiable: boolean[];
+  /** Number of singular values kept. */
+  rank: number;
+}
