@@ -1,2 +1,32 @@
-/** @packageDocumentation */
-export {};
+/**
+ * `@motorprint/model` — the lumped DC-motor equations: closed-form step, locked-rotor and
+ * coast-down responses, derived figures, the exact zero-order-hold simulation with analytic
+ * parameter sensitivities (chunked for long records), the detailed nonlinear model with an
+ * event-locating adaptive integrator and energy bookkeeping, and a generator of invented bench
+ * recordings. All quantities SI; temperatures in °C.
+ * @packageDocumentation
+ */
+export type {
+  MotorParams, DetailedParams, CopperConstant, TimeBase, LinearOptions, LinearTrace, ZohMatrices,
+  SensitivityName, SensitivityState, SensitivityChunk, PoleKind, StepPoint, MotorFigures,
+  DetailedOptions, EnergyTotals, DetailedTrace, ExperimentKind, ChannelNoise, RecordingOptions,
+  RecordingColumn, CommandedInput, RecordingTruth, GeneratedRecording,
+} from './types.js';
+export { checkMotorParams } from './checkMotorParams.js';
+export { zohInto } from './zohInto.js';
+export { zohSensitivitiesInto } from './zohSensitivitiesInto.js';
+export { simulateInto } from './simulateInto.js';
+export { simulate } from './simulate.js';
+export { createSensitivityState } from './createSensitivityState.js';
+export { simulateChunkInto } from './simulateChunkInto.js';
+export { simulateWithSensitivities } from './simulateWithSensitivities.js';
+export { stepResponse } from './stepResponse.js';
+export { motorFigures } from './motorFigures.js';
+export { lockedRotorResponse } from './lockedRotorResponse.js';
+export { coastDownResponse } from './coastDownResponse.js';
+export { copperResistance } from './copperResistance.js';
+export { simulateDetailed } from './simulateDetailed.js';
+export { createRandom } from './createRandom.js';
+export { prbsBits } from './prbsBits.js';
+export { generateRecording } from './generateRecording.js';
+export { formatRecordingCsv } from './formatRecordingCsv.js';
