@@ -29,9 +29,10 @@ function nistTable(): void {
   console.log('    ours: solveLeastSquares via fitCurve, tolerances 1e-15; fd = central differences;');
   console.log('    ml-lm: fitCurveWithMlLm (theta/theta0 scaling, central differences, rounds of 10, relative stop 1e-12, cap 2000 it.)');
   console.log(
-    `${'dataset'.padEnd(9)} st | ${pad('it', 5)} ${pad('ms', 6)} ${pad('LRE', 5)} | ${pad('fd LRE', 6)} | ${pad('ml it', 6)} ${pad('ms', 7)} ${pad('LRE', 5)}`,
+    `${'dataset'.padEnd(9)} st | ${pad('it', 5)} ${pad('ms', 6)} ${pad('LRE', 5)} ${'stop'.padEnd(18)} | ${pad('fd LRE', 6)} | ${pad('ml it', 6)} ${pad('ms', 7)} ${pad('LRE', 5)}`,
   );
   let oursOk = 0;
+  let oursConverged = 0;
   let mlOk = 0;
   for (const name of STRD_NAMES) {
     const ds = loadStrd(name);
@@ -59,13 +60,14 @@ function nistTable(): void {
       const mlMs = performance.now() - t0;
       const lre = Math.min(...ours.parameterLre);
       if (lre >= 6) oursOk++;
+      if (ours.fit.converged) oursConverged++;
       if (mlLre >= 6) mlOk++;
       console.log(
-        `${name.padEnd(9)} ${start}  | ${pad(ours.fit.iterations, 5)} ${pad(oursMs.toFixed(1), 6)} ${pad(lre.toFixed(1), 5)} | ${pad(Math.min(...fd.parameterLre).toFixed(1), 6)} | ${pad(mlIt, 6)} ${pad(mlMs.toFixed(1), 7)} ${pad(mlLre.toFixed(1), 5)}`,
+        `${name.padEnd(9)} ${start}  | ${pad(ours.fit.iterations, 5)} ${pad(oursMs.toFixed(1), 6)} ${pad(lre.toFixed(1), 5)} ${ours.fit.stopReason.padEnd(18)} | ${pad(Math.min(...fd.parameterLre).toFixed(1), 6)} | ${pad(mlIt, 6)} ${pad(mlMs.toFixed(1), 7)} ${pad(mlLre.toFixed(1), 5)}`,
       );
     }
   }
-  console.log(`runs with LRE >= 6: ours ${oursOk}/54, ml-lm adapter ${mlOk}/54`);
+  console.log(`runs with LRE >= 6: ours ${oursOk}/54 (reporting converged: ${oursConverged}/54), ml-lm adapter ${mlOk}/54`);
 }
 
 /** Deterministic Gaussian noise (mulberry32 + Box–Muller), invented for the bench. */

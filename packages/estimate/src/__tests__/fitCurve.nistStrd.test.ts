@@ -44,7 +44,8 @@ const TABLE: Record<(typeof STRD_NAMES)[number], Row> = {
   Hahn1: { start1: 9, start2: 7, rss: 9, sd: 8 },
   // b2 = 5.6e-9 with an SD of 6.1e-9: the SSR is flat to ~1e-15 relative over the last digits;
   // Start 2 stops at LRE 6.5 (derived here), so the stated 6 has half a digit of margin.
-  Nelson: { start1: 8, start2: 6, rss: 9, sd: 6 },
+  // Start 1 reaches LRE 7.2 with the default trust region (9.1 without it; derived here): stated 6.
+  Nelson: { start1: 6, start2: 6, rss: 9, sd: 6 },
   MGH17: { start1: 8, start2: 9, rss: 9, sd: 8 },
   // Certified RSS 1.43e-25 cannot be reproduced in double precision from 11-digit data (MANIFEST.md);
   // the SDs scale with √RSS, so they are checked after rescaling to the certified σ² instead.
@@ -58,15 +59,18 @@ const TABLE: Record<(typeof STRD_NAMES)[number], Row> = {
   ENSO: { start1: 6, start2: 6, rss: 9, sd: 7 },
   MGH09: { start1: 7, start2: 6, rss: 9, sd: 6 },
   Thurber: { start1: 7, start2: 6, rss: 9, sd: 5 },
-  // Start 1 (b2 = 1): the first steps drive b2 → ~115, where exp(−b2·x) ≈ 0 and the model is the
-  // constant b1 = mean(y); SSR 9771.5 on a plateau with zero gradient in b2. Documented failure.
-  BoxBOD: { start1: null, start2: 6, rss: 9, sd: 6 },
+  // Start 1 (b2 = 1): without a trust region the first Gauss–Newton steps drive b2 → ~115, onto the
+  // plateau b1 = mean(y) (SSR 9771.5). With the default initialStepBound 1 it reaches LRE 8.6
+  // (derived here), stated 7.
+  BoxBOD: { start1: 7, start2: 6, rss: 9, sd: 6 },
   Rat42: { start1: 8, start2: 9, rss: 9, sd: 8 },
   // Start 1 (b1 = 2, b2 = 4e5, b3 = 2.5e4): the solver drifts to b1 → 0 along a valley and stops on
-  // a tiny step after ~2000 trials, SSR ≈ 1.45e6 vs the certified 87.9. Documented failure.
+  // a tiny step after ~2000 trials, SSR ≈ 1.45e6 vs the certified 87.9, with r almost inside the
+  // column space of J (stationarity ≈ 1.0). Documented failure, reported as 'stalled', not converged.
   MGH10: { start1: null, start2: 9, rss: 9, sd: 9 },
   Eckerle4: { start1: 8, start2: 8, rss: 9, sd: 8 },
-  Rat43: { start1: 8, start2: 8, rss: 9, sd: 7 },
+  // Start 1 reaches LRE 7.7 with the default trust region (9.6 without it; derived here): stated 6.
+  Rat43: { start1: 6, start2: 8, rss: 9, sd: 7 },
   Bennett5: { start1: 6, start2: 6, rss: 9, sd: 6 },
 };
 
@@ -81,12 +85,18 @@ describe('fitCurve on NIST StRD nonlinear datasets (analytic Jacobians)', () => 
           const { fit, parameterLre } = fitStrd(ds, start);
           expect(Math.min(...parameterLre)).toBeLessThan(1);
           expect(fit.ssr).toBeGreaterThan(2 * ds.certifiedRss);
+          // Honest report: a stop away from a stationary point is not convergence.
+          expect(fit.converged).toBe(false);
+          expect(fit.stopReason).toBe('stalled');
         });
         continue;
       }
       it(`NIST StRD ${name} from Start ${start}: parameters agree to >= ${wanted} digits, converged`, () => {
         const { fit, parameterLre, rssLre, sdLre } = fitStrd(ds, start);
         expect(fit.converged, `${name} stopReason ${fit.stopReason}`).toBe(true);
+        // Default stationarityTolerance 1e-3 (Bates & Watts' level); observed at most 2.5e-6 except
+        // Lanczos1 (≈1e-3, rounding-level residuals, accepted through its negligible Gauss–Newton step).
+        if (name !== 'Lanczos1') expect(fit.stationarity).toBeLessThan(1e-3);
         parameterLre.forEach((lre, j) => {
           expect(lre, `${name} start ${start} b${j + 1} = ${fit.theta[j]} vs ${ds.certified[j]}`).toBeGreaterThanOrEqual(
             wanted,
@@ -124,7 +134,7 @@ describe('fitCurve on NIST StRD from Start 2 with central-difference Jacobians',
     it(`NIST StRD ${name} from Start 2, numerical Jacobian: parameters >= 6 digits, SDs >= 4 digits`, () => {
       const ds = loadStrd(name);
       const { fit, parameterLre, sdLre } = fitStrd(ds, 2, false);
-      expect(fit.converged).toBe(true);
+      expect(fit.converged, `${name} stopReason ${fit.stopReason}`).toBe(true);
       for (const lre of parameterLre) expect(lre).toBeGreaterThanOrEqual(6);
       if (name !== 'Lanczos1') for (const lre of sdLre) expect(lre).toBeGreaterThanOrEqual(4);
     });

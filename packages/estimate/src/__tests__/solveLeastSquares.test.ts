@@ -167,6 +167,49 @@ describe('solveLeastSquares stops and reports honestly', () => {
     expect(res.iterations).toBe(2);
   });
 
+  it("reports a stop on a tiny step away from a stationary point as 'stalled', not converged", () => {
+    // Contrived stall: r = θ − 5 with a Jacobian of the wrong sign (J = −1, a typical user bug).
+    // Every predicted step goes uphill, λ grows until the step test fires, yet r (= −5 at θ = 0)
+    // lies entirely in the column space of J: stationarity = 1 (derived here: |Jᵀr|/(‖J‖‖r‖) = 1).
+    const problem: LeastSquaresProblem = {
+      parameterCount: 1,
+      evaluate(t, w, acc) {
+        accumulateNormalEquations(acc, Float64Array.of(t[0]! - 5), w ? Float64Array.of(-1) : null, 1);
+        return acc.ssr;
+      },
+    };
+    const res = solveLeastSquares(problem, [0]);
+    expect(res.stopReason).toBe('stalled');
+    expect(res.converged).toBe(false);
+    expectClose(res.stationarity, 1, { abs: 1e-12 }, 'stationarity');
+    expect(res.theta[0]).toBe(0);
+  });
+
+  it('bounds the first step by initialStepBound·‖Dθ₀‖ and validates the new options', () => {
+    // r = θ − 1000 from θ = 1 (D = 1): the Gauss–Newton step is 999; with factor 1 the first
+    // accepted step is at most 1.1·‖Dθ₀‖ = 1.1 (derived here), so θ after one iteration ≤ 2.1.
+    const problem: LeastSquaresProblem = {
+      parameterCount: 1,
+      evaluate(t, w, acc) {
+        accumulateNormalEquations(acc, Float64Array.of(t[0]! - 1000), w ? Float64Array.of(1) : null, 1);
+        return acc.ssr;
+      },
+    };
+    const one = solveLeastSquares(problem, [1], { maxIterations: 1 });
+    expect(one.theta[0]!).toBeGreaterThan(1);
+    expect(one.theta[0]!).toBeLessThanOrEqual(2.1);
+    const free = solveLeastSquares(problem, [1], { maxIterations: 1, initialStepBound: Infinity });
+    // Unbounded: one step with λ₀ = 1e-3 lands at 1 + 999/(1 + 1e-3) (derived here).
+    expectClose(free.theta[0]!, 1 + 999 / 1.001, { rel: 1e-12 }, 'unbounded step');
+    const full = solveLeastSquares(problem, [1]);
+    expect(full.converged).toBe(true);
+    expectClose(full.theta[0]!, 1000, { rel: 1e-9 }, 'bounded fit still converges');
+    expect(() => solveLeastSquares(problem, [1], { initialStepBound: 0 })).toThrow(
+      'solveLeastSquares: options.initialStepBound must be > 0 (Infinity for no bound) (got 0)',
+    );
+    expect(() => solveLeastSquares(problem, [1], { stationarityTolerance: 1 })).toThrow(RangeError);
+  });
+
   it("stops with 'non-finite' when the residuals at the start are NaN", () => {
     const res = solveLeastSquares(
       { parameterCount: 1, evaluate: (t, w, acc) => (accumulateNormalEquations(acc, Float64Array.of(Math.sqrt(t[0]!)), w ? Float64Array.of(1) : null, 1), acc.ssr) },

@@ -7,6 +7,8 @@ const DEFAULTS: ResolvedSolverOptions = {
   gradientTolerance: 1e-12,
   initialDamping: 1e-3,
   compensatedSums: true,
+  initialStepBound: 1,
+  stationarityTolerance: 1e-3,
 };
 
 /**
@@ -39,6 +41,8 @@ export function checkSolverOptions(options: SolverOptions | undefined, caller: s
   num('relativeReductionTolerance', (v) => v >= 0 && v < 1, '>= 0 and < 1');
   num('stepTolerance', (v) => v >= 0 && v < 1, '>= 0 and < 1');
   num('gradientTolerance', (v) => v >= 0 && v < 1, '>= 0 and < 1');
+  num('initialStepBound', (v) => v > 0, '> 0 (Infinity for no bound)');
+  num('stationarityTolerance', (v) => v >= 0 && v < 1, '>= 0 and < 1');
   num('initialDamping', (v) => v > 0 && Number.isFinite(v), 'finite and > 0');
   if (options.compensatedSums !== undefined) {
     if (typeof options.compensatedSums !== 'boolean') {

@@ -12,7 +12,12 @@ import type { LeastSquaresProblem, NormalEquations, SolverOptions, SolverResult,
  * Levenberg–Marquardt with Marquardt's diagonal scaling in Moré's form (D = √diag(JᵀJ), the
  * running maximum over iterations), the damped system (D⁻¹JᵀJD⁻¹ + λI) z = −D⁻¹Jᵀr, δ = D⁻¹z,
  * solved by Cholesky with a symmetric-eigendecomposition fallback, and Nielsen's damping update
- * (λ ← λ·max(1/3, 1 − (2ρ − 1)³) on success, λ ← λ·ν, ν ← 2ν on failure). A trial whose SSR is
+ * (λ ← λ·max(1/3, 1 − (2ρ − 1)³) on success, λ ← λ·ν, ν ← 2ν on failure), kept inside a trust
+ * region in the scaled variables: the first radius is Δ₀ = `initialStepBound`·‖Dθ₀‖ (MINPACK's
+ * `factor`), a step longer than 1.1Δ raises λ by Moré's Newton iteration on 1/‖z(λ)‖, and Δ
+ * becomes 2‖z‖ after a step with ρ ≥ 3/4 and ‖z‖/2 after one with ρ < 1/4 or a rejection
+ * (Moré 1978, §§4–5). The bound stops a long first Gauss–Newton step from throwing a parameter
+ * onto a plateau (NIST BoxBOD from Start 1). A trial whose SSR is
  * not finite is rejected like any bad step. Stopping tests are relative, after Moré: the actual
  * and predicted SSR reduction (`relativeReductionTolerance`), the scaled step against the scaled
  * parameter norm (`stepTolerance`), the cosine between r and the columns of J
@@ -20,12 +25,26 @@ import type { LeastSquaresProblem, NormalEquations, SolverOptions, SolverResult,
  * points are evaluated with the Jacobian after an accepted step and without it after a
  * rejected one (then re-evaluated with it if accepted).
  *
+ * A reduction or step test only counts as convergence at a first-order stationary point: with
+ * unit-norm columns, the cosine between r and the column space of J, ‖P_J r‖/‖r‖ (the relative
+ * offset of Bates & Watts; its square is the fraction of rᵀr a Gauss–Newton step could still
+ * remove, the quantity behind the relative-function test of Dennis, Gay & Welsch), must be at
+ * most `stationarityTolerance` (default 10⁻³, Bates & Watts' suggested level), or the
+ * Gauss–Newton step must be below √ε of the scaled parameters (the zero-residual case, where
+ * the cosine need not shrink). Otherwise the stop is reported as `'stalled'`, `converged: false`.
+ *
  * ## References
  * - K. Levenberg (1944), Q. Appl. Math. 2, 164–168, doi:10.1090/qam/10666.
  * - D. W. Marquardt (1963), SIAM J. Appl. Math. 11(2), 431–441, doi:10.1137/0111030.
  * - J. J. Moré (1978), "The Levenberg–Marquardt algorithm: implementation and theory",
  *   Lecture Notes in Mathematics 630, 105–116, doi:10.1007/BFb0067700.
  * - H. B. Nielsen (1999), "Damping parameter in Marquardt's method", IMM-REP-1999-05, DTU.
+ * - J. J. Moré, B. S. Garbow, K. E. Hillstrom (1980), "User guide for MINPACK-1", ANL-80-74
+ *   (`factor`: initial step bound, recommended in [0.1, 100]).
+ * - D. M. Bates, D. G. Watts (1981), "A relative offset orthogonality convergence criterion for
+ *   nonlinear least squares", Technometrics 23(2), 179–183, doi:10.1080/00401706.1981.10486262.
+ * - J. E. Dennis, D. M. Gay, R. E. Welsch (1981), "An adaptive nonlinear least-squares
+ *   algorithm", ACM TOMS 7(3), 348–368, doi:10.1145/355958.355965.
  *
  * @param problem - parameter count and the `evaluate` callback
  * @param start - starting parameters, length p, finite
@@ -71,6 +90,9 @@ export function solveLeastSquares(
   return runLevenbergMarquardt(problem, Float64Array.from(start), opts);
 }
 
+/** √(2⁻⁵²): a Gauss–Newton step below this relative size is lost in half the working digits. */
+const SQRT_EPS = 1.4901161193847656e-8;
+
 function allFinite(a: Float64Array): boolean {
   for (let i = 0; i < a.length; i++) if (!Number.isFinite(a[i]!)) return false;
   return true;
@@ -89,6 +111,7 @@ function runLevenbergMarquardt(
   const A = new Float64Array(p * p);
   const b = new Float64Array(p);
   const z = new Float64Array(p);
+  const q = new Float64Array(p);
   const work = new Float64Array(p * p);
   const { maxIterations, relativeReductionTolerance: ftol, stepTolerance: xtol, gradientTolerance: gtol } = opts;
 
@@ -99,26 +122,49 @@ function runLevenbergMarquardt(
   let lambda = opts.initialDamping;
   let nu = 2;
   let trialWithJacobian = true;
+  let radius = Infinity;
 
-  const finish = (stopReason: StopReason, converged: boolean): SolverResult => ({
-    theta,
-    ssr,
-    iterations,
-    jacobianEvaluations,
-    functionEvaluations,
-    converged,
-    stopReason,
-    JtJ: Float64Array.from(cur.JtJ),
-    gradient: Float64Array.from(cur.Jtr),
-    rows: cur.rows,
-    damping: lambda,
-  });
+  const finish = (stopReason: StopReason, converged: boolean): SolverResult => {
+    let stationarity = NaN;
+    if (stopReason !== 'non-finite') {
+      const m = measureStationarity(cur, ssr, theta, A, b, z, work);
+      stationarity = m.cosine;
+      // A step or reduction test met away from a stationary point is a stall, not convergence.
+      if (
+        converged &&
+        (stopReason === 'relative-reduction' || stopReason === 'small-step') &&
+        !(m.cosine <= opts.stationarityTolerance || m.step <= SQRT_EPS)
+      ) {
+        stopReason = 'stalled';
+        converged = false;
+      }
+    }
+    return {
+      theta,
+      ssr,
+      iterations,
+      jacobianEvaluations,
+      functionEvaluations,
+      converged,
+      stopReason,
+      JtJ: Float64Array.from(cur.JtJ),
+      gradient: Float64Array.from(cur.Jtr),
+      rows: cur.rows,
+      damping: lambda,
+      stationarity,
+    };
+  };
 
   if (!Number.isFinite(ssr) || !allFinite(cur.JtJ) || !allFinite(cur.Jtr)) return finish('non-finite', false);
   if (ssr === 0) return finish('zero-residual', true);
   for (let j = 0; j < p; j++) {
     const djj = Math.sqrt(cur.JtJ[j * p + j]!);
     d[j] = djj > 0 ? djj : 1;
+  }
+  if (Number.isFinite(opts.initialStepBound)) {
+    let dx = 0;
+    for (let j = 0; j < p; j++) dx += d[j]! * theta[j]! * (d[j]! * theta[j]!);
+    radius = dx > 0 ? opts.initialStepBound * Math.sqrt(dx) : opts.initialStepBound;
   }
 
   for (;;) {
@@ -152,8 +198,16 @@ function runLevenbergMarquardt(
     // Inner loop: raise λ until a step is accepted or a test stops the run.
     for (;;) {
       if (iterations >= maxIterations) return finish('max-iterations', false);
-      const how = solveDampedStep(A, lambda, b, p, z, work);
+      let how = solveDampedStep(A, lambda, b, p, z, work);
       iterations++;
+      if (how !== 'failed' && radius < Infinity) {
+        const fitted = fitDampingToRadius(A, b, p, z, work, q, lambda, radius, how);
+        if (fitted !== lambda) {
+          lambda = fitted;
+          how = Number.isFinite(fitted) ? 'cholesky' : 'failed';
+          if (!Number.isFinite(fitted)) lambda = 1e300;
+        }
+      }
       if (how === 'failed') {
         lambda *= nu;
         nu *= 2;
@@ -193,6 +247,7 @@ function runLevenbergMarquardt(
         theta.set(trial);
         const oldSsr = ssr;
         ssr = trialSsr;
+        if (rho >= 0.25 && 2 * stepNorm > radius) radius = 2 * stepNorm;
         const t = 2 * rho - 1;
         lambda *= Math.max(1 / 3, 1 - t * t * t);
         if (lambda < 1e-300) lambda = 1e-300;
@@ -218,4 +273,97 @@ function runLevenbergMarquardt(
       if (!(lambda < 1e300)) return finish(finite ? 'small-step' : 'non-finite', finite);
     }
   }
+}
+
+/**
+ * Raises the damping until the scaled step fits the trust radius (‖z‖ ≤ 1.1·Δ) with Moré's
+ * Newton iteration on φ(λ) = 1/Δ − 1/‖z(λ)‖, whose derivative comes from the Cholesky factor L of
+ * A + λI: λ ← λ + (‖z‖/‖L⁻¹z‖)²·(‖z‖ − Δ)/Δ (Moré 1978, §5; monotone from below). Leaves z solved
+ * for the returned λ; returns `lambda` itself when the step already fits and NaN when no
+ * factorisation succeeds.
+ */
+function fitDampingToRadius(
+  A: Float64Array,
+  b: Float64Array,
+  p: number,
+  z: Float64Array,
+  work: Float64Array,
+  q: Float64Array,
+  lambda: number,
+  radius: number,
+  how: 'cholesky' | 'eigen',
+): number {
+  let zn = 0;
+  for (let j = 0; j < p; j++) zn += z[j]! * z[j]!;
+  zn = Math.sqrt(zn);
+  if (zn <= 1.1 * radius) return lambda;
+  let lam = lambda;
+  for (let it = 0; it < 30; it++) {
+    let next: number;
+    if (how === 'cholesky') {
+      let qn = 0;
+      for (let i = 0; i < p; i++) {
+        let s = z[i]!;
+        for (let k = 0; k < i; k++) s -= work[i * p + k]! * q[k]!;
+        const qi = s / work[i * p + i]!;
+        q[i] = qi;
+        qn += qi * qi;
+      }
+      next = lam + ((zn * zn) / qn) * ((zn - radius) / radius);
+      if (!(next > lam)) next = 2 * lam;
+    } else {
+      next = 4 * lam;
+    }
+    lam = next;
+    const h = solveDampedStep(A, lam, b, p, z, work);
+    if (h === 'failed') return NaN;
+    how = h;
+    zn = 0;
+    for (let j = 0; j < p; j++) zn += z[j]! * z[j]!;
+    zn = Math.sqrt(zn);
+    if (zn <= 1.1 * radius) return lam;
+  }
+  return lam;
+}
+
+/**
+ * First-order optimality at the stopping point, from JᵀJ, Jᵀr and rᵀr alone: with the columns of
+ * J scaled to unit norm (C = √diag JᵀJ), the Gauss–Newton step z = (C⁻¹JᵀJC⁻¹)⁺C⁻¹Jᵀr gives
+ * ‖P_J r‖² = zᵀC⁻¹Jᵀr, the part of rᵀr a Gauss–Newton step could still remove. Returns the cosine
+ * of the angle between r and the column space of J, ‖P_J r‖/‖r‖, and the scaled Gauss–Newton
+ * step relative to the scaled parameters, ‖z‖/‖Cθ‖. Uses A, b, z, work as scratch.
+ */
+function measureStationarity(
+  acc: NormalEquations,
+  ssr: number,
+  theta: Float64Array,
+  A: Float64Array,
+  b: Float64Array,
+  z: Float64Array,
+  work: Float64Array,
+): { cosine: number; step: number } {
+  const p = acc.p;
+  const JtJ = acc.JtJ;
+  const g = acc.Jtr;
+  if (!(ssr > 0)) return { cosine: 0, step: 0 };
+  let thetaNorm2 = 0;
+  for (let i = 0; i < p; i++) {
+    const cii = Math.sqrt(JtJ[i * p + i]!);
+    const ci = cii > 0 ? cii : 1;
+    for (let j = 0; j < p; j++) {
+      const cjj = Math.sqrt(JtJ[j * p + j]!);
+      A[i * p + j] = JtJ[i * p + j]! / (ci * (cjj > 0 ? cjj : 1));
+    }
+    b[i] = g[i]! / ci;
+    thetaNorm2 += ci * theta[i]! * (ci * theta[i]!);
+  }
+  if (solveDampedStep(A, 0, b, p, z, work) === 'failed') return { cosine: NaN, step: NaN };
+  let projected = 0;
+  let step2 = 0;
+  for (let j = 0; j < p; j++) {
+    projected += z[j]! * b[j]!;
+    step2 += z[j]! * z[j]!;
+  }
+  const cosine = Math.sqrt((projected > 0 ? (projected < ssr ? projected : ssr) : 0) / ssr);
+  return { cosine, step: Math.sqrt(step2) / (thetaNorm2 > 0 ? Math.sqrt(thetaNorm2) : 1) };
 }

@@ -50,6 +50,7 @@ export type StopReason =
   | 'small-step'
   | 'small-gradient'
   | 'zero-residual'
+  | 'stalled'
   | 'max-iterations'
   | 'non-finite';
 
@@ -88,6 +89,20 @@ export interface SolverOptions {
    * @default true
    */
   compensatedSums?: boolean;
+  /**
+   * Initial trust radius as a multiple of the scaled start norm, Δ₀ = factor·‖Dθ₀‖ (MINPACK's
+   * `factor`, recommended in [0.1, 100]); `Infinity` switches the trust region off. The default 1
+   * keeps BoxBOD (NIST StRD, Start 1) from jumping onto its plateau and left the other 53 NIST
+   * runs within a few iterations of the unbounded solver.
+   * @default 1
+   */
+  initialStepBound?: number;
+  /**
+   * Largest cosine between r and the column space of J at which a reduction or step stop counts
+   * as converged (Bates & Watts' relative-offset level); above it the stop is `'stalled'`.
+   * @default 1e-3
+   */
+  stationarityTolerance?: number;
 }
 
 /** The resolved options (every field present). */
@@ -105,7 +120,10 @@ export interface SolverResult {
   jacobianEvaluations: number;
   /** All evaluations of the residuals (with or without the Jacobian). */
   functionEvaluations: number;
-  /** True when a relative convergence test (or an exact fit) stopped the solver. */
+  /**
+   * True when a relative convergence test stopped the solver at a first-order stationary point
+   * (see `stationarity`), or at an exact fit.
+   */
   converged: boolean;
   /** Which test stopped the solver. */
   stopReason: StopReason;
@@ -117,6 +135,12 @@ export interface SolverResult {
   rows: number;
   /** Damping λ in use when the solver stopped (relative to the scaled normal matrix). */
   damping: number;
+  /**
+   * Cosine of the angle between the residual vector and the column space of J at `theta`
+   * (‖P_J r‖/‖r‖; 0 at an exact stationary point, 1 when a Gauss–Newton step could remove all
+   * of rᵀr); NaN after a non-finite stop.
+   */
+  stationarity: number;
 }
 
 /** Predictor columns of a dense curve fit: one column, or several of equal length. */
