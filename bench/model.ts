@@ -1,6 +1,12 @@
 /**
  * Bench for @motorprint/model: memory floor, linear ZOH pass, chunked pass with sensitivities,
  * detailed model with friction. Goal: linear pass ≤ 3× the floor. Timings live here, not in tests.
+ *
+ * Floors: (a) sums the input with one accumulator — the issue's floor. Its loop carries one add per
+ * element, so on some machines it measures add latency rather than memory; (a′) reads the same array
+ * once with four accumulators (the same arithmetic, no chain), which is the lower, stricter floor;
+ * (a″) reads the input and writes two outputs, the memory traffic the linear pass really has.
+ * Both ratios are printed; the goal line uses (a) and the stricter ratio is shown beside it.
  */
 import { createSensitivityState, simulateChunkInto, simulateDetailed, simulateInto } from '../packages/model/src/index.js'; // the root has no workspace link to the package
 
@@ -21,8 +27,19 @@ export default async function run(): Promise<void> {
   const v = new Float64Array(n);
   for (let k = 0; k < n; k++) v[k] = 6 + 6 * Math.sin(k / 500);
   const out = { current: new Float64Array(n), speed: new Float64Array(n) };
-  const floor = best(15, () => { let s = 0; for (let k = 0; k < n; k++) s += v[k]!; return s; });
-  const lin = best(15, () => { simulateInto(out, motor, v, 1e-4); return out.speed[n - 1]!; });
+  const floor = best(25, () => { let s = 0; for (let k = 0; k < n; k++) s += v[k]!; return s; });
+  const floor4 = best(25, () => {
+    let s0 = 0, s1 = 0, s2 = 0, s3 = 0, k = 0;
+    for (; k + 3 < n; k += 4) { s0 += v[k]!; s1 += v[k + 1]!; s2 += v[k + 2]!; s3 += v[k + 3]!; }
+    for (; k < n; k++) s0 += v[k]!;
+    return s0 + s1 + (s2 + s3);
+  });
+  const copy2 = best(25, () => {
+    const c = out.current, w = out.speed;
+    for (let k = 0; k < n; k++) { const x = v[k]!; c[k] = x; w[k] = x; }
+    return w[n - 1]!;
+  });
+  const lin = best(25, () => { simulateInto(out, motor, v, 1e-4); return out.speed[n - 1]!; });
   const m = 4096;
   const ch = { current: new Float64Array(m), speed: new Float64Array(m), currentSensitivity: new Float64Array(8 * m), speedSensitivity: new Float64Array(8 * m) };
   const sens = best(5, () => {
@@ -46,6 +63,8 @@ export default async function run(): Promise<void> {
   });
   const rows: [string, number, number][] = [
     ['(a) read 1e6 Float64Array (floor)', floor.ms, n],
+    ["(a′) same read, 4 accumulators", floor4.ms, n],
+    ["(a″) read 1e6 + write 2×1e6 (traffic of b)", copy2.ms, n],
     ['(b) linear ZOH pass, 1e6 samples', lin.ms, n],
     ['(c) ZOH + 8 sensitivities, chunked', sens.ms, n],
     [`(d) detailed, 10 s @ 10 kHz, Tc+Ts+cd (${steps} steps)`, det.ms, nd],
@@ -58,6 +77,8 @@ export default async function run(): Promise<void> {
     console.log(`${pad(name, 52)}${ms.toFixed(2).padStart(10)}${ns.toFixed(2).padStart(12)}${ratio.toFixed(1).padStart(10)}`);
   }
   const ratio = lin.ms / floor.ms;
-  console.log(`\ngoal: linear pass ≤ 3× floor → ${ratio.toFixed(2)}× ${ratio <= 3 ? 'MET' : 'NOT MET'}`);
-  if (floor.sink + lin.sink + sens.sink + det.sink === 0.123456789) console.log(''); // keep results alive
+  const strict = lin.ms / floor4.ms;
+  console.log(`\ngoal: linear pass ≤ 3× floor (a) → ${ratio.toFixed(2)}× ${ratio <= 3 ? 'MET' : 'NOT MET'}` +
+    `; against (a′): ${strict.toFixed(2)}× ${strict <= 3 ? 'MET' : 'NOT MET'}`);
+  if (floor.sink + floor4.sink + copy2.sink + lin.sink + sens.sink + det.sink === 0.123456789) console.log(''); // keep results alive
 }
