@@ -5,7 +5,10 @@
  *  (b) an invented long record (two decays plus offset, p = 5, seeded Gaussian noise) streamed in
  *      chunks of 4096 at 1e4, 1e5, 1e6 samples, vs ml-levenberg-marquardt 5.1 with its analytic
  *      `jacobianFunction` at 1e4 and 1e5;
- *  (c) whether compensated summation matters for the SSR at 1e6 samples.
+ *  (c) whether compensated summation matters for the SSR at 1e6 samples;
+ *  (d) accumulation of the normal equations alone (p = 5, 8, 12 at 1e6 rows): the current
+ *      single-pass kernels vs the previous one-pass-per-entry implementation (kept below as a
+ *      private reference copy, `accumulateOnePassPerEntry`).
  * Speed goals (5-parameter fit): <= 0.1 s at 1e5 samples, <= 1 s at 1e6.
  */
 // The root package does not depend on the workspace packages, so the bench reaches them by path.
@@ -17,6 +20,7 @@ import {
   logRelativeError,
   solveLeastSquares,
   type LeastSquaresProblem,
+  type NormalEquations,
 } from '../packages/estimate/src/index.js';
 import { fitStrd, strdResponse } from '../packages/estimate/src/__tests__/strd/fitStrd.js';
 import { loadStrd } from '../packages/estimate/src/__tests__/strd/loadStrd.js';
@@ -70,6 +74,83 @@ function nistTable(): void {
   console.log(`runs with LRE >= 6: ours ${oursOk}/54 (reporting converged: ${oursConverged}/54), ml-lm adapter ${mlOk}/54`);
 }
 
+/**
+ * Reference copy of the previous `accumulateNormalEquations` (before the single-pass kernels):
+ * one pass over the rows per entry of JᵀJ, Jᵀr and rᵀr, i.e. p(p+1)/2 + p + 1 passes. Same
+ * results bit for bit; kept only for the before/after timing.
+ */
+function accumulateOnePassPerEntry(
+  acc: NormalEquations,
+  residuals: Float64Array,
+  jacobian: Float64Array | null,
+  rows: number,
+  stride: number = rows,
+): number {
+  const p = acc.p;
+  const chunk = acc.chunk;
+  const high = acc.high;
+  const low = acc.low;
+  const tri = (p * (p + 1)) / 2;
+  const last = tri + p;
+  let t = 0;
+  let s = 0;
+  let k = 0;
+  for (k = 0; k < rows; k++) s += residuals[k]! * residuals[k]!;
+  const chunkSsr = s;
+  chunk[last] = s;
+  if (jacobian !== null) {
+    for (let i = 0; i < p; i++) {
+      const oi = i * stride;
+      for (let j = i; j < p; j++) {
+        const oj = j * stride;
+        s = 0;
+        for (k = 0; k < rows; k++) s += jacobian[oi + k]! * jacobian[oj + k]!;
+        chunk[t++] = s;
+      }
+    }
+    for (let i = 0; i < p; i++) {
+      const oi = i * stride;
+      s = 0;
+      for (k = 0; k < rows; k++) s += jacobian[oi + k]! * residuals[k]!;
+      chunk[t++] = s;
+    }
+  }
+  const end = jacobian !== null ? last + 1 : 0;
+  const compensated = acc.compensated;
+  for (let m = jacobian !== null ? 0 : last; m < (jacobian !== null ? end : last + 1); m++) {
+    const x = chunk[m]!;
+    const h = high[m]!;
+    const sum = h + x;
+    if (compensated) {
+      if (Math.abs(h) >= Math.abs(x)) low[m] = low[m]! + (h - sum + x);
+      else low[m] = low[m]! + (x - sum + h);
+    }
+    high[m] = sum;
+  }
+  acc.ssr = high[last]! + low[last]!;
+  acc.rows += rows;
+  if (jacobian !== null) {
+    const JtJ = acc.JtJ;
+    const Jtr = acc.Jtr;
+    t = 0;
+    for (let i = 0; i < p; i++) {
+      for (let j = i; j < p; j++) {
+        const v = high[t]! + low[t]!;
+        JtJ[i * p + j] = v;
+        JtJ[j * p + i] = v;
+        t++;
+      }
+    }
+    for (let i = 0; i < p; i++) {
+      Jtr[i] = high[t]! + low[t]!;
+      t++;
+    }
+  }
+  return chunkSsr;
+}
+
+type Accumulate = typeof accumulateNormalEquations;
+
 /** Deterministic Gaussian noise (mulberry32 + Box–Muller), invented for the bench. */
 function noise(n: number, sigma: number, seed: number): Float64Array {
   let a = seed >>> 0;
@@ -101,7 +182,7 @@ function makeRecord(n: number): { t: Float64Array; y: Float64Array } {
   return { t, y };
 }
 
-function twoDecayProblem(t: Float64Array, y: Float64Array): LeastSquaresProblem {
+function twoDecayProblem(t: Float64Array, y: Float64Array, accumulate: Accumulate = accumulateNormalEquations): LeastSquaresProblem {
   const r = new Float64Array(CHUNK);
   const J = new Float64Array(CHUNK * 5);
   const n = t.length;
@@ -128,7 +209,7 @@ function twoDecayProblem(t: Float64Array, y: Float64Array): LeastSquaresProblem 
             J[4 * rows + i] = 1;
           }
         }
-        accumulateNormalEquations(acc, r, want ? J : null, rows);
+        accumulate(acc, r, want ? J : null, rows);
       }
       return acc.ssr;
     },
@@ -139,7 +220,8 @@ function longTable(): void {
   console.log('\n(b) invented record y = 2e^(-3t) + 0.8e^(-0.4t) + 0.1 + N(0, 0.01²), p = 5, chunks of 4096');
   console.log('    ours: solveLeastSquares, default tolerances; ml-lm: levenbergMarquardt 5.1 with analytic jacobianFunction,');
   console.log('    errorTolerance 0, 30 iterations (it has no relative stop), weights 1; time = median of 3 (ours), 1 run (ml-lm)');
-  console.log(`${pad('n', 8)} | ${pad('ours ms', 8)} ${pad('it', 4)} ${pad('J ev', 5)} ${pad('f ev', 5)} ${'stop'.padEnd(18)} ${pad('max rel err', 11)} | ${pad('ml-lm ms', 9)} ${pad('ms/it', 7)} ${pad('max rel err', 11)}`);
+  console.log('    ours ms = current accumulation; old-acc ms = same fit with the previous one-pass-per-entry accumulation');
+  console.log(`${pad('n', 8)} | ${pad('ours ms', 8)} ${pad('old-acc ms', 10)} ${pad('it', 4)} ${pad('J ev', 5)} ${pad('f ev', 5)} ${'stop'.padEnd(18)} ${pad('max rel err', 11)} | ${pad('ml-lm ms', 9)} ${pad('ms/it', 7)} ${pad('max rel err', 11)}`);
   for (const n of [1e4, 1e5, 1e6]) {
     const { t, y } = makeRecord(n);
     const problem = twoDecayProblem(t, y);
@@ -151,6 +233,18 @@ function longTable(): void {
       times.push(performance.now() - t0);
     }
     times.sort((a, b) => a - b);
+    const oldProblem = twoDecayProblem(t, y, accumulateOnePassPerEntry);
+    const oldTimes: number[] = [];
+    let oldRes = solveLeastSquares(oldProblem, START);
+    for (let rep = 0; rep < 3; rep++) {
+      const t0 = performance.now();
+      oldRes = solveLeastSquares(oldProblem, START);
+      oldTimes.push(performance.now() - t0);
+    }
+    oldTimes.sort((a, b) => a - b);
+    if (oldRes.iterations !== res.iterations || oldRes.theta.some((v, j) => v !== res.theta[j])) {
+      console.log(`    !! n = ${n}: old and current accumulation gave different fits`);
+    }
     const err = Math.max(...TRUE.map((v, j) => Math.abs(res.theta[j]! - v) / Math.abs(v)));
     let ml = `${pad('skipped', 9)} ${pad('', 7)} ${pad('', 11)}`;
     if (n <= 1e5) {
@@ -176,7 +270,7 @@ function longTable(): void {
       ml = `${pad(ms.toFixed(0), 9)} ${pad((ms / out.iterations).toFixed(1), 7)} ${pad(mlErr.toExponential(2), 11)}`;
     }
     console.log(
-      `${pad(n, 8)} | ${pad(times[1]!.toFixed(1), 8)} ${pad(res.iterations, 4)} ${pad(res.jacobianEvaluations, 5)} ${pad(res.functionEvaluations, 5)} ${res.stopReason.padEnd(18)} ${pad(err.toExponential(2), 11)} | ${ml}`,
+      `${pad(n, 8)} | ${pad(times[1]!.toFixed(1), 8)} ${pad(oldTimes[1]!.toFixed(1), 10)} ${pad(res.iterations, 4)} ${pad(res.jacobianEvaluations, 5)} ${pad(res.functionEvaluations, 5)} ${res.stopReason.padEnd(18)} ${pad(err.toExponential(2), 11)} | ${ml}`,
     );
   }
   console.log('    ml-lm at 1e6 skipped: its per-iteration cost grows linearly from the 1e5 row (dense 5 x n Matrix per iteration), i.e. > 30 s for 30 iterations.');
@@ -224,8 +318,51 @@ function summationTable(): void {
   console.log(`    fit: max rel theta difference compensated vs plain ${dTheta.toExponential(2)}; time ${ta.toFixed(0)} ms vs ${tb.toFixed(0)} ms`);
 }
 
+function accumulationTable(): void {
+  console.log('\n(d) accumulation alone: 1e6 rows of invented random r and J (mulberry32/Box-Muller, seed 777) in chunks of 4096,');
+  console.log('    column-major J with stride 4096; time = median of 7 runs over all chunks; "same bits" compares JtJ, Jtr, ssr');
+  console.log(`${pad('p', 3)} | ${pad('old ms', 8)} ${pad('new ms', 8)} ${pad('speed-up', 8)} ${pad('new Mrow/s', 10)} | same bits`);
+  const n = 1e6;
+  for (const p of [5, 8, 12]) {
+    const chunks = Math.ceil(n / CHUNK);
+    const data = noise(chunks * CHUNK * (p + 1), 1, 777);
+    const time = (f: Accumulate, acc: NormalEquations): number => {
+      const ts: number[] = [];
+      for (let rep = 0; rep < 7; rep++) {
+        acc.high.fill(0);
+        acc.low.fill(0);
+        acc.ssr = 0;
+        acc.rows = 0;
+        const t0 = performance.now();
+        for (let c = 0; c < chunks; c++) {
+          const s = c * CHUNK;
+          const rows = Math.min(CHUNK, n - s);
+          // Chunk c: residuals then p columns of CHUNK slots each, packed in `data`.
+          const base = c * CHUNK * (p + 1);
+          f(acc, data.subarray(base, base + rows), data.subarray(base + CHUNK, base + CHUNK * (p + 1)), rows, CHUNK);
+        }
+        ts.push(performance.now() - t0);
+      }
+      ts.sort((a, b) => a - b);
+      return ts[3]!;
+    };
+    const accOld = createNormalEquations(p);
+    const accNew = createNormalEquations(p);
+    const tOld = time(accumulateOnePassPerEntry, accOld);
+    const tNew = time(accumulateNormalEquations, accNew);
+    const same =
+      accOld.ssr === accNew.ssr &&
+      accOld.JtJ.every((v, i) => v === accNew.JtJ[i]) &&
+      accOld.Jtr.every((v, i) => v === accNew.Jtr[i]);
+    console.log(
+      `${pad(p, 3)} | ${pad(tOld.toFixed(1), 8)} ${pad(tNew.toFixed(1), 8)} ${pad((tOld / tNew).toFixed(2) + 'x', 8)} ${pad((n / 1e3 / tNew).toFixed(0), 10)} | ${same ? 'yes' : 'NO'}`,
+    );
+  }
+}
+
 export default async function run(): Promise<void> {
   nistTable();
   longTable();
   summationTable();
+  accumulationTable();
 }

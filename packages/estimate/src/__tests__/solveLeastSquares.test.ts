@@ -1,4 +1,5 @@
 import { expectClose } from '@motorprint/testkit';
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { accumulateNormalEquations } from '../solver/accumulateNormalEquations.js';
 import { createNormalEquations } from '../solver/createNormalEquations.js';
@@ -128,6 +129,187 @@ describe('accumulateNormalEquations compensates chunk totals', () => {
     resetNormalEquations(acc);
     expect(acc.ssr).toBe(0);
     expect(Array.from(acc.JtJ)).toEqual([0, 0, 0, 0]);
+  });
+});
+
+/** Invented test data: uniform numbers in (−1, 1) from a seeded mulberry32 generator. */
+function uniformStream(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return (((t ^ (t >>> 14)) >>> 0) / 4294967296) * 2 - 1;
+  };
+}
+
+/**
+ * Straightforward reference: every entry of JᵀJ (full p×p), Jᵀr and rᵀr as its own left-to-right
+ * dot product over rows 0…rows−1, plus the matching sums of |terms| for error bounds.
+ */
+function referenceNormalEquations(p: number, r: Float64Array, J: Float64Array, rows: number, stride: number) {
+  const JtJ = new Float64Array(p * p);
+  const JtJAbs = new Float64Array(p * p);
+  const Jtr = new Float64Array(p);
+  const JtrAbs = new Float64Array(p);
+  let ssr = 0;
+  for (let i = 0; i < p; i++) {
+    for (let j = 0; j < p; j++) {
+      let s = 0;
+      let a = 0;
+      for (let k = 0; k < rows; k++) {
+        const x = J[i * stride + k]! * J[j * stride + k]!;
+        s += x;
+        a += Math.abs(x);
+      }
+      JtJ[i * p + j] = s;
+      JtJAbs[i * p + j] = a;
+    }
+    let s = 0;
+    let a = 0;
+    for (let k = 0; k < rows; k++) {
+      const x = J[i * stride + k]! * r[k]!;
+      s += x;
+      a += Math.abs(x);
+    }
+    Jtr[i] = s;
+    JtrAbs[i] = a;
+  }
+  for (let k = 0; k < rows; k++) ssr += r[k]! * r[k]!;
+  return { JtJ, JtJAbs, Jtr, JtrAbs, ssr };
+}
+
+/**
+ * Invented random chunk layout: `rows` residuals and p Jacobian columns with per-column scales
+ * 10^e, e in [−3, 3], stored with `stride` = rows + pad; the pad slots hold NaN so any read
+ * outside the rows would poison the sums.
+ */
+function randomLayout(p: number, rows: number, pad: number, seed: number) {
+  const u = uniformStream(seed);
+  const stride = rows + pad;
+  const r = new Float64Array(rows);
+  for (let k = 0; k < rows; k++) r[k] = 10 * u();
+  const J = new Float64Array(p * stride).fill(NaN);
+  for (let j = 0; j < p; j++) {
+    const scale = 10 ** Math.round(3 * u());
+    for (let k = 0; k < rows; k++) J[j * stride + k] = scale * u();
+  }
+  return { r, J, stride };
+}
+
+const EPS = 2 ** -52; // double-precision machine epsilon (IEEE 754 binary64)
+
+describe('accumulateNormalEquations matches a one-dot-product-per-entry reference', () => {
+  const ps = Array.from({ length: 12 }, (_, i) => i + 1); // p = 1…12: unrolled (≤ 8) and tiled (> 8) paths
+
+  it.each(ps)('gives bit-identical JᵀJ, Jᵀr, rᵀr for one strided chunk (p = %i)', (p) => {
+    fc.assert(
+      fc.property(fc.integer({ min: 0, max: 300 }), fc.integer({ min: 0, max: 3 }), fc.integer(), (rows, pad, seed) => {
+        const { r, J, stride } = randomLayout(p, rows, pad, seed);
+        const ref = referenceNormalEquations(p, r, J, rows, stride);
+        for (const compensated of [true, false]) {
+          const acc = createNormalEquations(p, compensated);
+          const ret = accumulateNormalEquations(acc, r, J, rows, stride);
+          // Derived here: into a zeroed accumulator one chunk total x is added exactly (0 + x = x,
+          // compensation term 0), and each entry is the same left-to-right sum of the same products
+          // as the reference (JavaScript never fuses multiply-add), so equality is exact.
+          expect(ret).toBe(ref.ssr);
+          expect(acc.ssr).toBe(ref.ssr);
+          expect(acc.rows).toBe(rows);
+          for (let i = 0; i < p; i++) {
+            expect(acc.Jtr[i]).toBe(ref.Jtr[i]);
+            for (let j = 0; j < p; j++) {
+              // Both triangles: the reference sums x_i·x_j and x_j·x_i separately (same value, products commute).
+              expect(acc.JtJ[i * p + j]).toBe(ref.JtJ[i * p + j]);
+            }
+          }
+          expect(Number.isFinite(acc.ssr)).toBe(true); // NaN pad slots were never read
+        }
+      }),
+      { seed: 20240611 + p, numRuns: 40 },
+    );
+  });
+
+  it.each(ps)('agrees within the summation error bound when the rows come in several chunks (p = %i)', (p) => {
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 1, max: 400 }),
+        fc.integer({ min: 0, max: 3 }),
+        fc.integer(),
+        fc.array(fc.integer({ min: 0, max: 400 }), { minLength: 1, maxLength: 4 }),
+        (rows, pad, seed, cutsRaw) => {
+          const { r, J, stride } = randomLayout(p, rows, pad, seed);
+          const ref = referenceNormalEquations(p, r, J, rows, stride);
+          const cuts = [0, ...cutsRaw.map((c) => c % (rows + 1)).sort((a, b) => a - b), rows];
+          const acc = createNormalEquations(p);
+          let chunkSsrTotal = 0;
+          for (let c = 0; c + 1 < cuts.length; c++) {
+            const s = cuts[c]!;
+            const m = cuts[c + 1]! - s;
+            // Chunk view: residuals from row s, Jacobian columns still `stride` apart (m may be 0).
+            chunkSsrTotal += accumulateNormalEquations(acc, r.subarray(s, s + m), J.subarray(s), m, stride);
+          }
+          expect(acc.rows).toBe(rows);
+          // Derived here: a recursive sum of n terms errs by at most γₙ·Σ|terms| ≤ 1.01·n·eps·Σ|terms|
+          // (Higham 2002, "Accuracy and Stability of Numerical Algorithms", §4.2); the reference and
+          // the chunked sums each carry at most that error, and the compensated addition of the chunk
+          // totals adds at most ~2·eps·|total|. Tolerance: 2.1·n·eps·Σ|terms| + 4·eps·|ref|.
+          const tol = (a: number, v: number) => 2.1 * rows * EPS * a + 4 * EPS * Math.abs(v);
+          for (let i = 0; i < p; i++) {
+            expectClose(acc.Jtr[i]!, ref.Jtr[i]!, { abs: tol(ref.JtrAbs[i]!, ref.Jtr[i]!) }, `Jtr[${i}]`);
+            for (let j = 0; j < p; j++) {
+              const v = ref.JtJ[i * p + j]!;
+              expectClose(acc.JtJ[i * p + j]!, v, { abs: tol(ref.JtJAbs[i * p + j]!, v) }, `JtJ[${i},${j}]`);
+            }
+            for (let j = 0; j < i; j++) expect(acc.JtJ[i * p + j]).toBe(acc.JtJ[j * p + i]);
+          }
+          // rᵀr terms are all ≥ 0, so Σ|terms| = rᵀr.
+          expectClose(acc.ssr, ref.ssr, { abs: tol(ref.ssr, ref.ssr) }, 'ssr');
+          expectClose(chunkSsrTotal, ref.ssr, { abs: tol(ref.ssr, ref.ssr) }, 'sum of returned chunk rᵀr');
+        },
+      ),
+      { seed: 7 + p, numRuns: 40 },
+    );
+  });
+
+  it.each(ps)('leaves the sums untouched for rows = 0 and adds x·xᵀ exactly for rows = 1 (p = %i)', (p) => {
+    const acc = createNormalEquations(p);
+    // rows = 0 with a NaN-filled Jacobian: nothing may be read.
+    expect(accumulateNormalEquations(acc, new Float64Array(0), new Float64Array(p).fill(NaN), 0, 1)).toBe(0);
+    expect(acc.rows).toBe(0);
+    expect(acc.ssr).toBe(0);
+    expect(acc.JtJ.every((v) => v === 0)).toBe(true);
+    expect(acc.Jtr.every((v) => v === 0)).toBe(true);
+    // rows = 1: column j holds x_j = j + 1 (stride 2, NaN pad), r = [3]. Derived here: JᵀJ[i][j] =
+    // (i+1)(j+1), Jᵀr[i] = 3(i+1), rᵀr = 9 — small integers, exact in double precision.
+    const J = new Float64Array(2 * p).fill(NaN);
+    for (let j = 0; j < p; j++) J[2 * j] = j + 1;
+    expect(accumulateNormalEquations(acc, Float64Array.of(3), J, 1, 2)).toBe(9);
+    expect(acc.rows).toBe(1);
+    expect(acc.ssr).toBe(9);
+    for (let i = 0; i < p; i++) {
+      expect(acc.Jtr[i]).toBe(3 * (i + 1));
+      for (let j = 0; j < p; j++) expect(acc.JtJ[i * p + j]).toBe((i + 1) * (j + 1));
+    }
+  });
+
+  it.each([5, 9])('compensates JᵀJ chunk totals on the unrolled and tiled paths (p = %i)', (p) => {
+    // Derived here: the last column is 1e8 in the first chunk and 1 in 1000 later chunks, so its
+    // JᵀJ diagonal is 1e16 + 1000 exactly; 1e16 + 1 rounds back to 1e16 (ulp(1e16) = 2), so plain
+    // addition of the chunk totals stays at 1e16. Other columns are 0, r = 0.
+    const comp = createNormalEquations(p, true);
+    const plain = createNormalEquations(p, false);
+    const J = new Float64Array(p);
+    const d = (p - 1) * p + (p - 1);
+    for (const acc of [comp, plain]) {
+      J[p - 1] = 1e8;
+      accumulateNormalEquations(acc, Float64Array.of(0), J, 1);
+      J[p - 1] = 1;
+      for (let i = 0; i < 1000; i++) accumulateNormalEquations(acc, Float64Array.of(0), J, 1);
+    }
+    expect(comp.JtJ[d]).toBe(1e16 + 1000);
+    expect(plain.JtJ[d]).toBe(1e16);
   });
 });
 

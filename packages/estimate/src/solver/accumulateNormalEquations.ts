@@ -1,3 +1,5 @@
+import { sumChunkTiled } from './sumChunkTiled.js';
+import { sumChunkUnrolled, UNROLLED_MAX_P } from './sumChunkUnrolled.js';
 import type { NormalEquations } from './types.js';
 
 /**
@@ -7,6 +9,11 @@ import type { NormalEquations } from './types.js';
  * sums with Neumaier's compensated summation (when `acc.compensated`), so the rounding error grows
  * with the chunk length and not with the record length. After the call `acc.JtJ`, `acc.Jtr` and
  * `acc.ssr` hold the current totals.
+ *
+ * The chunk sums take one pass over the rows for p ≤ 8 (every entry of JᵀJ, Jᵀr and rᵀr in its own
+ * scalar local) and ⌈p/4⌉(⌈p/4⌉+1)/2 passes of 4×4 register tiles above that, instead of one pass
+ * per entry. Each entry is still summed over the rows in order, so the results are the same bits
+ * as one dot product per entry.
  *
  * Kernel: allocates nothing, never throws; non-finite inputs propagate into the sums.
  *
@@ -43,33 +50,20 @@ export function accumulateNormalEquations(
   const low = acc.low;
   const tri = (p * (p + 1)) / 2;
   const last = tri + p;
-  let t = 0;
-  let s = 0;
-  let k = 0;
-  for (k = 0; k < rows; k++) s += residuals[k]! * residuals[k]!;
-  const chunkSsr = s;
-  chunk[last] = s;
-  if (jacobian !== null) {
-    for (let i = 0; i < p; i++) {
-      const oi = i * stride;
-      for (let j = i; j < p; j++) {
-        const oj = j * stride;
-        s = 0;
-        for (k = 0; k < rows; k++) s += jacobian[oi + k]! * jacobian[oj + k]!;
-        chunk[t++] = s;
-      }
-    }
-    for (let i = 0; i < p; i++) {
-      const oi = i * stride;
-      s = 0;
-      for (k = 0; k < rows; k++) s += jacobian[oi + k]! * residuals[k]!;
-      chunk[t++] = s;
-    }
+  let chunkSsr: number;
+  if (jacobian === null) {
+    let s = 0;
+    for (let k = 0; k < rows; k++) s += residuals[k]! * residuals[k]!;
+    chunkSsr = s;
+    chunk[last] = s;
+  } else if (p <= UNROLLED_MAX_P) {
+    chunkSsr = sumChunkUnrolled(p, chunk, residuals, jacobian, rows, stride);
+  } else {
+    chunkSsr = sumChunkTiled(p, chunk, residuals, jacobian, rows, stride);
   }
-  const end = jacobian !== null ? last + 1 : 0;
   const compensated = acc.compensated;
   // Neumaier addition of the chunk totals (only rᵀr when no Jacobian was given).
-  for (let m = jacobian !== null ? 0 : last; m < (jacobian !== null ? end : last + 1); m++) {
+  for (let m = jacobian !== null ? 0 : last; m <= last; m++) {
     const x = chunk[m]!;
     const h = high[m]!;
     const sum = h + x;
@@ -84,7 +78,7 @@ export function accumulateNormalEquations(
   if (jacobian !== null) {
     const JtJ = acc.JtJ;
     const Jtr = acc.Jtr;
-    t = 0;
+    let t = 0;
     for (let i = 0; i < p; i++) {
       for (let j = i; j < p; j++) {
         const v = high[t]! + low[t]!;
