@@ -1,0 +1,41 @@
+/**
+ * Small shared helpers of the detectors (not exported from the package).
+ */
+import { estimateNoiseLevel } from '@motorprint/estimate';
+import type { RecordingLike } from './types.js';
+
+/** Median sample interval of a time vector [s] (NaN with fewer than 2 samples). */
+export function medianInterval(time: Float64Array): number {
+  const n = time.length;
+  if (n < 2) return NaN;
+  const d = new Float64Array(n - 1);
+  for (let k = 1; k < n; k++) d[k - 1] = time[k]! - time[k - 1]!;
+  d.sort();
+  return d[(n - 1) >> 1]!;
+}
+
+/** Noise SD of a channel, or NaN when the channel is absent. */
+export function noiseOf(x: Float64Array | undefined): number {
+  return x instanceof Float64Array && x.length >= 4 ? estimateNoiseLevel(x).sigma : NaN;
+}
+
+/** Checks a recording shape once for a public detector; returns n and the sample interval. */
+export function checkRecording(fn: string, rec: RecordingLike): { n: number; dt: number } {
+  if (rec === null || typeof rec !== 'object' || !(rec.time instanceof Float64Array)) throw new TypeError(`${fn}: recording.time must be a Float64Array`);
+  if (rec.channels === null || typeof rec.channels !== 'object') throw new TypeError(`${fn}: recording.channels must be an object`);
+  const n = rec.time.length;
+  for (const [name, v] of Object.entries(rec.channels)) {
+    if (v === undefined) continue;
+    if (!(v instanceof Float64Array)) throw new TypeError(`${fn}: recording.channels.${name} must be a Float64Array`);
+    if (v.length !== n) throw new TypeError(`${fn}: recording.channels.${name} has ${v.length} samples, time has ${n}`);
+    for (let k = 0; k < n; k++) if (!Number.isFinite(v[k]!)) throw new RangeError(`${fn}: recording.channels.${name}[${k}] must be finite (got ${v[k]})`);
+  }
+  const dt = medianInterval(rec.time);
+  if (!(dt > 0)) throw new RangeError(`${fn}: recording.time must be increasing (median interval ${dt})`);
+  return { n, dt };
+}
+
+/** Rounds for evidence tables (4 significant digits). */
+export function sig(x: number): number {
+  return Number.isFinite(x) ? Number(x.toPrecision(4)) : x;
+}
