@@ -33,3 +33,19 @@ export type {
   SolverResult,
   StopReason,
 } from './solver/types.js';
+
+// Motor estimator (R, L, Kt/Ke, J, b, Tc from bench recordings).
+export { fitMotor } from './motor/fitMotor.js';
+export { checkFitMotorOptions } from './motor/checkFitMotorOptions.js';
+export { classifyRecording } from './motor/classifyRecording.js';
+export { detectVoltageSegments } from './motor/detectVoltageSegments.js';
+export { estimateNoiseLevel } from './motor/estimateNoiseLevel.js';
+export { fitInverseDynamics } from './motor/fitInverseDynamics.js';
+export { rebuildCommand } from './motor/rebuildCommand.js';
+export type { RebuiltCommand } from './motor/rebuildCommand.js';
+export { zeroPhaseLowPass } from './motor/zeroPhaseLowPass.js';
+export type {
+  ChannelFit, FitMotorOptions, InputHandling, MotorChannel, MotorConstantName, MotorExperimentKind, MotorFit,
+  MotorRecordingInput, NoiseLevel, ParameterEstimate, RecordingData, RecordingReport, StartAttempt, UninformedConstant, VoltageSegment,
+} from './motor/types.js';
+export type { InverseDynamicsInput, InverseDynamicsFit } from './motor/fitInverseDynamics.js';

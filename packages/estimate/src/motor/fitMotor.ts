@@ -1,0 +1,338 @@
+import { covarianceFromNormalMatrix } from '../solver/covarianceFromNormalMatrix.js';
+import { createNormalEquations } from '../solver/createNormalEquations.js';
+import { resetNormalEquations } from '../solver/resetNormalEquations.js';
+import { solveLeastSquares } from '../solver/solveLeastSquares.js';
+import { checkFitMotorOptions } from './checkFitMotorOptions.js';
+import { createMotorProblem } from './createMotorProblem.js';
+import type { Constants, ParameterLayout, RecordingSlots } from './createMotorProblem.js';
+import { guessConstants } from './guessConstants.js';
+import { prepareRecording } from './prepareRecording.js';
+import type { PreparedRecording } from './prepareRecording.js';
+import { studentQuantile } from './studentQuantile.js';
+import type {
+  ChannelFit, FitMotorOptions, MotorConstantName, MotorExperimentKind, MotorFit, MotorRecordingInput,
+  ParameterEstimate, RecordingReport, StartAttempt, UninformedConstant,
+} from './types.js';
+
+const UNITS: Record<MotorConstantName, string> = { R: 'Ω', L: 'H', Kt: 'N·m/A', Ke: 'V·s/rad', J: 'kg·m²', b: 'N·m·s/rad', Tc: 'N·m' };
+const DEFAULTS: Constants = { R: 1, L: 1e-3, Kt: 0.05, Ke: 0.05, J: 1e-5, b: 1e-6, Tc: 0 };
+const WOULD_INFORM: Record<MotorConstantName, string> = {
+  R: 'a locked-rotor step, or a free-run step / PRBS with current',
+  L: 'a locked-rotor step sampled faster than L/R, or a PRBS / multisine with current',
+  Kt: 'a free-run step, PRBS, multisine or steady-state sweep with speed (apart from Ke: a loaded run with torque)',
+  Ke: 'a free-run step, PRBS, multisine or steady-state sweep with speed',
+  J: 'a free-run step, PRBS or multisine with speed',
+  b: 'a steady-state sweep or a free-run step (or a coast-down once J is known)',
+  Tc: 'a coast-down (with J known) or a steady-state sweep',
+};
+
+/** Which constants a recording informs (before the coast-down rule on J). */
+function informs(rec: PreparedRecording): MotorConstantName[] {
+  const hasI = rec.current !== null;
+  switch (rec.kind) {
+    case 'locked-rotor': return ['R', 'L'];
+    case 'coast-down': return ['b', 'Tc'];
+    case 'steady-state': return ['R', 'Kt', 'Ke', 'J', 'b', 'Tc'];
+    case 'loaded': return ['R', 'L', 'Kt', 'Ke', 'J', 'b'];
+    default: return hasI ? ['R', 'L', 'Kt', 'Ke', 'J', 'b'] : ['Kt', 'Ke', 'J', 'b'];
+  }
+}
+
+/** Which constants the model of a recording uses. */
+function uses(kind: MotorExperimentKind, coulomb: boolean): MotorConstantName[] {
+  if (kind === 'locked-rotor') return ['R', 'L'];
+  if (kind === 'coast-down') return ['J', 'b', 'Tc'];
+  return coulomb ? ['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc'] : ['R', 'L', 'Kt', 'Ke', 'J', 'b'];
+}
+
+/**
+ * Fits the DC-motor constants R, L, Kt/Ke, J, b (and Coulomb friction Tc where coast-down or
+ * steady-state data inform it) jointly to one or more bench recordings, by weighted least
+ * squares with an analytic, streamed Jacobian.
+ *
+ * ## Method
+ * 1. Each recording is checked, its kind declared or guessed (`classifyRecording`), the noise
+ *    σ of every channel estimated from the data (`estimateNoiseLevel`), and the measured voltage
+ *    rebuilt into the commanded input (`rebuildCommand`) so that its noise does not bias the
+ *    constants (errors in variables).
+ * 2. Starting values come from closed-form relations (`guessConstants`), unless given in
+ *    `options.initial`; `options.fix` pins constants.
+ * 3. θ = ln p for the positive constants (equal scaling, positivity), Tc on a linear scale;
+ *    Kt = Ke is imposed (SI) unless a loaded run with a torque channel is present. Nuisance
+ *    parameter: the initial speed of each coast-down.
+ * 4. Residuals (model − measured)/σ per channel and sample; the Jacobian comes from the model's
+ *    forward sensitivities by the chain rule and is accumulated chunk by chunk into JᵀJ and Jᵀr
+ *    (`createMotorProblem`), minimised by the streamed Levenberg–Marquardt `solveLeastSquares`.
+ * 5. Covariance s²(JᵀJ)⁺ at the optimum (`covarianceFromNormalMatrix`, s² = SSR/(n − p)),
+ *    standard errors by the delta method, 95 % intervals Student-t on the fitted (log) scale.
+ * A constant that no recording informs is not returned as a number; it is listed in
+ * `notInformed` with the experiment that would inform it.
+ *
+ * ## References
+ * D. W. Marquardt (1963), SIAM J. Appl. Math. 11(2), 431–441, doi:10.1137/0111030.
+ * L. Ljung (1999), System Identification: Theory for the User, 2nd ed., Prentice Hall, §7 and §9
+ * (prediction-error fit and its asymptotic covariance).
+ *
+ * @param recordings - `{ recording, kind?, name? }` items; recording = `{ time [s], channels }` in SI
+ * @param options - pinned constants, starting values, voltage handling, Coulomb friction, solver limits
+ * @returns the {@link MotorFit}: constants with standard errors and 95 % intervals, per-recording
+ *   reports, JᵀJ, solver counts, `converged` and `stopReason`
+ * @throws TypeError when an argument or channel has the wrong type or shape (the message names it)
+ * @throws RangeError when a number is out of its domain (non-finite samples, non-increasing time, …)
+ * @example
+ * const fit = fitMotor([{ recording: lockedRotorRun, kind: 'locked-rotor' }, { recording: stepRun }]);
+ * fit.parameters.R; // => { value: 2.001, unit: 'Ω', standardError: 0.002, interval95: [1.997, 2.005], … }
+ */
+export function fitMotor(recordings: MotorRecordingInput[], options?: FitMotorOptions): MotorFit {
+  if (!Array.isArray(recordings)) throw new TypeError('fitMotor: recordings must be an array of { recording, kind?, name? }');
+  if (recordings.length === 0) throw new RangeError('fitMotor: recordings must hold at least one recording (got 0)');
+  const opts = checkFitMotorOptions(options);
+  const recs = recordings.map((item, i) => prepareRecording(item, i, opts.voltage));
+
+  const coulomb = opts.coulomb === 'auto' ? recs.some((r) => r.kind === 'coast-down' || r.kind === 'steady-state') : opts.coulomb;
+  const separate = recs.some((r) => r.kind === 'loaded' && r.loadTorque !== 0);
+  const names: MotorConstantName[] = ['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc'];
+  const fixed: Partial<Record<MotorConstantName, number>> = { ...opts.fix };
+  if (!separate) {
+    const k = fixed.Kt ?? fixed.Ke;
+    if (k !== undefined) { fixed.Kt = k; fixed.Ke = k; }
+  }
+  if (!coulomb && fixed.Tc === undefined) fixed.Tc = 0;
+
+  // Who informs what; who uses what.
+  const informedBy: Record<MotorConstantName, string[]> = { R: [], L: [], Kt: [], Ke: [], J: [], b: [], Tc: [] };
+  const used = new Set<MotorConstantName>();
+  for (const r of recs) {
+    for (const c of informs(r)) informedBy[c].push(r.name);
+    for (const c of uses(r.kind, coulomb)) used.add(c);
+  }
+  const jKnown = fixed.J !== undefined || recs.some((r) => r.kind !== 'coast-down' && r.kind !== 'locked-rotor' && r.speed !== null);
+  const notInformed: UninformedConstant[] = [];
+  for (const c of names) {
+    if (fixed[c] !== undefined) continue;
+    if (!coulomb && c === 'Tc') continue;
+    if (!used.has(c)) {
+      notInformed.push({ name: c, reason: 'no given recording involves it', wouldInform: WOULD_INFORM[c] });
+    } else if (informedBy[c].length === 0) {
+      notInformed.push({ name: c, reason: 'the model needs it but no given recording pins it down', wouldInform: WOULD_INFORM[c] });
+    } else if ((c === 'b' || c === 'Tc' || c === 'J') && !jKnown && informedBy[c].every((n) => recs.find((r) => r.name === n)?.kind === 'coast-down')) {
+      notInformed.push({ name: c, reason: 'a coast-down informs only b/J and Tc/J; J is not known from another recording or options.fix', wouldInform: WOULD_INFORM.J });
+    }
+  }
+  const guesses = guessConstants(recs, fixed);
+  const start: Record<string, { value: number; source: string }> = {};
+  const value0: Constants = { ...DEFAULTS };
+  for (const c of names) {
+    const v = opts.initial[c] ?? guesses[c]?.value ?? DEFAULTS[c];
+    const src = opts.initial[c] !== undefined ? 'options.initial' : guesses[c]?.source ?? 'default (no closed-form guess available)';
+    value0[c] = fixed[c] ?? v;
+    if (fixed[c] === undefined && used.has(c)) start[c] = { value: value0[c], source: src };
+  }
+  if (!separate) { value0.Ke = value0.Kt; if (start.Ke !== undefined && start.Kt !== undefined) start.Ke = start.Kt; }
+
+  // Layout of θ: constants the model uses and nobody pinned, then nuisance.
+  const theta0: number[] = [];
+  const thetaNames: string[] = [];
+  const idx = (c: MotorConstantName): number => {
+    if (fixed[c] !== undefined || !used.has(c)) return -1;
+    if (c === 'Ke' && !separate) return -2; // filled below
+    thetaNames.push(c === 'Tc' ? 'Tc' : `ln ${c === 'Kt' && !separate ? 'K' : c}`);
+    theta0.push(c === 'Tc' ? 1 : Math.log(value0[c]));
+    return theta0.length - 1;
+  };
+  const layout: ParameterLayout = {
+    names: thetaNames, iR: idx('R'), iL: idx('L'), iKt: idx('Kt'), iKe: idx('Ke'), iJ: idx('J'), iB: idx('b'), iTc: idx('Tc'),
+    fixed: { ...DEFAULTS, ...value0, ...fixed } as Constants,
+    tcScale: Math.max(Math.abs(value0.Tc), 1e-3 * value0.Kt * 1e-2, 1e-12),
+    recordings: [],
+  };
+  if (layout.iKe === -2) layout.iKe = layout.iKt;
+  if (layout.iTc >= 0) theta0[layout.iTc] = value0.Tc / layout.tcScale;
+  const push = (name: string, value: number): number => { thetaNames.push(name); theta0.push(value); return theta0.length - 1; };
+  for (const r of recs) {
+    const slots: RecordingSlots = { level: [], levelScale: 1, offset: -1, offsetScale: 1, load: -1, loadScale: 1, w0: -1, w0Scale: 1 };
+    if (r.kind === 'coast-down' && r.speed !== null) {
+      const w0 = r.speed[r.first]!;
+      slots.w0Scale = Math.max(Math.abs(w0), 1e-9);
+      slots.w0 = push(`ω0 ${r.name}`, w0 / slots.w0Scale);
+    }
+    if (r.levels !== null) {
+      const cl = r.levels.classes;
+      slots.levelScale = Math.max(1e-6, ...cl.map((q) => Math.abs(q.mean)));
+      cl.forEach((q, j) => slots.level.push(push(`level ${j} ${r.name}`, q.mean / slots.levelScale)));
+    }
+    if (r.baseline && r.current !== null && r.kind !== 'coast-down') {
+      let m = 0;
+      for (let k = 0; k < r.current.length; k++) m = Math.max(m, Math.abs(r.current[k]!));
+      slots.offsetScale = Math.max(m, 1e-12);
+      slots.offset = push(`current offset ${r.name}`, 0);
+    }
+    if (r.torqueStats !== null && r.torqueStats.sigma > 0) {
+      slots.loadScale = Math.max(Math.abs(r.torqueStats.mean), r.torqueStats.sigma, 1e-12);
+      slots.load = push(`load torque ${r.name}`, r.torqueStats.mean / slots.loadScale);
+    }
+    layout.recordings.push(slots);
+  }
+
+  const reportsFor = (residuals: ReturnType<ReturnType<typeof createMotorProblem>['residualsAt']> | null): RecordingReport[] =>
+    recs.map((r, i) => {
+      const channels: ChannelFit[] = [];
+      const add = (ch: 'current' | 'speed', meas: Float64Array | null, res: Float64Array | null, noise: PreparedRecording['currentNoise']): void => {
+        if (meas === null || noise === null) return;
+        let s = 0, m = 0, cnt = 0;
+        for (let k = r.first; k < meas.length; k++) { m += meas[k]!; cnt++; }
+        m /= Math.max(cnt, 1);
+        let v = 0;
+        for (let k = r.first; k < meas.length; k++) v += (meas[k]! - m) * (meas[k]! - m);
+        if (res !== null) for (let k = r.first; k < res.length; k++) s += res[k]! * res[k]!;
+        const rms = res === null ? NaN : Math.sqrt(s / Math.max(cnt, 1));
+        const sd = Math.sqrt(v / Math.max(cnt, 1));
+        channels.push({
+          channel: ch, sigma: noise.sigma, sigmaMethod: noise.method, samples: cnt, rms,
+          nrmse: sd > 0 ? rms / sd : NaN, residuals: opts.keepResiduals ? res : null,
+        });
+      };
+      add('current', r.current, residuals?.[i]?.current ?? null, r.currentNoise);
+      add('speed', r.speed, residuals?.[i]?.speed ?? null, r.speedNoise);
+      const nuisance: Record<string, number> = {};
+      if (r.handling.stepTime !== null) nuisance.stepTime = r.handling.stepTime;
+      return {
+        name: r.name, kind: r.kind, kindSource: r.kindSource, kindReason: r.kindReason, samples: r.time.length,
+        input: r.handling, channels, nuisance,
+      };
+    });
+
+  const variant: MotorFit['variant'] = {
+    torqueConstant: separate ? 'separate' : 'equal',
+    coulomb,
+    description: `lumped linear DC motor, ${separate ? 'Kt and Ke fitted apart (torque channel present)' : 'Kt = Ke imposed (SI)'}` +
+      (coulomb ? ', Coulomb friction Tc·sgn(ω)' : ', viscous friction only'),
+  };
+
+  if (theta0.length === 0) {
+    const parameters: Record<string, ParameterEstimate> = {};
+    for (const c of names) if (fixed[c] !== undefined && (coulomb || c !== 'Tc')) parameters[c] = { value: fixed[c]!, unit: UNITS[c], fixed: true };
+    return {
+      parameters, notInformed, variant, recordings: reportsFor(null), fittedNames: [], theta: [], normalMatrix: new Float64Array(0),
+      ssr: NaN, rows: 0, residualVariance: NaN, start, starts: [], iterations: 0, jacobianEvaluations: 0, functionEvaluations: 0,
+      converged: false, stopReason: 'nothing-to-fit',
+    };
+  }
+
+  const problem = createMotorProblem(recs, layout);
+  const p = theta0.length;
+  // Candidate starts: the caller's (when given) and the automatic guesses from the data alone.
+  const candidates: { label: StartAttempt['start']; theta: Float64Array }[] = [];
+  const thetaFrom = (values: Constants): Float64Array => {
+    const t = Float64Array.from(theta0);
+    const put = (i: number, v: number): void => { if (i >= 0 && v > 0 && Number.isFinite(v)) t[i] = Math.log(v); };
+    put(layout.iR, values.R); put(layout.iL, values.L); put(layout.iKt, values.Kt); put(layout.iJ, values.J); put(layout.iB, values.b);
+    if (layout.iKe !== layout.iKt) put(layout.iKe, values.Ke);
+    if (layout.iTc >= 0) t[layout.iTc] = values.Tc / layout.tcScale;
+    return t;
+  };
+  const hasUserStart = Object.keys(opts.initial).length > 0;
+  candidates.push({ label: hasUserStart ? 'options.initial' : 'automatic', theta: Float64Array.from(theta0) });
+  if (hasUserStart) {
+    const auto: Constants = { ...DEFAULTS };
+    for (const c of names) auto[c] = fixed[c] ?? guesses[c]?.value ?? DEFAULTS[c];
+    if (!separate) auto.Ke = auto.Kt;
+    candidates.push({ label: 'automatic', theta: thetaFrom(auto) });
+  }
+  const acc0 = createNormalEquations(p);
+  const ssr0 = candidates.map((cand) => {
+    resetNormalEquations(acc0);
+    const v = problem.evaluate(cand.theta, false, acc0);
+    return Number.isFinite(v) ? v : Infinity;
+  });
+  // Lower starting SSR first; the other start is tried only when the first does not converge.
+  const order = candidates.map((_, i) => i).sort((a, b) => ssr0[a]! - ssr0[b]!);
+  const attempts: StartAttempt[] = [];
+  let best: ReturnType<typeof solveLeastSquares> | null = null;
+  let iterations = 0, jacobianEvaluations = 0, functionEvaluations = candidates.length;
+  for (const i of order) {
+    const cand = candidates[i]!;
+    const res = solveLeastSquares(problem, cand.theta, opts.solver);
+    // A run that ends where a fitted parameter no longer moves any residual (e.g. b so large that a
+    // coast-down stops at once) is stuck on a plateau, not at an optimum.
+    for (let j = 0; j < p; j++) {
+      if (res.converged && !(res.JtJ[j * p + j]! > 0)) { res.converged = false; res.stopReason = 'stalled'; }
+    }
+    iterations += res.iterations; jacobianEvaluations += res.jacobianEvaluations; functionEvaluations += res.functionEvaluations;
+    attempts.push({ start: cand.label, startSsr: ssr0[i]!, ssr: res.ssr, iterations: res.iterations, converged: res.converged, stopReason: res.stopReason, chosen: false });
+    const better = best === null || (res.converged && !best.converged) || (res.converged === best.converged && res.ssr < best.ssr);
+    if (better) best = res;
+    if (res.converged) break;
+  }
+  const sol = best!;
+  attempts[attempts.findIndex((a) => a.ssr === sol.ssr && a.converged === sol.converged)]!.chosen = true;
+  const constants = problem.constantsAt(sol.theta);
+  const dof = sol.rows - p;
+  let se: Float64Array | null = null;
+  let covariance: Float64Array | null = null;
+  let identifiable: boolean[] = new Array<boolean>(p).fill(true);
+  if (dof > 0 && Number.isFinite(sol.ssr)) {
+    try {
+      const cov = covarianceFromNormalMatrix(sol.JtJ, p, sol.ssr, sol.rows);
+      se = cov.standardErrors;
+      covariance = cov.covariance;
+      identifiable = cov.identifiable;
+    } catch {
+      se = null;
+    }
+  }
+  const tq = studentQuantile(0.975, Math.max(dof, 1));
+  const uninformed = new Set(notInformed.map((u) => u.name));
+  const parameters: Record<string, ParameterEstimate> = {};
+  for (const c of names) {
+    if (!coulomb && c === 'Tc' && fixed.Tc === 0 && opts.fix.Tc === undefined) continue;
+    if (fixed[c] !== undefined) { parameters[c] = { value: fixed[c]!, unit: UNITS[c], fixed: true }; continue; }
+    if (uninformed.has(c)) continue;
+    const i = c === 'R' ? layout.iR : c === 'L' ? layout.iL : c === 'Kt' ? layout.iKt : c === 'Ke' ? layout.iKe : c === 'J' ? layout.iJ : c === 'b' ? layout.iB : layout.iTc;
+    if (i < 0) continue;
+    const value = constants[c];
+    const est: ParameterEstimate = { value, unit: UNITS[c], informedBy: informedBy[c] };
+    if (se !== null && identifiable[i] && Number.isFinite(se[i]!)) {
+      const s = se[i]!;
+      if (c === 'Tc') {
+        est.standardError = s * layout.tcScale;
+        est.interval95 = [value - tq * s * layout.tcScale, value + tq * s * layout.tcScale];
+      } else {
+        est.standardError = value * s;
+        est.interval95 = [value * Math.exp(-tq * s), value * Math.exp(tq * s)];
+      }
+    }
+    parameters[c] = est;
+  }
+  // Kt/Ke when both are fitted apart: var(ln Kt − ln Ke) = C_tt + C_ee − 2·C_te (delta method).
+  if (separate && layout.iKt >= 0 && layout.iKe >= 0 && layout.iKt !== layout.iKe) {
+    const a = layout.iKt, b = layout.iKe;
+    const value = constants.Kt / constants.Ke;
+    const est: ParameterEstimate = { value, unit: '1 (N·m/A per V·s/rad)', informedBy: informedBy.Kt };
+    if (covariance !== null && identifiable[a] && identifiable[b]) {
+      const v = covariance[a * p + a]! + covariance[b * p + b]! - 2 * covariance[a * p + b]!;
+      if (v >= 0 && Number.isFinite(v)) {
+        est.standardError = value * Math.sqrt(v);
+        est.interval95 = [value * Math.exp(-tq * Math.sqrt(v)), value * Math.exp(tq * Math.sqrt(v))];
+      }
+    }
+    parameters['Kt/Ke'] = est;
+  }
+  const residuals = problem.residualsAt(sol.theta);
+  const reports = reportsFor(residuals);
+  recs.forEach((r, i) => {
+    const sl = layout.recordings[i]!;
+    const nu = reports[i]!.nuisance;
+    if (sl.w0 >= 0) nu.initialSpeed = sol.theta[sl.w0]! * sl.w0Scale;
+    sl.level.forEach((j, q) => { nu[`level${q}`] = sol.theta[j]! * sl.levelScale; });
+    if (sl.offset >= 0) nu.currentOffset = sol.theta[sl.offset]! * sl.offsetScale;
+    if (sl.load >= 0) nu.loadTorque = sol.theta[sl.load]! * sl.loadScale;
+  });
+  return {
+    parameters, notInformed, variant, recordings: reports,
+    fittedNames: thetaNames, theta: Array.from(sol.theta), normalMatrix: sol.JtJ,
+    ssr: sol.ssr, rows: sol.rows, residualVariance: dof > 0 ? sol.ssr / dof : NaN, start,
+    iterations, jacobianEvaluations, functionEvaluations, starts: attempts,
+    converged: sol.converged, stopReason: sol.stopReason,
+  };
+}

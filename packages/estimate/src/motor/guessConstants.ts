@@ -1,0 +1,191 @@
+import type { Constants } from './createMotorProblem.js';
+import type { PreparedRecording } from './prepareRecording.js';
+import { solveSymmetricSystem } from './solveSymmetricSystem.js';
+import { zeroPhaseLowPass } from './zeroPhaseLowPass.js';
+
+/** Starting values with their source. */
+export type ConstantGuesses = { [K in keyof Constants]?: { value: number; source: string } };
+
+/**
+ * Initial guesses of the constants from closed-form relations, without help from the user.
+ * Locked-rotor: R = ΔV/Δi_ss, L = R·τe from the 63 % current rise. Steady-state sweep: R and Ke
+ * from V = R·i + Ke·ω across plateaus, b and Tc from Kt·i = b·ω + Tc (linear least squares), J
+ * from the first rise. Free-run step / loaded: R from a locked-rotor guess or the current peak
+ * V/i_peak, Ke = (V − R·i_ss)/ω_ss, b = Kt·i_ss/ω_ss, J = τm′·(R·b + Kt·Ke)/R from the 63 % speed
+ * rise. PRBS / multisine: equation-error regression of the discretised ODE on zero-phase
+ * filtered signals (V on di/dt, i, ω; Kt·i on dω/dt, ω). Coast-down: dω/dt = −(b/J)·ω − Tc/J by
+ * linear least squares, scaled by a J from another recording.
+ *
+ * @param recs - prepared recordings
+ * @param fixed - constants pinned by the caller (a pinned J scales the coast-down guesses)
+ * @returns the guesses found (constants no recording speaks to are absent)
+ */
+export function guessConstants(recs: PreparedRecording[], fixed: Partial<Constants> = {}): ConstantGuesses {
+  const g: ConstantGuesses = {};
+  const set = (k: keyof Constants, value: number, source: string, overwrite = false): void => {
+    if (!(Number.isFinite(value) && (k === 'Tc' || value > 0))) return;
+    if (g[k] === undefined || overwrite) g[k] = { value, source };
+  };
+  const order = ['locked-rotor', 'steady-state', 'step', 'loaded', 'prbs', 'multisine', 'coast-down'];
+  const sorted = [...recs].sort((a, b) => order.indexOf(a.kind) - order.indexOf(b.kind));
+  for (const rec of sorted) {
+    const n = rec.time.length;
+    const segs = rec.segments;
+    const tail = (x: Float64Array, frac: number): number => mean(x, Math.floor(n * (1 - frac)), n);
+    if (rec.kind === 'locked-rotor' && rec.current !== null) {
+      const i = rec.current;
+      const v0 = segs !== null && segs.length > 1 ? segs[0]!.level : 0;
+      const v1 = segs !== null ? segs[segs.length - 1]!.level : tail(rec.input, 0.3);
+      const kStep = segs !== null && segs.length > 1 ? segs[segs.length - 1]!.start : 0;
+      const i0 = kStep > 4 ? mean(i, 0, kStep) : 0;
+      const iss = tail(i, 0.3);
+      const R = (v1 - v0) / (iss - i0);
+      set('R', R, `locked-rotor "${rec.name}": R = ΔV/Δi_ss`, true);
+      const t63 = riseTime(rec.time, i, kStep, i0, iss, 0.632);
+      const tau = t63 > rec.h ? t63 : fractionalTau(i, kStep, i0, iss, rec.h);
+      set('L', R * tau, `locked-rotor "${rec.name}": L = R·τe (63 % rise)`, true);
+    } else if (rec.kind === 'steady-state' && rec.current !== null && rec.speed !== null && segs !== null && segs.length >= 2) {
+      const V: number[] = [], I: number[] = [], W: number[] = [];
+      for (const s of segs) {
+        const a = s.start + Math.floor(0.6 * (s.end - s.start));
+        if (s.end - a < 3) continue;
+        V.push(s.level); I.push(mean(rec.current, a, s.end)); W.push(mean(rec.speed, a, s.end));
+      }
+      const ls1 = linearFit([I, W], V);
+      if (ls1 !== null) {
+        set('R', ls1[0]!, `steady-state "${rec.name}": V = R·i + Ke·ω`);
+        set('Ke', ls1[1]!, `steady-state "${rec.name}": V = R·i + Ke·ω`);
+        set('Kt', ls1[1]!, `steady-state "${rec.name}": Kt = Ke`);
+        const K = ls1[1]!;
+        const ls2 = linearFit([W, W.map(() => 1)], I.map((x) => K * x));
+        if (ls2 !== null) {
+          set('b', ls2[0]!, `steady-state "${rec.name}": Kt·i = b·ω + Tc`);
+          set('Tc', ls2[1]!, `steady-state "${rec.name}": Kt·i = b·ω + Tc`);
+        }
+        const s0 = segs[0]!;
+        const wEnd = mean(rec.speed, s0.start + Math.floor(0.6 * (s0.end - s0.start)), s0.end);
+        const tm = riseTime(rec.time, rec.speed, s0.start, 0, wEnd, 0.632);
+        const R = g.R!.value, b = g.b?.value ?? 0;
+        set('J', (tm * (R * b + K * K)) / R, `steady-state "${rec.name}": J = τm′·(R·b + Kt·Ke)/R`);
+      }
+    } else if ((rec.kind === 'step' || rec.kind === 'loaded') && rec.speed !== null) {
+      const kStep = segs !== null && segs.length > 1 ? segs[segs.length - 1]!.start : 0;
+      const v1 = segs !== null ? segs[segs.length - 1]!.level : tail(rec.input, 0.2);
+      const wss = tail(rec.speed, 0.2);
+      const w0 = kStep > 4 ? mean(rec.speed, 0, kStep) : 0;
+      const iss = rec.current !== null ? tail(rec.current, 0.2) : NaN;
+      let R = g.R?.value ?? NaN;
+      if (!Number.isFinite(R) && rec.current !== null) {
+        let peak = 0;
+        for (let k = Math.max(kStep, 1); k + 1 < n; k++) peak = Math.max(peak, (rec.current[k - 1]! + rec.current[k]! + rec.current[k + 1]!) / 3);
+        R = v1 / peak;
+        set('R', R, `step "${rec.name}": R ≈ V/i_peak`);
+      }
+      const K = Number.isFinite(iss) && Number.isFinite(R) ? (v1 - R * iss) / wss : v1 / wss;
+      set('Ke', K, `step "${rec.name}": Ke = (V − R·i_ss)/ω_ss`);
+      set('Kt', K, `step "${rec.name}": Kt = Ke`);
+      const load = rec.loadTorque;
+      const b = Number.isFinite(iss) ? (K * iss - load) / wss : NaN;
+      set('b', b > 0 ? b : 1e-3 * K * K / (Number.isFinite(R) ? R : 1), `step "${rec.name}": b = Kt·i_ss/ω_ss`);
+      const tm = riseTime(rec.time, rec.speed, kStep, w0, wss, 0.632);
+      const Rg = Number.isFinite(R) ? R : 1;
+      set('J', (tm * (Rg * g.b!.value + K * K)) / Rg, `step "${rec.name}": J = τm′·(R·b + Kt·Ke)/R`);
+      if (rec.current !== null && g.L === undefined) {
+        let kPeak = kStep, peak = -Infinity;
+        for (let k = kStep; k < n; k++) if (rec.current[k]! > peak) { peak = rec.current[k]!; kPeak = k; }
+        const tp = Math.max(rec.time[kPeak]! - rec.time[kStep]!, rec.h);
+        set('L', (Rg * tp) / 3, `step "${rec.name}": L = R·t_peak/3 (rough)`);
+      }
+    } else if ((rec.kind === 'prbs' || rec.kind === 'multisine') && rec.current !== null && rec.speed !== null) {
+      const cut = Math.min(0.1 / rec.h, 0.4 / rec.h);
+      const i = zeroPhaseLowPass(rec.current, rec.h, cut);
+      const w = zeroPhaseLowPass(rec.speed, rec.h, cut);
+      const di = derivative(i, rec.h), dw = derivative(w, rec.h);
+      const e1 = linearFit([di, i, w], rec.input);
+      if (e1 !== null) {
+        set('L', e1[0]!, `${rec.kind} "${rec.name}": equation error V = L·di/dt + R·i + Ke·ω`);
+        set('R', e1[1]!, `${rec.kind} "${rec.name}": equation error`);
+        set('Ke', e1[2]!, `${rec.kind} "${rec.name}": equation error`);
+        set('Kt', e1[2]!, `${rec.kind} "${rec.name}": Kt = Ke`);
+        const K = e1[2]!;
+        const e2 = linearFit([dw, w], Float64Array.from(i, (x) => K * x));
+        if (e2 !== null) {
+          set('J', e2[0]!, `${rec.kind} "${rec.name}": equation error Kt·i = J·dω/dt + b·ω`);
+          set('b', e2[1]!, `${rec.kind} "${rec.name}": equation error`);
+        }
+      }
+    } else if (rec.kind === 'coast-down' && rec.speed !== null) {
+      const seg = rec.speed.subarray(rec.first);
+      const w = zeroPhaseLowPass(seg, rec.h, 0.05 / rec.h);
+      const dw = derivative(w, rec.h);
+      const w0 = Math.abs(w[0]!);
+      const X: number[] = [], Y: number[] = [], C: number[] = [];
+      for (let k = 2; k + 2 < w.length; k++) if (Math.abs(w[k]!) > 0.02 * w0) { X.push(w[k]! * rec.direction); C.push(1); Y.push(-dw[k]! * rec.direction); }
+      const ls = linearFit([X, C], Y);
+      const J = fixed.J ?? g.J?.value ?? 1e-5;
+      if (ls !== null) {
+        set('b', ls[0]! * J, `coast-down "${rec.name}": dω/dt = −(b/J)·ω − Tc/J`);
+        set('Tc', ls[1]! * J, `coast-down "${rec.name}": dω/dt = −(b/J)·ω − Tc/J`);
+      }
+    }
+  }
+  return g;
+}
+
+function mean(x: ArrayLike<number>, a: number, b: number): number {
+  let s = 0;
+  for (let k = a; k < b; k++) s += x[k]!;
+  return s / Math.max(b - a, 1);
+}
+
+/** Time from sample k0 until x first passes x0 + f·(x1 − x0), linearly interpolated [s]. */
+function riseTime(t: Float64Array, x: Float64Array, k0: number, x0: number, x1: number, f: number): number {
+  const target = x0 + f * (x1 - x0);
+  const up = x1 > x0;
+  for (let k = k0 + 1; k < x.length; k++) {
+    if (up ? x[k]! >= target : x[k]! <= target) {
+      const a = x[k - 1]!, b = x[k]!;
+      const frac = b !== a ? (target - a) / (b - a) : 1;
+      return t[k - 1]! + Math.min(Math.max(frac, 0), 1) * (t[k]! - t[k - 1]!) - t[k0]!;
+    }
+  }
+  return t[t.length - 1]! - t[k0]!;
+}
+
+/** τ from the fraction reached one sample after the step: f = 1 − e^{−h/τ}. */
+function fractionalTau(x: Float64Array, k0: number, x0: number, x1: number, h: number): number {
+  const f = (x[k0 + 1]! - x0) / (x1 - x0);
+  return f > 0 && f < 1 ? -h / Math.log(1 - f) : h / 10;
+}
+
+/** Central-difference derivative of a smoothed series [unit/s]. */
+function derivative(x: Float64Array, h: number): Float64Array {
+  const n = x.length;
+  const d = new Float64Array(n);
+  for (let k = 1; k + 1 < n; k++) d[k] = (x[k + 1]! - x[k - 1]!) / (2 * h);
+  d[0] = (x[1]! - x[0]!) / h;
+  d[n - 1] = (x[n - 1]! - x[n - 2]!) / h;
+  return d;
+}
+
+/** Ordinary least squares y ≈ Σ cols[j]·β_j by the normal equations. */
+function linearFit(cols: ArrayLike<number>[], y: ArrayLike<number>): Float64Array | null {
+  const p = cols.length;
+  const n = y.length;
+  const A = new Float64Array(p * p);
+  const b = new Float64Array(p);
+  for (let i = 0; i < p; i++) {
+    const ci = cols[i]!;
+    let s = 0;
+    for (let k = 0; k < n; k++) s += ci[k]! * y[k]!;
+    b[i] = s;
+    for (let j = i; j < p; j++) {
+      const cj = cols[j]!;
+      let q = 0;
+      for (let k = 0; k < n; k++) q += ci[k]! * cj[k]!;
+      A[i * p + j] = q;
+      A[j * p + i] = q;
+    }
+  }
+  return solveSymmetricSystem(A, b, p);
+}

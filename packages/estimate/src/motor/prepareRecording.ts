@@ -1,0 +1,264 @@
+import { classifyRecording } from './classifyRecording.js';
+import { detectVoltageSegments } from './detectVoltageSegments.js';
+import { estimateNoiseLevel } from './estimateNoiseLevel.js';
+import { rebuildCommand } from './rebuildCommand.js';
+import type { InputHandling, MotorExperimentKind, MotorRecordingInput, NoiseLevel, VoltageSegment } from './types.js';
+
+/** A recording made ready for the joint fit (internal shape of the estimator). */
+export interface PreparedRecording {
+  name: string;
+  kind: MotorExperimentKind;
+  kindSource: 'declared' | 'guessed';
+  kindReason: string;
+  time: Float64Array;
+  /** Uniform sample interval [s], or the time array when the spacing varies by more than 1e-6 relative. */
+  timeBase: number | Float64Array;
+  /** Median sample interval [s]. */
+  h: number;
+  /** Model input voltage [V] (rebuilt command). */
+  input: Float64Array;
+  handling: InputHandling;
+  segments: VoltageSegment[] | null;
+  current: Float64Array | null;
+  speed: Float64Array | null;
+  currentNoise: NoiseLevel | null;
+  speedNoise: NoiseLevel | null;
+  /** Mean measured load torque [N·m] (loaded runs), else 0. */
+  loadTorque: number;
+  /** First sample entering the fit (coast-down: first sample after the circuit opened). */
+  first: number;
+  /** Sign of the running direction (for Coulomb friction). */
+  direction: 1 | -1;
+  /**
+   * Piecewise-constant command as level classes (errors in variables): the levels become
+   * nuisance parameters and the voltage samples residual rows; null when the input is used as is.
+   */
+  levels: LevelModel | null;
+  /** Whether the record starts with a pre-trigger baseline at 0 V (informs a current-sensor offset). */
+  baseline: boolean;
+  /** Torque channel summary of a loaded run (the load level becomes a nuisance with torque rows), else null. */
+  torqueStats: ChannelSummary | null;
+}
+
+/** Sufficient statistics of samples that share one level: count, mean, Σ(x − mean)², noise σ. */
+export interface ChannelSummary { count: number; mean: number; sumSq: number; sigma: number }
+
+/** Level classes of a piecewise-constant command. */
+export interface LevelModel {
+  /** Class of the input held over [t_k, t_{k+1}], per sample. */
+  classOf: Int32Array;
+  /** Per class: statistics of the voltage samples used as residual rows. */
+  classes: ChannelSummary[];
+  /** Sample indices where the class changes (first sample of the new level). */
+  switches: Int32Array;
+}
+
+const FLOOR = 1e-12;
+
+/**
+ * Validates one input recording and prepares it: kind (declared or guessed), noise levels,
+ * rebuilt command, coast-down start.
+ *
+ * @param item - the recording and its optional kind and name
+ * @param index - position in the input list (for messages and default names)
+ * @param voltageMode - `auto` or `measured` (see `FitMotorOptions.voltage`)
+ * @returns the prepared recording
+ * @throws TypeError / RangeError naming `recordings[index]` and the channel when the data are unusable
+ */
+export function prepareRecording(item: MotorRecordingInput, index: number, voltageMode: 'auto' | 'measured'): PreparedRecording {
+  const where = `fitMotor: recordings[${index}]`;
+  if (item === null || typeof item !== 'object') throw new TypeError(`${where} must be an object { recording, kind?, name? }`);
+  const rec = item.recording;
+  if (rec === null || typeof rec !== 'object') throw new TypeError(`${where}.recording must be an object with time and channels`);
+  const time = rec.time;
+  if (!(time instanceof Float64Array)) throw new TypeError(`${where}.recording.time must be a Float64Array`);
+  const n = time.length;
+  if (n < 16) throw new RangeError(`${where}.recording.time must hold at least 16 samples (got ${n})`);
+  for (let k = 0; k < n; k++) {
+    if (!Number.isFinite(time[k]!)) throw new RangeError(`${where}.recording.time[${k}] must be finite (got ${time[k]})`);
+    if (k > 0 && !(time[k]! > time[k - 1]!)) {
+      throw new RangeError(`${where}.recording.time must be strictly increasing (time[${k}] = ${time[k]} after ${time[k - 1]})`);
+    }
+  }
+  if (rec.channels === null || typeof rec.channels !== 'object') throw new TypeError(`${where}.recording.channels must be an object`);
+  const channel = (name: 'voltage' | 'current' | 'speed' | 'torque'): Float64Array | null => {
+    const v = rec.channels[name];
+    if (v === undefined) return null;
+    if (!(v instanceof Float64Array)) throw new TypeError(`${where}.recording.channels.${name} must be a Float64Array`);
+    if (v.length !== n) throw new TypeError(`${where}.recording.channels.${name} has ${v.length} samples, time has ${n}`);
+    for (let k = 0; k < n; k++) {
+      if (!Number.isFinite(v[k]!)) throw new RangeError(`${where}.recording.channels.${name}[${k}] must be finite (got ${v[k]})`);
+    }
+    return v;
+  };
+  const voltage = channel('voltage');
+  const current = channel('current');
+  const speed = channel('speed');
+  const torque = channel('torque');
+  if (voltage === null) throw new TypeError(`${where}.recording.channels.voltage is missing (every experiment needs the terminal voltage)`);
+  if (current === null && speed === null) throw new TypeError(`${where}.recording.channels needs current or speed (got neither)`);
+  const name = item.name ?? `recording ${index}`;
+  if (typeof name !== 'string') throw new TypeError(`${where}.name must be a string`);
+
+  let kind: MotorExperimentKind;
+  let kindSource: 'declared' | 'guessed';
+  let kindReason: string;
+  if (item.kind !== undefined) {
+    const kinds: MotorExperimentKind[] = ['locked-rotor', 'step', 'coast-down', 'steady-state', 'prbs', 'multisine', 'loaded'];
+    if (!kinds.includes(item.kind)) throw new RangeError(`${where}.kind must be one of ${kinds.join(', ')} (got ${JSON.stringify(item.kind)})`);
+    kind = item.kind;
+    kindSource = 'declared';
+    kindReason = 'declared by the caller';
+  } else {
+    const g = classifyRecording(rec);
+    kind = g.kind;
+    kindSource = 'guessed';
+    kindReason = g.reason;
+  }
+  const needs: Record<MotorExperimentKind, ('current' | 'speed' | 'torque')[]> = {
+    'locked-rotor': ['current'], step: ['speed'], 'coast-down': ['speed'], 'steady-state': ['current', 'speed'],
+    prbs: ['speed'], multisine: ['speed'], loaded: ['current', 'speed', 'torque'],
+  };
+  for (const c of needs[kind]) {
+    if (rec.channels[c] === undefined) throw new TypeError(`${where}.recording.channels.${c} is missing (a ${kind} recording needs it)`);
+  }
+
+  // Sampling.
+  let hmin = Infinity, hmax = 0;
+  for (let k = 1; k < n; k++) { const d = time[k]! - time[k - 1]!; if (d < hmin) hmin = d; if (d > hmax) hmax = d; }
+  const h = (time[n - 1]! - time[0]!) / (n - 1);
+  const timeBase = hmax - hmin <= 1e-6 * h ? h : time;
+
+  const noise = (v: Float64Array | null): NoiseLevel | null => {
+    if (v === null) return null;
+    const lvl = estimateNoiseLevel(v);
+    let maxAbs = 0;
+    for (let k = 0; k < n; k++) maxAbs = Math.max(maxAbs, Math.abs(v[k]!));
+    return { ...lvl, sigma: Math.max(lvl.sigma, FLOOR * Math.max(maxAbs, 1)) };
+  };
+  const currentNoise = kind === 'coast-down' ? null : noise(current);
+  const speedNoise = kind === 'locked-rotor' ? null : noise(speed);
+
+  let input: Float64Array;
+  let handling: InputHandling;
+  let segments: VoltageSegment[] | null = null;
+  let first = 0;
+  if (kind === 'coast-down') {
+    first = findCoastStart(current, speed!, speedNoise!.sigma);
+    const vs = estimateNoiseLevel(voltage).sigma;
+    input = new Float64Array(n);
+    handling = {
+      method: 'not-used',
+      reason: `coast-down: the armature is open from sample ${first} (t = ${time[first]} s); only the speed decay after it is fitted`,
+      stepTime: time[first]!,
+      residualRatio: 0,
+      voltageSigma: vs,
+    };
+  } else {
+    const rb = rebuildCommand(time, voltage, voltageMode);
+    input = rb.voltage;
+    handling = rb.handling;
+    segments = rb.segments ?? (kind === 'steady-state' ? detectVoltageSegments(voltage, handling.voltageSigma) : null);
+  }
+  const levels = handling.method === 'segment-means' && hasSegments(segments) ? buildLevels(voltage, segments!, handling.voltageSigma) : null;
+  let baseline = false;
+  if (levels !== null && segments!.length > 1) {
+    const s0 = segments![0]!;
+    const top = Math.max(...segments!.map((s) => Math.abs(s.level)));
+    baseline = s0.end - s0.start >= 8 && Math.abs(s0.level) <= 0.02 * top;
+  }
+  let torqueStats: ChannelSummary | null = null;
+  if (torque !== null && kind === 'loaded') torqueStats = summarise(torque, 0, n);
+  const loadTorque = torqueStats === null ? 0 : torqueStats.mean;
+  let direction: 1 | -1 = 1;
+  if (speed !== null) {
+    let s = 0;
+    for (let k = 0; k < n; k++) s += speed[k]!;
+    direction = s >= 0 ? 1 : -1;
+  }
+  return {
+    name, kind, kindSource, kindReason, time, timeBase, h, input, handling, segments,
+    current: kind === 'coast-down' ? null : current,
+    speed: kind === 'locked-rotor' ? null : speed,
+    currentNoise, speedNoise, loadTorque, first, direction, levels, baseline, torqueStats,
+  };
+}
+
+function hasSegments(segs: VoltageSegment[] | null): boolean {
+  return segs !== null && segs.length >= 1;
+}
+
+/** Count, mean, Σ(x − mean)² over [a, b) and the channel's noise σ. */
+function summarise(x: Float64Array, a: number, b: number): ChannelSummary {
+  let m = 0;
+  for (let k = a; k < b; k++) m += x[k]!;
+  m /= Math.max(b - a, 1);
+  let q = 0;
+  for (let k = a; k < b; k++) q += (x[k]! - m) * (x[k]! - m);
+  return { count: b - a, mean: m, sumSq: q, sigma: estimateNoiseLevel(x).sigma };
+}
+
+/**
+ * Groups the segments of a piecewise-constant command into level classes (segments whose means
+ * differ by less than 6 standard errors share a level, as the two levels of a PRBS do) and
+ * collects the statistics of the voltage samples of each class. The two samples around every
+ * switching instant are left out of the voltage rows: one of them may straddle the switch.
+ */
+function buildLevels(voltage: Float64Array, segs: VoltageSegment[], sigma: number): LevelModel {
+  const n = voltage.length;
+  const classOf = new Int32Array(n);
+  const centres: { level: number; count: number }[] = [];
+  const segClass: number[] = [];
+  const sd = Math.max(sigma, 1e-12);
+  for (const s of segs) {
+    const cnt = s.end - s.start;
+    let found = -1;
+    for (let c = 0; c < centres.length; c++) {
+      const q = centres[c]!;
+      if (Math.abs(q.level - s.level) <= 6 * sd * Math.sqrt(1 / cnt + 1 / q.count) + 1e-9 * Math.abs(s.level)) { found = c; break; }
+    }
+    if (found < 0) { centres.push({ level: s.level, count: cnt }); found = centres.length - 1; }
+    else { const q = centres[found]!; q.level = (q.level * q.count + s.level * cnt) / (q.count + cnt); q.count += cnt; }
+    segClass.push(found);
+    classOf.fill(found, s.start, s.end);
+  }
+  const switches = Int32Array.from(segs.slice(1).map((s) => s.start));
+  const use = new Uint8Array(n).fill(1);
+  for (let j = 0; j < switches.length; j++) { const k = switches[j]!; use[k] = 0; use[k - 1] = 0; }
+  const sums = centres.map(() => ({ s: 0, c: 0 }));
+  for (let k = 0; k < n; k++) if (use[k] === 1) { const q = sums[classOf[k]!]!; q.s += voltage[k]!; q.c++; }
+  const classes: ChannelSummary[] = sums.map((q) => ({ count: q.c, mean: q.c > 0 ? q.s / q.c : 0, sumSq: 0, sigma }));
+  for (let k = 0; k < n; k++) if (use[k] === 1) { const q = classes[classOf[k]!]!; q.sumSq += (voltage[k]! - q.mean) * (voltage[k]! - q.mean); }
+  return { classOf, classes, switches };
+}
+
+/**
+ * First sample of the free coast: where the current has dropped below half its running value
+ * (when the current is clearly above its noise), else where the smoothed speed first falls 6σ
+ * below its early plateau. Errs late (a late start only loses samples; an early one would bias).
+ */
+function findCoastStart(current: Float64Array | null, speed: Float64Array, sigmaW: number): number {
+  const n = speed.length;
+  const head = Math.max(4, Math.floor(n / 20));
+  if (current !== null) {
+    const cs = estimateNoiseLevel(current).sigma;
+    let s = 0;
+    for (let k = 0; k < head; k++) s += current[k]!;
+    const i0 = s / head;
+    if (Math.abs(i0) > 4 * cs) {
+      for (let k = head + 5; k < n; k++) {
+        const m5 = (current[k - 4]! + current[k - 3]! + current[k - 2]! + current[k - 1]! + current[k]!) / 5;
+        if (Math.abs(m5) < 0.5 * Math.abs(i0)) return Math.min(k + 1, n - 8);
+      }
+    }
+  }
+  const sorted = Float64Array.from(speed.subarray(0, head)).sort();
+  const w0 = sorted[head >> 1]!;
+  const win = 5;
+  for (let k = win; k < n; k++) {
+    let s = 0;
+    for (let j = k - win; j < k; j++) s += speed[j]!;
+    if (Math.abs(s / win - w0) > 6 * sigmaW / Math.sqrt(win) + 0) return Math.min(k, n - 8);
+  }
+  return 0;
+}

@@ -1,0 +1,240 @@
+/**
+ * Plain data shapes of the motor estimator. Everything is JSON-able except `Float64Array` series.
+ */
+import type { SolverOptions, StopReason } from '../solver/types.js';
+
+/** Names of the measured channels a recording may carry (SI: V, A, rad/s, rad, N·m, °C). */
+export type MotorChannel = 'voltage' | 'current' | 'speed' | 'position' | 'torque' | 'temperature';
+
+/**
+ * The part of an ingested recording the estimator reads. `Recording` from `@motorprint/ingest`
+ * fits this shape, and so does any object built by hand in a lab script.
+ */
+export interface RecordingData {
+  /** Sample times [s], strictly increasing. */
+  time: Float64Array;
+  /** Channels in SI: voltage [V], current [A], speed [rad/s], position [rad], torque [N·m], temperature [°C]. */
+  channels: Partial<Record<MotorChannel, Float64Array>>;
+}
+
+/**
+ * Experiment kinds the estimator understands (trade terms): locked-rotor step, free-run voltage
+ * step, coast-down, steady-state sweep, PRBS, multisine, and a loaded run with a torque transducer.
+ */
+export type MotorExperimentKind =
+  | 'locked-rotor'
+  | 'step'
+  | 'coast-down'
+  | 'steady-state'
+  | 'prbs'
+  | 'multisine'
+  | 'loaded';
+
+/** One recording handed to `fitMotor`. */
+export interface MotorRecordingInput {
+  /** The data. */
+  recording: RecordingData;
+  /** What experiment it is; guessed from the data when absent (the guess and its reason are reported). */
+  kind?: MotorExperimentKind;
+  /** A label for reports. @default `recording <index>` */
+  name?: string;
+}
+
+/** Names of the physical constants the estimator can fit. */
+export type MotorConstantName = 'R' | 'L' | 'Kt' | 'Ke' | 'J' | 'b' | 'Tc';
+
+/** A noise level estimated from the data (see `estimateNoiseLevel`). */
+export interface NoiseLevel {
+  /** Standard deviation of the white measurement noise, in the channel's unit. */
+  sigma: number;
+  /** Which estimator gave it. */
+  method: 'second-difference' | 'quantisation' | 'settled-segment' | 'constant';
+  /** Quantisation step seen in the data when the quantisation fallback was used, else null. */
+  quantum: number | null;
+}
+
+/** One constant-level stretch of a piecewise-constant command. */
+export interface VoltageSegment {
+  /** First sample of the segment (inclusive). */
+  start: number;
+  /** One past the last sample. */
+  end: number;
+  /** Mean of the measured voltage over the segment [V]. */
+  level: number;
+}
+
+/** How the measured (noisy) voltage was turned into the model input, and why. */
+export interface InputHandling {
+  /**
+   * `segment-means`: piecewise-constant command found, each segment replaced by its mean;
+   * `sine-fit`: smooth periodic input rebuilt by linear least squares on sines at the spectral
+   * peaks; `low-pass`: smooth input that the sines do not explain, passed through a zero-phase
+   * low-pass at three times its highest spectral peak; `measured`: the raw voltage is used (either asked for, or nothing better was found —
+   * then the constants may be biased and `reason` says so); `not-used`: the model of this kind
+   * does not take the voltage sample by sample (coast-down, steady-state plateaus).
+   */
+  method: 'segment-means' | 'sine-fit' | 'low-pass' | 'measured' | 'not-used';
+  /** Plain-words reason for the choice. */
+  reason: string;
+  /** Number of constant segments (segment-means only). */
+  segments?: number;
+  /** Frequencies of the fitted sines [Hz] (sine-fit only). */
+  frequencies?: number[];
+  /** Detected time of the (first) voltage step [s], or null. The fit may refine it. */
+  stepTime: number | null;
+  /** RMS of (measured − rebuilt) voltage divided by the voltage noise σ (≈ 1 when the rebuild explains the data). */
+  residualRatio: number;
+  /** Voltage noise σ from the data [V]. */
+  voltageSigma: number;
+}
+
+/** An estimate of one constant or nuisance parameter. */
+export interface ParameterEstimate {
+  /** Value in SI. */
+  value: number;
+  /** SI unit text. */
+  unit: string;
+  /** True when the value was pinned by `options.fix` (then there is no standard error). */
+  fixed?: boolean;
+  /** Standard error [unit] from the covariance at the optimum (delta method from the log scale), when computed. */
+  standardError?: number;
+  /** 95 % confidence interval [unit]: Student-t on the fitted scale (log scale for positive constants). */
+  interval95?: [number, number];
+  /** Names of the recordings that inform it. */
+  informedBy?: string[];
+}
+
+/** A constant that the given recordings do not inform. */
+export interface UninformedConstant {
+  /** Constant name. */
+  name: MotorConstantName;
+  /** Why it is not informed. */
+  reason: string;
+  /** Which recording kind would inform it. */
+  wouldInform: string;
+}
+
+/** Per channel fit quality of one recording. */
+export interface ChannelFit {
+  /** Channel name. */
+  channel: 'current' | 'speed';
+  /** Noise σ used for whitening, in the channel's unit. */
+  sigma: number;
+  /** How σ was obtained. */
+  sigmaMethod: NoiseLevel['method'];
+  /** Number of samples entering the fit. */
+  samples: number;
+  /** RMS of (model − measured) [channel unit]. */
+  rms: number;
+  /** RMS residual over the SD of the measured channel (0 = perfect; 1 = no better than the mean). */
+  nrmse: number;
+  /** Residual series model − measured (NaN where the sample is not fitted), or null when not kept. */
+  residuals: Float64Array | null;
+}
+
+/** What the fit made of one recording. */
+export interface RecordingReport {
+  /** Name given or made up. */
+  name: string;
+  /** Experiment kind used. */
+  kind: MotorExperimentKind;
+  /** Whether the kind was declared by the caller or guessed. */
+  kindSource: 'declared' | 'guessed';
+  /** Why the kind was guessed (or `declared by the caller`). */
+  kindReason: string;
+  /** Number of samples. */
+  samples: number;
+  /** Input handling used. */
+  input: InputHandling;
+  /** Fit quality per fitted channel. */
+  channels: ChannelFit[];
+  /** Nuisance parameters of this recording at the optimum (current offset [A], step time [s], initial speed [rad/s]). */
+  nuisance: Record<string, number>;
+}
+
+/** Result of `fitMotor`. */
+export interface MotorFit {
+  /** Constants in SI; Kt and Ke are both listed (equal when the model imposes Kt = Ke). */
+  parameters: Record<string, ParameterEstimate>;
+  /** Constants no given recording informs and nobody pinned. */
+  notInformed: UninformedConstant[];
+  /** Model variant used. */
+  variant: {
+    /** `equal`: Kt = Ke imposed (SI); `separate`: Kt and Ke fitted apart (a torque channel was present). */
+    torqueConstant: 'equal' | 'separate';
+    /** Whether Coulomb friction Tc is part of the model. */
+    coulomb: boolean;
+    /** Plain-words description. */
+    description: string;
+  };
+  /** Per recording reports. */
+  recordings: RecordingReport[];
+  /** Names of the fitted parameters in solver order (constants on the log scale as `ln R` etc.). */
+  fittedNames: string[];
+  /** Fitted parameter vector at the optimum (log scale for positive constants). */
+  theta: number[];
+  /** JᵀJ of the whitened residuals at the optimum w.r.t. `theta`, p×p row-major. */
+  normalMatrix: Float64Array;
+  /** Sum of squared whitened residuals at the optimum. */
+  ssr: number;
+  /** Number of residual rows. */
+  rows: number;
+  /** SSR/(rows − p): ≈ 1 when the noise levels and the model are right. */
+  residualVariance: number;
+  /** Starting values of the constants and where each came from. */
+  start: Record<string, { value: number; source: string }>;
+  /**
+   * The solver runs, in the order tried: the start with the lower sum of squares goes first (the
+   * caller's `options.initial` or the automatic guesses from the data alone); the other is tried
+   * only when the first does not converge. `chosen` marks the run whose optimum is reported.
+   */
+  starts: StartAttempt[];
+  /** Solver trial steps (all runs). */
+  iterations: number;
+  /** Evaluations that accumulated JᵀJ. */
+  jacobianEvaluations: number;
+  /** All evaluations of the residuals. */
+  functionEvaluations: number;
+  /** True only when a relative convergence test stopped the solver. Never trust the numbers otherwise. */
+  converged: boolean;
+  /** Which test stopped the solver. */
+  stopReason: StopReason | 'nothing-to-fit';
+}
+
+/** One solver run of `fitMotor` from one starting point. */
+export interface StartAttempt {
+  /** Where the starting constants came from. */
+  start: 'options.initial' | 'automatic';
+  /** Sum of squared whitened residuals at the start. */
+  startSsr: number;
+  /** ... and at the end of the run. */
+  ssr: number;
+  /** Trial steps of this run. */
+  iterations: number;
+  /** Whether this run converged. */
+  converged: boolean;
+  /** Why it stopped. */
+  stopReason: StopReason;
+  /** Whether its optimum is the reported one. */
+  chosen: boolean;
+}
+
+/** Options of `fitMotor`. */
+export interface FitMotorOptions {
+  /** Constants pinned to a value [SI]; they are not fitted and carry `fixed: true`. @default {} */
+  fix?: Partial<Record<MotorConstantName, number>>;
+  /** Starting values [SI] that replace the automatic guesses. @default {} */
+  initial?: Partial<Record<MotorConstantName, number>>;
+  /**
+   * How to use the measured voltage: `auto` rebuilds the command (segment means or sine fit)
+   * to avoid the errors-in-variables bias; `measured` feeds the raw samples (biased, for contrast).
+   * @default 'auto'
+   */
+  voltage?: 'auto' | 'measured';
+  /** Fit Coulomb friction Tc: `auto` when a coast-down or steady-state recording is given. @default 'auto' */
+  coulomb?: 'auto' | boolean;
+  /** Keep residual series in the result. @default true */
+  keepResiduals?: boolean;
+  /** Solver limits and tolerances. @default the solver's defaults, with maxIterations 100 */
+  solver?: SolverOptions;
+}
