@@ -1,13 +1,16 @@
 /**
  * Bench for packages/diagnose: (a) residualStats on 1e5 and 1e6 samples (autocorrelation to lag 50
  * by direct sums, Ljung–Box, runs test); (b) interval coverage of the locked-rotor R, L fit over
- * 2000 seeds (invented recordings); (c) finding rates over seeds on invented recordings.
- * Speed goal: residualStats on 1e6 samples with 50 lags in <= 0.5 s.
+ * 2000 seeds (invented recordings); (c) finding rates over seeds on invented recordings;
+ * (d) coverage of diagnoseFit's 95 % intervals on fitMotor results over 3000 seeds; (e) stiction
+ * detection / false-alarm rates on invented slow ramps; (f) diagnoseFit finding rates and time.
+ * Speed goal: residualStats on 1e6 samples with 50 lags in <= 0.5 s; diagnoseFit (with scans) on a
+ * locked-rotor + 2 kHz PRBS pair in <= 0.5 s.
  */
-import { fitCurve } from '../packages/estimate/src/index.js';
+import { fitCurve, fitMotor } from '../packages/estimate/src/index.js';
 import { createRandom, lockedRotorResponse } from '../packages/model/src/index.js';
-import { confidenceIntervals, residualStats, scanRecording } from '../packages/diagnose/src/index.js';
-import { MOTOR, invented } from '../packages/diagnose/src/__tests__/inventedRecordings.js';
+import { confidenceIntervals, detectStiction, diagnoseFit, residualStats, scanRecording } from '../packages/diagnose/src/index.js';
+import { MOTOR, invented, inventedRamp } from '../packages/diagnose/src/__tests__/inventedRecordings.js';
 
 const pad = (s: string | number, w: number): string => String(s).padStart(w);
 
@@ -74,5 +77,58 @@ export default async function run(): Promise<void> {
       for (const c of f) if (c !== code) others.set(c, (others.get(c) ?? 0) + 1);
     }
     console.log(`${label.padEnd(32)} ${code.padEnd(20)} ${pad((hit / 20).toFixed(2), 6)}  ${[...others].map(([c, k]) => `${c}×${k}`).join(' ')}`);
+  }
+
+  console.log('\n(d) 95 % interval coverage, diagnoseFit on fitMotor (locked-rotor 10 kHz + PRBS 0.1 s at 5 kHz, invented), 3000 seeds');
+  {
+    const seeds = 3000, names = ['R', 'L', 'Kt', 'J', 'b'] as const;
+    const cov: Record<string, number> = { R: 0, L: 0, Kt: 0, J: 0, b: 0 };
+    let unconverged = 0;
+    const t1 = performance.now();
+    for (let s = 1; s <= seeds; s++) {
+      const recs = [
+        { recording: invented(MOTOR, 'locked-rotor', s), kind: 'locked-rotor' as const },
+        { recording: invented(MOTOR, 'prbs', 10_000 + s, { duration: 0.1, sampleRate: 5000 }), kind: 'prbs' as const },
+      ];
+      const fit = fitMotor(recs);
+      if (!fit.converged) unconverged++;
+      const d = diagnoseFit(fit, recs, { scanRecordings: false, refitCoulomb: false });
+      for (const c of names) { const ci = d.parameters[c]!.ci95; if (ci && ci[0] <= MOTOR[c] && MOTOR[c] <= ci[1]) cov[c]!++; }
+    }
+    const sd3 = Math.sqrt((0.95 * 0.05) / seeds);
+    console.log(`${pad('param', 6)} ${pad('coverage', 9)} ${pad('binom SD', 9)}`);
+    for (const c of names) console.log(`${pad(c, 6)} ${pad((100 * cov[c]! / seeds).toFixed(2) + ' %', 9)} ${pad((100 * sd3).toFixed(2) + ' %', 9)}`);
+    console.log(`(unconverged ${unconverged}; ${((performance.now() - t1) / seeds).toFixed(1)} ms per fit + diagnosis)`);
+  }
+
+  console.log('\n(e) stiction on invented slow ramps (0 → 2 V over 1 s, 2 kHz; Tc 2 mN·m), 50 seeds each');
+  console.log(`${'case'.padEnd(24)} ${pad('fires', 6)}`);
+  for (const [label, p] of [['Ts 5 mN·m', { ...MOTOR, Tc: 2e-3, Ts: 5e-3 }], ['Ts 3 mN·m', { ...MOTOR, Tc: 2e-3, Ts: 3e-3 }], ['no stiction', { ...MOTOR, Tc: 2e-3 }]] as const) {
+    let hit = 0;
+    for (let s = 1; s <= 50; s++) if (detectStiction(inventedRamp(p, 700 + s))) hit++;
+    console.log(`${label.padEnd(24)} ${pad(`${hit}/50`, 6)}`);
+  }
+
+  console.log('\n(f) diagnoseFit on a locked-rotor + PRBS (2 kHz, 2 s) pair, 30 seeds each (goal: <= 0.5 s per diagnosis)');
+  console.log(`${'case'.padEnd(16)} ${pad('any', 6)} ${pad('fit-level', 10)} ${pad('Coulomb preferred', 18)} ${pad('ms fit', 7)} ${pad('ms diag', 8)}  codes`);
+  for (const [label, p] of [['clean', MOTOR], ['Tc 2 mN·m', { ...MOTOR, Tc: 2e-3 }]] as const) {
+    let any = 0, fitLevel = 0, pref = 0, tf = 0, td = 0;
+    const codes = new Map<string, number>();
+    for (let s = 1; s <= 30; s++) {
+      const recs = [
+        { recording: invented(p, 'locked-rotor', 900 + s), kind: 'locked-rotor' as const },
+        { recording: invented(p, 'prbs', 1900 + s, { sampleRate: 2000 }), kind: 'prbs' as const },
+      ];
+      const a = performance.now();
+      const fit = fitMotor(recs);
+      const b = performance.now();
+      const d = diagnoseFit(fit, recs);
+      td += performance.now() - b; tf += b - a;
+      if (d.findings.length > 0) any++;
+      if (d.findings.some((f) => f.origin !== 'recording-scan')) fitLevel++;
+      if (d.coulombRefit?.supported === 'viscous + Coulomb') pref++;
+      for (const f of d.findings) codes.set(`${f.code}/${f.origin}`, (codes.get(`${f.code}/${f.origin}`) ?? 0) + 1);
+    }
+    console.log(`${label.padEnd(16)} ${pad(`${any}/30`, 6)} ${pad(`${fitLevel}/30`, 10)} ${pad(`${pref}/30`, 18)} ${pad((tf / 30).toFixed(0), 7)} ${pad((td / 30).toFixed(0), 8)}  ${[...codes].map(([c, k]) => `${c}×${k}`).join(' ')}`);
   }
 }

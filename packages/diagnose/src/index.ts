@@ -9,8 +9,13 @@
 export type {
   ChannelName, RecordingLike, ParameterConfidence, ConfidenceReport, RecordingKind, RecordingDescription,
   IdentifiabilityVerdict, LjungBoxResult, RunsTestResult, ResidualStats, FindingSeverity, Finding, ModelSummary,
-  ModelComparison, LinearFit, CovarianceSummary,
+  ModelComparison, LinearFit, CovarianceSummary, ParameterDiagnosis, ChannelResidualDiagnosis, FindingOrigin,
+  DiagnosisFinding, DiagnosisComparison, CoulombRefit, DiagnoseFitOptions, FitDiagnosis,
 } from './types.js';
+export { diagnoseFit } from './diagnoseFit.js';
+export { detectResidualTrend } from './detectResidualTrend.js';
+export { detectResidualCoulomb } from './detectResidualCoulomb.js';
+export { detectResidualDelay } from './detectResidualDelay.js';
 export { confidenceIntervals } from './confidenceIntervals.js';
 export { correlationFromCovariance } from './correlationFromCovariance.js';
 export { assessIdentifiability } from './assessIdentifiability.js';

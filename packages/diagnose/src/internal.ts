@@ -39,3 +39,33 @@ export function checkRecording(fn: string, rec: RecordingLike): { n: number; dt:
 export function sig(x: number): number {
   return Number.isFinite(x) ? Number(x.toPrecision(4)) : x;
 }
+
+/**
+ * Ordinary least squares of y on [1, x] over the rows where both are finite, with the slope's
+ * standard error inflated for AR(1) residuals by √((1 + r₁)/(1 − r₁)), r₁ the lag-1
+ * autocorrelation of the fitted residuals clamped to [0, 0.98] (the usual effective-sample-size
+ * correction for serially correlated errors). NaN fields when fewer than 8 rows or x is constant.
+ */
+export function slopeWithSerialCorrection(x: Float64Array, y: Float64Array): { slope: number; intercept: number; se: number; rows: number; lag1: number; sd: number } {
+  const n = y.length;
+  let m = 0, sx = 0, sy = 0;
+  for (let k = 0; k < n; k++) if (Number.isFinite(y[k]!) && Number.isFinite(x[k]!)) { m++; sx += x[k]!; sy += y[k]!; }
+  const bad = { slope: NaN, intercept: NaN, se: NaN, rows: m, lag1: NaN, sd: NaN };
+  if (m < 8) return bad;
+  const xb = sx / m, yb = sy / m;
+  let sxx = 0, sxy = 0;
+  for (let k = 0; k < n; k++) if (Number.isFinite(y[k]!) && Number.isFinite(x[k]!)) { const dx = x[k]! - xb; sxx += dx * dx; sxy += dx * (y[k]! - yb); }
+  if (!(sxx > 0)) return bad;
+  const slope = sxy / sxx, intercept = yb - slope * xb;
+  let ss = 0, s1 = 0, prev = NaN;
+  for (let k = 0; k < n; k++) {
+    if (!Number.isFinite(y[k]!) || !Number.isFinite(x[k]!)) { prev = NaN; continue; }
+    const e = y[k]! - intercept - slope * x[k]!;
+    ss += e * e;
+    if (Number.isFinite(prev)) s1 += e * prev;
+    prev = e;
+  }
+  const r1 = ss > 0 ? Math.min(0.98, Math.max(0, s1 / ss)) : 0;
+  const s2 = ss / (m - 2);
+  return { slope, intercept, se: Math.sqrt(s2 / sxx) * Math.sqrt((1 + r1) / (1 - r1)), rows: m, lag1: r1, sd: Math.sqrt(s2) };
+}

@@ -3,7 +3,7 @@
  * residual statistics, model comparisons and findings. Everything is JSON-able except
  * `Float64Array` series.
  */
-import type { CovarianceSummary } from '@motorprint/estimate';
+import type { CovarianceSummary, FitMotorOptions } from '@motorprint/estimate';
 
 /** Names of the measured channels a recording may carry (SI: V, A, rad/s, rad, N·m, °C). */
 export type ChannelName = 'voltage' | 'current' | 'speed' | 'position' | 'torque' | 'temperature';
@@ -209,3 +209,102 @@ export interface LinearFit {
 
 /** Re-exported for convenience: the covariance summary from `@motorprint/estimate`. */
 export type { CovarianceSummary };
+
+/** One constant in a {@link FitDiagnosis}. JSON-able: missing numbers are null, never NaN. */
+export interface ParameterDiagnosis {
+  /** Estimate [unit]; null when no recording informs the constant (see `reason`). */
+  value: number | null;
+  /** SI unit text. */
+  unit: string;
+  /** True when the value was pinned by the caller (no error, no interval). */
+  fixed: boolean;
+  /** Standard error [unit] by the delta method from the fitted scale; null when not identifiable or fixed. */
+  standardError: number | null;
+  /** 95 % interval [unit]: Student-t (rows − p degrees of freedom) on the fitted scale, transformed back; null when not identifiable or fixed. */
+  ci95: [number, number] | null;
+  /** False when the recordings cannot inform the constant, or the covariance has no direction for it. */
+  identifiable: boolean;
+  /** Why it is not identifiable (absent when it is). */
+  reason?: string;
+  /** Which recording would inform it (absent when identifiable). */
+  wouldInform?: string;
+}
+
+/** Residual statistics of one fitted channel of one recording. */
+export interface ChannelResidualDiagnosis {
+  /** Recording name from the fit. */
+  recording: string;
+  /** Experiment kind the fit used. */
+  kind: string;
+  /** Channel. */
+  channel: 'current' | 'speed';
+  /** RMS, NRMSE, fit %, autocorrelation with its band, Ljung–Box, runs test. */
+  stats: ResidualStats;
+}
+
+/** Where a finding of a {@link FitDiagnosis} comes from. */
+export type FindingOrigin = 'recording-scan' | 'fit-residuals' | 'fit-covariance';
+
+/** A finding tagged with the recording it concerns and the evidence it rests on. */
+export interface DiagnosisFinding extends Finding {
+  /** Recording name, or null for a finding about the whole fit. */
+  recording: string | null;
+  /** Data-only detector on the recording, the fit's residual series, or its covariance. */
+  origin: FindingOrigin;
+}
+
+/** A model comparison tagged with the recording it was computed on (null: the whole fit). */
+export interface DiagnosisComparison extends ModelComparison {
+  /** Recording name, or null for a comparison of two fits. */
+  recording: string | null;
+}
+
+/** The Coulomb re-fit made when a finding says Coulomb friction and the fit has no Tc. */
+export interface CoulombRefit {
+  /** Codes and recordings of the findings that triggered it. */
+  triggeredBy: string[];
+  /** Whether the re-fit converged (the comparison is only meaningful when it did). */
+  converged: boolean;
+  /** The constants of the re-fit, diagnosed like the main fit. */
+  parameters: Record<string, ParameterDiagnosis>;
+  /** Viscous-only fit (restricted) against the fit with Tc (full): F-test, likelihood ratio, AIC, BIC. */
+  comparison: ModelComparison;
+  /** Which model the data support (the comparison's `preferred`). */
+  supported: 'viscous only' | 'viscous + Coulomb';
+}
+
+/** Options of `diagnoseFit`. */
+export interface DiagnoseFitOptions {
+  /** Run `scanRecording` on each recording. @default true */
+  scanRecordings?: boolean;
+  /** Re-fit with Coulomb friction when a finding calls for it. @default true */
+  refitCoulomb?: boolean;
+  /** Options of the original `fitMotor` call (pinned constants, starts, voltage handling), reused by the re-fit. @default {} */
+  fitOptions?: FitMotorOptions;
+  /** Significance level of the model comparisons. @default 0.01 */
+  alpha?: number;
+  /** Lags of the residual autocorrelation and Ljung–Box test. @default min(50, samples/4) */
+  maxLag?: number;
+}
+
+/** Everything `diagnoseFit` says about a `MotorFit`. JSON-able except the `Float64Array` autocorrelations. */
+export interface FitDiagnosis {
+  /** Constants (R, L, Kt, Ke, J, b, Tc, Kt/Ke as present), with value, error, interval and identifiability. */
+  parameters: Record<string, ParameterDiagnosis>;
+  /** Degrees of freedom rows − p of the Student-t intervals. */
+  degreesOfFreedom: number;
+  /** Correlation of the fitted constants (on the fitted, log scale); null entries where undefined. */
+  correlation: { names: string[]; matrix: (number | null)[][] };
+  /** Singular values of the column-scaled Jacobian (all fitted parameters, nuisances included), largest first. */
+  singularValues: number[];
+  /** Largest over smallest kept singular value (null when infinite). */
+  conditionNumber: number | null;
+  /** Residual statistics per recording and fitted channel. */
+  residuals: ChannelResidualDiagnosis[];
+  /** Findings from the recordings and from the fit. */
+  findings: DiagnosisFinding[];
+  /** Model comparisons computed by the detectors and by the Coulomb re-fit. */
+  comparisons: DiagnosisComparison[];
+  /** The Coulomb re-fit, when one was made. */
+  coulombRefit: CoulombRefit | null;
+}

@@ -20,12 +20,13 @@ export function invented(p: DetailedParams, kind: ExperimentKind, seed: number, 
 }
 
 /**
- * Invented slow voltage ramp from rest (0 → 6 V over 0.5 s, 10 kHz) through the detailed model —
- * the generator has no ramp experiment, and stiction shows only when the current rises slowly.
+ * Invented slow voltage ramp from rest through the detailed model (0 → 2 V over 1 s, then held to
+ * 1.2 s, 2 kHz) — the generator has no ramp experiment, and stiction shows only when the current
+ * rises slowly past the breakaway level (1 A/s here for the 2 Ω motor).
  */
 export function inventedRamp(p: DetailedParams, seed: number): RecordingLike {
-  const n = 5000, dt = 1e-4;
-  const v = Float64Array.from({ length: n }, (_, k) => Math.min(6, (6 * k) / 4000));
+  const fs = 2000, n = 2400, dt = 1 / fs;
+  const v = Float64Array.from({ length: n }, (_, k) => Math.min(2, (2 * k) / fs));
   const tr = simulateDetailed(p, v, dt);
   const rng = createRandom(seed);
   const g = (): number => rng.normal();

@@ -1,0 +1,168 @@
+import { fitMotor } from '@motorprint/estimate';
+import type { MotorFit, MotorRecordingInput } from '@motorprint/estimate';
+import { compareNestedModels } from './compareNestedModels.js';
+import { detectResidualCoulomb } from './detectResidualCoulomb.js';
+import { detectResidualDelay } from './detectResidualDelay.js';
+import { detectResidualTrend } from './detectResidualTrend.js';
+import { detectWeakExcitation } from './detectWeakExcitation.js';
+import { diagnoseParameters } from './diagnoseParameters.js';
+import { medianInterval } from './internal.js';
+import { residualStats } from './residualStats.js';
+import { scanRecording } from './scanRecording.js';
+import type {
+  ChannelName, ChannelResidualDiagnosis, CoulombRefit, DiagnoseFitOptions, DiagnosisComparison, DiagnosisFinding, FitDiagnosis,
+  RecordingDescription,
+} from './types.js';
+
+const CHANNELS: readonly ChannelName[] = ['voltage', 'current', 'speed', 'position', 'torque', 'temperature'];
+
+/**
+ * Says how far to trust a `fitMotor` result: per constant the value, standard error, 95 %
+ * interval and whether the recordings identify it (with the reason and the recording that would
+ * when they do not); the correlation and conditioning of the estimate; residual statistics per
+ * recording and channel; findings from the recordings and from the fit; the model comparisons
+ * behind them; and, when a finding says Coulomb friction and the fit has none, a re-fit with Tc
+ * and the verdict which model the data support.
+ *
+ * ## Method
+ * - Intervals: cov = s²(JᵀJ)⁺ from `fit.normalMatrix`, `fit.ssr`, `fit.rows`
+ *   (`covarianceFromNormalMatrix`, s² = SSR/(rows − p)); Student-t with rows − p degrees of freedom
+ *   on the fitted scale (θ = ln p for the positive constants, so the interval is
+ *   [p·e^{−t·SE(θ)}, p·e^{t·SE(θ)}], SE(p) = p·SE(θ) by the delta method; Tc is linear).
+ * - Identifiability: the constants in `fit.notInformed` (with the estimator's reason), the rules of
+ *   `assessIdentifiability` on the recordings' kinds, channels and sample intervals (τe = L/R from
+ *   the fit), and the rank of the covariance; an unidentifiable constant gets no interval.
+ * - Residuals: `residualStats` of each kept residual series (model − measured) against the
+ *   measured channel.
+ * - Findings: `scanRecording` on each recording (origin `recording-scan`); from the fit
+ *   (origin `fit-residuals`) `detectResidualTrend`, `detectResidualCoulomb` (when the model has
+ *   no Tc) and `detectResidualDelay` on every residual series; from the covariance
+ *   (`fit-covariance`) `detectWeakExcitation` (condition number > 1e4 or rank deficient).
+ * - Coulomb re-fit: when a `coulomb-friction` finding fires and `fit.variant.coulomb` is false,
+ *   `fitMotor(recordings, { ...fitOptions, coulomb: true })`, then `compareNestedModels` on the
+ *   two whitened SSRs and parameter counts (F-test at `alpha`, likelihood ratio, AIC, BIC).
+ *
+ * ## References
+ * D. M. Bates, D. G. Watts (1988), Nonlinear Regression Analysis and Its Applications, Wiley, §2.3,
+ * doi:10.1002/9780470316757. L. Ljung (1999), System Identification: Theory for the User, 2nd ed.,
+ * §16.6 (residual analysis). Ljung & Box (1978) doi:10.1093/biomet/65.2.297.
+ *
+ * @param fit - result of `fitMotor` on `recordings`
+ * @param recordings - the same `{ recording, kind?, name? }` items, in the same order
+ * @param options - scans, re-fit, the original fit options, alpha, lags
+ * @returns the {@link FitDiagnosis}
+ * @throws TypeError when the fit or the recordings do not match (count, sample counts, shapes)
+ * @throws RangeError when `alpha` is not in (0, 1) or `maxLag` is not a positive integer
+ * @example
+ * const recs = [{ recording: locked, kind: 'locked-rotor' }, { recording: prbs, kind: 'prbs' }];
+ * const d = diagnoseFit(fitMotor(recs), recs);
+ * d.parameters.R; // => { value: 2.0004, unit: 'Ω', standardError: 0.0009, ci95: [1.9986, 2.0022], identifiable: true, fixed: false }
+ */
+export function diagnoseFit(fit: MotorFit, recordings: MotorRecordingInput[], options: DiagnoseFitOptions = {}): FitDiagnosis {
+  const fn = 'diagnoseFit';
+  if (fit === null || typeof fit !== 'object' || !Array.isArray(fit.theta) || !Array.isArray(fit.fittedNames) || !(fit.normalMatrix instanceof Float64Array) || !Array.isArray(fit.recordings)) {
+    throw new TypeError(`${fn}: fit must be a MotorFit (the result of fitMotor)`);
+  }
+  if (!Array.isArray(recordings)) throw new TypeError(`${fn}: recordings must be an array of { recording, kind?, name? }`);
+  if (recordings.length !== fit.recordings.length) {
+    throw new TypeError(`${fn}: recordings has ${recordings.length} entries but the fit was made on ${fit.recordings.length}`);
+  }
+  recordings.forEach((item, i) => {
+    const rec = item?.recording;
+    if (rec === null || typeof rec !== 'object' || !(rec.time instanceof Float64Array) || rec.channels === null || typeof rec.channels !== 'object') {
+      throw new TypeError(`${fn}: recordings[${i}].recording must be { time: Float64Array, channels }`);
+    }
+    if (rec.time.length !== fit.recordings[i]!.samples) {
+      throw new TypeError(`${fn}: recordings[${i}] has ${rec.time.length} samples but the fit's recording ${JSON.stringify(fit.recordings[i]!.name)} has ${fit.recordings[i]!.samples}`);
+    }
+  });
+  if (options === null || typeof options !== 'object') throw new TypeError(`${fn}: options must be an object`);
+  const alpha = options.alpha ?? 0.01;
+  if (!(alpha > 0 && alpha < 1)) throw new RangeError(`${fn}: options.alpha must be in (0, 1) (got ${alpha})`);
+  if (options.maxLag !== undefined && !(Number.isInteger(options.maxLag) && options.maxLag >= 1)) {
+    throw new RangeError(`${fn}: options.maxLag must be an integer >= 1 (got ${options.maxLag})`);
+  }
+  const scan = options.scanRecordings ?? true;
+  const refit = options.refitCoulomb ?? true;
+
+  const descriptions: RecordingDescription[] = recordings.map((item, i) => ({
+    name: fit.recordings[i]!.name,
+    kind: fit.recordings[i]!.kind,
+    channels: CHANNELS.filter((c) => item.recording.channels[c] instanceof Float64Array),
+    sampleInterval: medianInterval(item.recording.time),
+  }));
+  const part = diagnoseParameters(fit, descriptions);
+
+  const residuals: ChannelResidualDiagnosis[] = [];
+  const findings: DiagnosisFinding[] = [];
+  const comparisons: DiagnosisComparison[] = [];
+  recordings.forEach((item, i) => {
+    const rep = fit.recordings[i]!;
+    const rec = item.recording;
+    const voltage = rec.channels.voltage;
+    const speed = rec.channels.speed;
+    const speedSigma = rep.channels.find((c) => c.channel === 'speed')?.sigma ?? NaN;
+    for (const ch of rep.channels) {
+      const measured = rec.channels[ch.channel];
+      const res = ch.residuals;
+      if (!(measured instanceof Float64Array) || res === null || res.length !== measured.length) continue;
+      const predicted = new Float64Array(measured.length);
+      let finiteRows = 0;
+      for (let k = 0; k < measured.length; k++) { predicted[k] = measured[k]! + res[k]!; if (Number.isFinite(predicted[k]!)) finiteRows++; }
+      if (finiteRows < 8) continue;
+      const lag = Math.min(options.maxLag ?? Math.min(50, Math.floor(finiteRows / 4)), finiteRows - 1);
+      residuals.push({ recording: rep.name, kind: rep.kind, channel: ch.channel, stats: residualStats(measured, predicted, lag) });
+      const tag = (f: ReturnType<typeof detectResidualTrend>): void => { if (f) findings.push({ ...f, recording: rep.name, origin: 'fit-residuals' }); };
+      tag(detectResidualTrend(rec.time, res, ch.channel, rep.kind));
+      if (!fit.variant.coulomb && speed instanceof Float64Array && speed.length === res.length && rep.kind !== 'coast-down') {
+        tag(detectResidualCoulomb(speed, res, ch.channel, speedSigma));
+      }
+      if (voltage instanceof Float64Array && rep.kind !== 'coast-down' && rep.kind !== 'steady-state') {
+        tag(detectResidualDelay(voltage, res, predicted, descriptions[i]!.sampleInterval));
+      }
+    }
+    if (scan) {
+      const s = scanRecording(rec, { kind: rep.kind, alpha });
+      for (const f of s.findings) findings.push({ ...f, recording: rep.name, origin: 'recording-scan' });
+      for (const c of s.comparisons) comparisons.push({ ...c, recording: rep.name });
+    }
+  });
+  if (part.summary !== null) {
+    const w = detectWeakExcitation(null, part.summary);
+    if (w) findings.push({ ...w, recording: null, origin: 'fit-covariance' });
+  }
+
+  let coulombRefit: CoulombRefit | null = null;
+  const triggers = findings.filter((f) => f.code === 'coulomb-friction');
+  if (refit && !fit.variant.coulomb && triggers.length > 0 && fit.theta.length > 0) {
+    const second = fitMotor(recordings, { ...(options.fitOptions ?? {}), coulomb: true });
+    if (second.rows === fit.rows && second.theta.length > fit.theta.length && second.ssr > 0 && fit.ssr > 0) {
+      const comparison = compareNestedModels('fitMotor: viscous friction vs viscous + Coulomb friction Tc',
+        { name: 'viscous only', ssr: fit.ssr, parameters: fit.theta.length },
+        { name: 'viscous + Coulomb', ssr: second.ssr, parameters: second.theta.length }, fit.rows, alpha);
+      const preferred = second.converged && comparison.preferred === 'full';
+      coulombRefit = {
+        triggeredBy: triggers.map((f) => `${f.code} (${f.origin}, ${f.recording ?? 'fit'})`),
+        converged: second.converged,
+        parameters: diagnoseParameters(second, descriptions).parameters,
+        comparison: { ...comparison, preferred: preferred ? 'full' : 'restricted' },
+        supported: preferred ? 'viscous + Coulomb' : 'viscous only',
+      };
+      comparisons.push({ ...coulombRefit.comparison, recording: null });
+    }
+  }
+
+  const sv = part.summary === null ? [] : Array.from(part.summary.singularValues);
+  const cond = part.summary?.conditionNumber ?? NaN;
+  return {
+    parameters: part.parameters,
+    degreesOfFreedom: part.degreesOfFreedom,
+    correlation: part.correlation,
+    singularValues: sv,
+    conditionNumber: Number.isFinite(cond) ? cond : null,
+    residuals,
+    findings,
+    comparisons,
+    coulombRefit,
+  };
+}
