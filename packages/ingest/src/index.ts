@@ -1,2 +1,42 @@
-/** @packageDocumentation */
-export {};
+/**
+ * `@motorprint/ingest`: trustworthy CSV ingest of DC-motor bench recordings. Reads comma,
+ * semicolon and tab files (decimal commas, comments, BOM, CRLF, quotes), recognises the columns
+ * and their units, converts them to SI through mathjs, checks the time base, and records where
+ * every number came from.
+ *
+ * @packageDocumentation
+ */
+export type {
+  ChannelRole,
+  SignalRole,
+  Recording,
+  RecordingMeta,
+  IngestIssue,
+  IngestOptions,
+  IngestResult,
+  Dialect,
+  ColumnMeta,
+  UnitSource,
+  DroppedRow,
+  DropReason,
+  TimeBase,
+  DerivedChannel,
+} from './types.js';
+export { CHANNEL_ROLES, SI_UNITS } from './types.js';
+export { IngestError } from './IngestError.js';
+export type { IngestErrorCode } from './IngestError.js';
+export { createIngestor } from './createIngestor.js';
+export type { Ingestor } from './createIngestor.js';
+export { ingestText } from './ingestText.js';
+export { readRecording } from './readRecording.js';
+export { guessExperimentKind } from './guessExperimentKind.js';
+export type { ExperimentKind, ExperimentGuess } from './guessExperimentKind.js';
+export { describeRecording } from './describeRecording.js';
+export type { RecordingDescription, ChannelSummary } from './describeRecording.js';
+export { UNIT_TABLE, EXACT_FACTORS, resolveUnit, lookupUnit, normaliseUnitText, mathjsConversion } from './units.js';
+export type { UnitDefinition, ResolvedUnit, UnitProblem } from './units.js';
+export { splitHeader, detectRole, ROLE_LIMITS } from './columns.js';
+export type { HeaderParts, RoleGuess } from './columns.js';
+export { checkTimeBase } from './checkTimeBase.js';
+export { deriveSpeed } from './deriveSpeed.js';
+export { parseCellReference, classifyBadCell } from './parseCell.js';

@@ -1,0 +1,86 @@
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { runCli, EXIT, type CliIo } from '@motorprint/cli';
+
+function capture(cwd: string) {
+  const out: string[] = [];
+  const err: string[] = [];
+  const io: CliIo = { stdout: (t) => out.push(t), stderr: (t) => err.push(t), cwd, env: { NO_COLOR: '1' }, isTty: false };
+  return { io, stdout: () => out.join(''), stderr: () => err.join('') };
+}
+
+// Constants of the FACTS.md §5 worked example (R 2 Ω, L 1 mH, Kt = Ke 0.05, J 2e-5 kg·m², b 1e-5).
+const TRUE = { R: 2, L: 1e-3, Kt: 0.05, Ke: 0.05, J: 2e-5, b: 1e-5 };
+let dir = '';
+
+beforeAll(async () => {
+  dir = mkdtempSync(join(tmpdir(), 'mp-fit-'));
+  writeFileSync(join(dir, 'motor.json'), JSON.stringify(TRUE));
+  // Invented recordings with noise on every channel (σ: 20 mV, 10 mA, 0.2 rad/s).
+  const noise = ['--noise-voltage', '0.02', '--noise-current', '0.01', '--noise-speed', '0.2'];
+  for (const [kind, seed, extra] of [
+    ['locked-rotor', '3', ['--sample-rate', '50000']],
+    ['step', '4', ['--sample-rate', '10000', '--duration', '0.12']],
+  ] as const) {
+    const c = capture(dir);
+    const code = await runCli(['simulate', 'motor.json', '--experiment', kind, '--volts', '12', '--seed', seed, ...extra, ...noise, '--out', `${kind}.csv`], c.io);
+    expect(code, c.stderr()).toBe(EXIT.ok);
+  }
+});
+
+describe('motorprint fit', () => {
+  it('fits a locked-rotor and a step run jointly; every true constant lies within 3 standard errors', async () => {
+    const c = capture(dir);
+    const code = await runCli(['fit', 'locked-rotor.csv', 'step.csv', '--kind', 'locked-rotor.csv=locked-rotor', '--json'], c.io);
+    expect(code, c.stderr()).toBe(EXIT.ok);
+    const doc = JSON.parse(c.stdout());
+    expect(doc.converged).toBe(true);
+    for (const name of ['R', 'L', 'Kt', 'Ke', 'J', 'b'] as const) {
+      const p = doc.parameters[name];
+      expect(p.unit.length).toBeGreaterThan(0);
+      expect(p.standardError).toBeGreaterThan(0);
+      const z = Math.abs(p.value - TRUE[name]) / p.standardError;
+      expect(z, `${name}: ${p.value} ± ${p.standardError} vs true ${TRUE[name]}`).toBeLessThan(3);
+      expect(p.ci95[0]).toBeLessThan(p.value);
+      expect(p.ci95[1]).toBeGreaterThan(p.value);
+    }
+    expect(doc.recordings[0].kindSource).toBe('declared');
+    expect(doc.recordings[1].kind).toBe('step');
+  });
+  it('prints a readable table with intervals and the solver status', async () => {
+    const c = capture(dir);
+    const code = await runCli(['fit', 'locked-rotor.csv', 'step.csv', '--kind', 'locked-rotor.csv=locked-rotor'], c.io);
+    expect(code, c.stderr()).toBe(EXIT.ok);
+    expect(c.stdout()).toMatch(/constant\s+value\s+unit\s+std\. error\s+95 % interval/);
+    expect(c.stdout()).toMatch(/solver: converged/);
+  });
+  it('pins a constant with --fix and names what a locked-rotor run alone cannot inform', async () => {
+    const c = capture(dir);
+    const code = await runCli(['fit', 'locked-rotor.csv', '--kind', 'locked-rotor.csv=locked-rotor', '--fix', 'L=0.001', '--json'], c.io);
+    expect(code, c.stderr()).toBe(EXIT.ok);
+    const doc = JSON.parse(c.stdout());
+    expect(doc.parameters.L).toMatchObject({ value: 0.001, fixed: true });
+    expect(doc.parameters.J).toBeUndefined();
+    expect(doc.notInformed.map((u: { name: string }) => u.name)).toEqual(expect.arrayContaining(['J', 'b']));
+  });
+  it('rejects usage mistakes with exit 2', async () => {
+    const a = capture(dir);
+    expect(await runCli(['fit', 'step.csv', '--kind', 'other.csv=step'], a.io)).toBe(EXIT.usage);
+    expect(a.stderr()).toMatch(/not among the files/);
+    const b = capture(dir);
+    expect(await runCli(['fit', 'step.csv', '--fix', 'Q=1'], b.io)).toBe(EXIT.usage);
+    expect(b.stderr()).toMatch(/unknown constant "Q"/);
+    const k = capture(dir);
+    expect(await runCli(['fit', 'step.csv', '--kind', 'step.csv=spin'], k.io)).toBe(EXIT.usage);
+    const e = capture(dir);
+    expect(await runCli(['fit'], e.io)).toBe(EXIT.usage);
+  });
+  it('exits 1 naming the file when a recording cannot be read', async () => {
+    writeFileSync(join(dir, 'broken.csv'), 'time [s],voltage [V],current [A]\n0,1,1\n0.001,1\n');
+    const c = capture(dir);
+    expect(await runCli(['fit', 'broken.csv'], c.io)).toBe(EXIT.dataProblem);
+    expect(c.stderr()).toMatch(/broken\.csv/);
+  });
+});

@@ -1,0 +1,309 @@
+import { basename } from 'node:path';
+import { diagnoseFit, type FitDiagnosis } from '@motorprint/diagnose';
+import { fitMotor, type FitMotorOptions, type MotorConstantName, type MotorExperimentKind, type MotorFit } from '@motorprint/estimate';
+import type { IngestResult } from '@motorprint/ingest';
+import { keyValuePairs, parseSubcommandArgs } from '../args.js';
+import { INGEST_OPTION_HELP, INGEST_OPTIONS, ingestOptionsFrom, readInput } from '../readInputs.js';
+import { paintFor, type Paint } from '../style.js';
+import { formatNumber, formatTable } from '../table.js';
+import { EXIT, type CliIo, type Subcommand } from '../types.js';
+import { UsageError } from '../UsageError.js';
+
+const KINDS: readonly MotorExperimentKind[] = ['locked-rotor', 'step', 'coast-down', 'steady-state', 'prbs', 'multisine', 'loaded'];
+const CONSTANTS: readonly MotorConstantName[] = ['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc'];
+
+const HELP = `motorprint fit FILE... [--kind FILE=KIND] [--fix P=V] [--guess P=V] [--json] [ingest options]
+
+Fits the lumped DC-motor model to one or more bench recordings at once and prints one consistent
+parameter set: R [Ω], L [H], Kt [N·m/A], Ke [V·s/rad], J [kg·m²], b [N·m·s/rad] and, where a
+coast-down or steady-state sweep informs it, Coulomb friction Tc [N·m]. Each constant comes with its
+standard error and 95 % interval; a constant the recordings cannot inform is named, with the
+recording that would inform it, instead of being printed as a number.
+
+Which recording informs what:
+  locked-rotor   R, L                     step            K (= Kt = Ke), J, b (R, L if sampled fast)
+  coast-down     b/J and Tc               steady-state    Ke, b, Tc (and R)
+  prbs/multisine all                      loaded          Kt apart from Ke (needs a torque column)
+
+Options:
+  --kind FILE=KIND   declare the experiment of FILE (as typed, or its base name); KIND is one of
+                     ${KINDS.join(', ')}; otherwise it is guessed and the reason shown
+  --fix P=V          pin constant P to V [SI] (e.g. --fix R=1.23); repeat as needed
+  --guess P=V        start constant P at V [SI] instead of the automatic guess
+  --check FILE       after fitting, predict FILE (a held-out recording) with the fitted constants
+                     and print NRMSE per channel; repeat as needed
+  --measured-voltage feed the raw measured voltage to the model (no rebuild of the command; biased
+                     when the voltage is noisy — for comparison only)
+  --json             print one JSON document on stdout
+${INGEST_OPTION_HELP}
+
+Exit codes: 0 converged fit, 1 data problem or a fit that did not converge (its numbers are not
+trustworthy and are marked so), 2 command-line mistake.`;
+
+const UNIT: Record<string, string> = { R: 'Ω', L: 'H', Kt: 'N·m/A', Ke: 'V·s/rad', J: 'kg·m²', b: 'N·m·s/rad', Tc: 'N·m' };
+
+function constantPairs(name: string, raw: string[] | undefined): Partial<Record<MotorConstantName, number>> {
+  const out: Partial<Record<MotorConstantName, number>> = {};
+  for (const [key, value] of keyValuePairs('fit', name, raw)) {
+    if (!(CONSTANTS as readonly string[]).includes(key)) {
+      throw new UsageError(`--${name}: unknown constant "${key}"; constants are ${CONSTANTS.join(', ')}`, 'fit');
+    }
+    const x = Number(value);
+    if (!Number.isFinite(x) || value === '') throw new UsageError(`--${name} ${key}= must be a number in ${UNIT[key]} (got "${value}")`, 'fit');
+    out[key as MotorConstantName] = x;
+  }
+  return out;
+}
+
+/** Plain JSON document of a fit (typed arrays left out). */
+export function fitDocument(
+  fit: MotorFit,
+  diagnosis: FitDiagnosis,
+  inputs: { file: string; result: IngestResult }[],
+  validation: ValidationResult[] = [],
+): Record<string, unknown> {
+  const parameters: Record<string, unknown> = {};
+  for (const [name, d] of Object.entries(diagnosis.parameters)) {
+    if (d.value === null) continue;
+    const entry: Record<string, unknown> = { value: d.value, unit: d.unit, ci95: d.ci95, identifiable: d.identifiable };
+    if (d.fixed) entry.fixed = true;
+    if (d.standardError !== null) entry.standardError = d.standardError;
+    if (d.reason !== undefined) entry.reason = d.reason;
+    const informedBy = fit.parameters[name]?.informedBy;
+    if (informedBy !== undefined) entry.informedBy = informedBy;
+    parameters[name] = entry;
+  }
+  return {
+    schema: 'motorprint.fit/1',
+    tool: { name: 'motorprint', version: '0.1.0' },
+    converged: fit.converged,
+    stopReason: fit.stopReason,
+    parameters,
+    notInformed: fit.notInformed,
+    variant: fit.variant,
+    recordings: fit.recordings.map((r, k) => ({
+      name: r.name,
+      file: inputs[k]?.file,
+      sha256: inputs[k]?.result.recording.meta.source.sha256,
+      rowsDropped: inputs[k]?.result.recording.meta.rowsDroppedCount ?? 0,
+      kind: r.kind,
+      kindSource: r.kindSource,
+      kindReason: r.kindReason,
+      samples: r.samples,
+      input: r.input,
+      nuisance: r.nuisance,
+      channels: r.channels.map(({ residuals: _residuals, ...rest }) => rest),
+    })),
+    solver: {
+      iterations: fit.iterations,
+      jacobianEvaluations: fit.jacobianEvaluations,
+      functionEvaluations: fit.functionEvaluations,
+      residualVariance: fit.residualVariance,
+      rows: fit.rows,
+    },
+    start: fit.start,
+    findings: diagnosis.findings.map(({ code, severity, title, evidence, advice, recording, origin }) => ({
+      code, severity, title, evidence, advice, recording, origin,
+    })),
+    comparisons: diagnosis.comparisons,
+    coulombRefit: diagnosis.coulombRefit,
+    residuals: diagnosis.residuals.map((r) => ({
+      recording: r.recording,
+      channel: r.channel,
+      rms: r.stats.rms,
+      nrmse: r.stats.nrmse,
+      ljungBox: r.stats.ljungBox,
+      runs: r.stats.runs,
+    })),
+    conditionNumber: diagnosis.conditionNumber,
+    correlation: diagnosis.correlation,
+    validation,
+  };
+}
+
+/** NRMSE of the fitted model on a held-out recording (see `--check`). */
+export interface ValidationResult {
+  file: string;
+  kind: string;
+  channels: { channel: string; rms: number; nrmse: number; samples: number }[];
+  converged: boolean;
+}
+
+/** Prints an interval with enough digits that its ends differ (at least 3 significant). */
+function formatInterval([low, high]: [number, number], value: number): string {
+  const width = Math.abs(high - low);
+  const digits = width > 0 && value !== 0 ? Math.min(10, Math.max(3, Math.ceil(Math.log10(Math.abs(value) / width)) + 2)) : 3;
+  return `${formatNumber(low, digits)} … ${formatNumber(high, digits)}`;
+}
+
+function formatEvidence(evidence: Record<string, number | string>): string {
+  return Object.entries(evidence)
+    .map(([k, v]) => `${k} ${typeof v === 'number' ? formatNumber(v, 4) : v}`)
+    .join('; ');
+}
+
+function formatFit(fit: MotorFit, diagnosis: FitDiagnosis, validation: ValidationResult[], paint: Paint): string {
+  const out: string[] = [];
+  const entries = Object.entries(diagnosis.parameters);
+  const rows = entries
+    .filter(([, d]) => d.value !== null && d.identifiable)
+    .map(([name, d]) => [
+      name,
+      formatNumber(d.value as number, 5),
+      d.unit,
+      d.fixed ? 'pinned' : d.standardError !== null ? formatNumber(d.standardError, 2) : '—',
+      d.ci95 ? formatInterval(d.ci95, d.value as number) : '—',
+      d.fixed ? '' : (fit.parameters[name]?.informedBy ?? []).map((f) => basename(f)).join(', '),
+    ]);
+  out.push(paint.bold(fit.converged ? 'Fitted constants' : 'Constants where the fit STOPPED (not converged — do not use)'));
+  out.push(formatTable(['constant', 'value', 'unit', 'std. error', '95 % interval', 'informed by'], rows, ['left', 'right', 'left', 'right', 'left', 'left']));
+  const unidentified = entries.filter(([, d]) => !d.identifiable);
+  if (unidentified.length > 0) {
+    out.push('');
+    out.push(paint.bold('Not identifiable from these recordings'));
+    for (const [name, d] of unidentified) {
+      out.push(`  ${name}: ${d.reason ?? 'no recording informs it'}${d.wouldInform ? ` — ${d.wouldInform}` : ''}`);
+    }
+  }
+  out.push('');
+  out.push(paint.bold('Recordings'));
+  for (const r of fit.recordings) {
+    out.push(`  ${r.name}: ${r.kind} (${r.kindSource === 'declared' ? 'declared' : `guessed: ${r.kindReason}`}), ${r.samples} samples`);
+    out.push(`    input: ${r.input.method} — ${r.input.reason}`);
+    for (const c of r.channels) {
+      const stats = diagnosis.residuals.find((x) => x.recording === r.name && x.channel === c.channel)?.stats;
+      const white = stats
+        ? `, Ljung–Box p ${formatNumber(stats.ljungBox.pValue, 2)}${stats.ljungBox.pValue < 0.01 ? paint.warn(' (residuals not white)') : ''}`
+        : '';
+      out.push(`    ${c.channel.padEnd(7)} σ ${formatNumber(c.sigma, 3)} (${c.sigmaMethod}), residual RMS ${formatNumber(c.rms, 3)}, NRMSE ${formatNumber(c.nrmse, 3)}${white}`);
+    }
+  }
+  out.push('');
+  if (diagnosis.findings.length === 0) {
+    out.push(paint.bold('Findings: none') + ' — nothing in these recordings calls for more than the lumped linear model.');
+  } else {
+    out.push(paint.bold(`Findings (${diagnosis.findings.length})`));
+    for (const f of diagnosis.findings) {
+      const tag = f.severity === 'problem' ? paint.error(f.severity) : f.severity === 'warning' ? paint.warn(f.severity) : paint.dim(f.severity);
+      out.push(`  ${tag} ${f.code}${f.recording ? ` (${f.recording})` : ''}: ${f.title}`);
+      out.push(`    evidence: ${formatEvidence(f.evidence)}`);
+      out.push(`    advice: ${f.advice}`);
+    }
+  }
+  const refit = diagnosis.coulombRefit;
+  if (refit) {
+    const c = refit.comparison;
+    out.push(
+      `  model comparison (${c.question}): F p ${formatNumber(c.fPValue, 2)}, AIC ${formatNumber(c.aic[0], 6)} → ${formatNumber(c.aic[1], 6)}, ` +
+        `BIC ${formatNumber(c.bic[0], 6)} → ${formatNumber(c.bic[1], 6)}; the data support: ${paint.bold(refit.supported)}` +
+        `${refit.converged ? '' : ' (the re-fit did not converge; treat with care)'}`,
+    );
+  }
+  if (validation.length > 0) {
+    out.push('');
+    out.push(paint.bold('Check on held-out recordings (fitted constants pinned)'));
+    for (const v of validation) {
+      out.push(`  ${v.file} (${v.kind}): ${v.channels.map((c) => `${c.channel} NRMSE ${formatNumber(c.nrmse, 3)} (RMS ${formatNumber(c.rms, 3)})`).join(', ')}`);
+    }
+  }
+  out.push('');
+  out.push(`${fit.variant.description}`);
+  const status = fit.converged ? paint.good('converged') : paint.error('NOT converged');
+  out.push(
+    `solver: ${status} (${fit.stopReason}) after ${fit.iterations} steps, ${fit.jacobianEvaluations} Jacobian evaluations; ` +
+      `residual variance ${formatNumber(fit.residualVariance, 3)} (≈ 1 when noise levels and model agree)` +
+      `${diagnosis.conditionNumber !== null ? `; condition number ${formatNumber(diagnosis.conditionNumber, 2)}` : ''}`,
+  );
+  return out.join('\n');
+}
+
+async function run(args: string[], io: CliIo): Promise<number> {
+  const { values, positionals } = parseSubcommandArgs('fit', args, {
+    kind: { type: 'string', multiple: true },
+    fix: { type: 'string', multiple: true },
+    guess: { type: 'string', multiple: true },
+    'measured-voltage': { type: 'boolean' },
+    check: { type: 'string', multiple: true },
+    json: { type: 'boolean' },
+    ...INGEST_OPTIONS,
+  });
+  if (positionals.length === 0) throw new UsageError('give at least one recording (CSV) to fit', 'fit');
+  const kinds = new Map<string, MotorExperimentKind>();
+  for (const [file, kind] of keyValuePairs('fit', 'kind', values.kind)) {
+    if (!(KINDS as readonly string[]).includes(kind)) {
+      throw new UsageError(`--kind ${file}=${kind}: KIND must be one of ${KINDS.join(', ')}`, 'fit');
+    }
+    const match = positionals.filter((p) => p === file || basename(p) === file);
+    if (match.length === 0) throw new UsageError(`--kind names "${file}", which is not among the files to fit`, 'fit');
+    for (const m of match) kinds.set(m, kind as MotorExperimentKind);
+  }
+  const options: FitMotorOptions = {};
+  const fix = constantPairs('fix', values.fix);
+  const guess = constantPairs('guess', values.guess);
+  if (Object.keys(fix).length > 0) options.fix = fix;
+  if (Object.keys(guess).length > 0) options.initial = guess;
+  if (values['measured-voltage']) options.voltage = 'measured';
+  const ingestOptions = ingestOptionsFrom('fit', values);
+  const paint = paintFor(io);
+
+  const inputs: { file: string; result: IngestResult }[] = [];
+  for (const file of positionals) {
+    const result = await readInput(io.cwd, file, ingestOptions);
+    const meta = result.recording.meta;
+    const dropped = meta.rowsDroppedCount;
+    io.stderr(`read ${file}: ${result.recording.time.length} rows${dropped > 0 ? paint.warn(`, ${dropped} dropped (run "motorprint inspect ${file}" for the list)`) : ''}\n`);
+    inputs.push({ file, result });
+  }
+  io.stderr(`fitting ${inputs.length} recording(s)…\n`);
+  const fitInputs = inputs.map(({ file, result }) => {
+    const kind = kinds.get(file);
+    return kind === undefined ? { recording: result.recording, name: file } : { recording: result.recording, name: file, kind };
+  });
+  const fit = fitMotor(fitInputs, options);
+  if (!fit.converged) {
+    // Diagnose only a converged fit; say where it stopped.
+    if (values.json) io.stdout(`${JSON.stringify({ schema: 'motorprint.fit/1', converged: false, stopReason: fit.stopReason, iterations: fit.iterations }, null, 2)}\n`);
+    io.stderr(`${paint.error('error:')} the fit did not converge (${fit.stopReason}) after ${fit.iterations} steps; no constants are reported. ` +
+      'Check the declared kinds (--kind), pin a constant you know (--fix), or give a starting value (--guess).\n');
+    return EXIT.dataProblem;
+  }
+  io.stderr('checking the fit (intervals, residuals, findings)…\n');
+  const diagnosis = diagnoseFit(fit, fitInputs, { fitOptions: options });
+  const validation: ValidationResult[] = [];
+  for (const file of values.check ?? []) {
+    const held = await readInput(io.cwd, file, ingestOptions);
+    validation.push(checkOnRecording(fit, file, held));
+  }
+  if (values.json) io.stdout(`${JSON.stringify(fitDocument(fit, diagnosis, inputs, validation), null, 2)}\n`);
+  else io.stdout(`${formatFit(fit, diagnosis, validation, paint)}\n`);
+  return EXIT.ok;
+}
+
+/**
+ * Simulates the fitted model on a held-out recording: the recording is passed through the
+ * estimator with every fitted constant pinned, so only its own input levels and sensor offsets are
+ * estimated, and the NRMSE per channel says how well the constants predict data they were not fitted to.
+ */
+export function checkOnRecording(fit: MotorFit, file: string, held: IngestResult): ValidationResult {
+  const fix: Partial<Record<MotorConstantName, number>> = {};
+  for (const name of CONSTANTS) {
+    const p = fit.parameters[name];
+    if (p !== undefined) fix[name] = p.value;
+  }
+  const check = fitMotor([{ recording: held.recording, name: file }], { fix, coulomb: fix.Tc !== undefined });
+  const rec = check.recordings[0];
+  return {
+    file,
+    kind: rec?.kind ?? 'unknown',
+    converged: check.converged,
+    channels: (rec?.channels ?? []).map((c) => ({ channel: c.channel, rms: c.rms, nrmse: c.nrmse, samples: c.samples })),
+  };
+}
+
+/** `motorprint fit`: fits the motor constants to recordings. */
+export const fitCommand: Subcommand = {
+  name: 'fit',
+  summary: 'fit R, L, Kt/Ke, J, b (and Coulomb friction) to recordings, with intervals',
+  help: HELP,
+  run,
+};

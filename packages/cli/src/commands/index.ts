@@ -1,0 +1,7 @@
+import type { Subcommand } from '../types.js';
+import { fitCommand } from './fit.js';
+import { inspectCommand } from './inspect.js';
+import { simulateCommand } from './simulate.js';
+
+/** Every subcommand, in the order the overall help lists them. */
+export const SUBCOMMANDS: readonly Subcommand[] = [fitCommand, inspectCommand, simulateCommand];

@@ -1,0 +1,173 @@
+import { describeRecording, IngestError, type RecordingDescription } from '@motorprint/ingest';
+import { parseSubcommandArgs } from '../args.js';
+import { INGEST_OPTION_HELP, INGEST_OPTIONS, ingestOptionsFrom, readInput } from '../readInputs.js';
+import { describeFailure } from '../describeFailure.js';
+import { paintFor, type Paint } from '../style.js';
+import { formatNumber, formatTable } from '../table.js';
+import { EXIT, type CliIo, type Subcommand } from '../types.js';
+import { UsageError } from '../UsageError.js';
+
+const HELP = `motorprint inspect FILE... [--json] [--map ROLE=COLUMN] [--unit COLUMN=UNIT] [--counts-per-rev N]
+
+Shows what motorprint understood of each bench recording before anything is fitted: the CSV
+dialect, each column's role and unit (and the SI unit it was converted to), rows read and rows
+dropped with their line numbers and reasons, the sample rate and its jitter, the time span, a
+min / max / mean of every channel in SI, and a guess of the experiment kind with its reason.
+
+Options:
+${INGEST_OPTION_HELP}
+  --json                print one JSON document on stdout ({ "files": [...] })
+
+Exit codes: 0 every file read, 1 a file could not be read (the message names file, line and
+column), 2 command-line mistake.`;
+
+interface FileFailure {
+  file: string;
+  error: { code: string; message: string; line?: number; column?: string };
+}
+
+function failureOf(file: string, err: unknown): FileFailure {
+  if (err instanceof IngestError) {
+    const e: FileFailure['error'] = { code: err.code, message: err.message };
+    if (err.line !== undefined) e.line = err.line;
+    if (err.column !== undefined) e.column = err.column;
+    return { file, error: e };
+  }
+  const code = (err as { code?: unknown }).code;
+  return { file, error: { code: typeof code === 'string' ? code : 'unreadable', message: describeFailure(err) } };
+}
+
+function formatSeconds(s: number): string {
+  if (!Number.isFinite(s)) return String(s);
+  const a = Math.abs(s);
+  if (a === 0) return '0 s';
+  if (a < 1e-3) return `${formatNumber(s * 1e6)} µs`;
+  if (a < 1) return `${formatNumber(s * 1e3)} ms`;
+  return `${formatNumber(s)} s`;
+}
+
+function percent(x: number): string {
+  return `${formatNumber(x * 100, 2)} %`;
+}
+
+/** Human-readable block for one file. */
+export function formatDescription(d: RecordingDescription, paint: Paint): string {
+  const out: string[] = [];
+  out.push(paint.bold(d.file));
+  out.push(`  sha256 ${d.sha256}, ${d.bytes} bytes`);
+  const delim = d.dialect.delimiter === ',' ? 'comma' : d.dialect.delimiter === ';' ? 'semicolon' : d.dialect.delimiter === '\t' ? 'tab' : JSON.stringify(d.dialect.delimiter);
+  out.push(
+    `  dialect: ${delim}-separated, decimal ${d.dialect.decimalSeparator === ',' ? 'comma' : 'point'}, ` +
+      `${d.dialect.lineEnding} line ends${d.dialect.bom ? ', UTF-8 BOM' : ''}${d.dialect.quoted ? ', quoted fields' : ''}, ` +
+      `${d.dialect.commentLines} comment line(s), header on line ${d.dialect.headerLine}`,
+  );
+  out.push(`  experiment kind (guess): ${paint.bold(d.kind.kind)} — ${d.kind.reason}`);
+  out.push(
+    `  rows: ${d.rows.read} read, ${d.rows.kept} kept, ` +
+      `${d.rows.dropped > 0 ? paint.warn(`${d.rows.dropped} dropped`) : '0 dropped'}`,
+  );
+  for (const row of d.rows.droppedRows) {
+    out.push(`    line ${row.line}${row.column !== undefined ? `, column "${row.column}"` : ''}: ${row.reason} — ${row.detail}`);
+  }
+  if (d.rows.dropped > d.rows.droppedRows.length) {
+    out.push(`    … and ${d.rows.dropped - d.rows.droppedRows.length} more dropped rows (counted, not listed)`);
+  }
+  const s = d.sampling;
+  out.push(
+    `  sampling: ${formatNumber(s.sampleRate)} Hz (interval ${formatSeconds(s.sampleInterval)}), ` +
+      `jitter σ ${percent(s.jitterStd)}, max ${percent(s.jitterMax)} of the interval` +
+      `${s.gaps > 0 ? paint.warn(`, ${s.gaps} gap(s), longest ${formatSeconds(s.maxInterval)}`) : ''}`,
+  );
+  out.push(`  time span: ${formatNumber(d.timeSpan.start)} s to ${formatNumber(d.timeSpan.end)} s (${formatSeconds(d.timeSpan.duration)})`);
+  const rows: string[][] = d.columns.map((c) => {
+    const summary = c.role !== 'extra' && c.role !== 'time' ? d.channels[c.role] : undefined;
+    const extra = c.role === 'extra' ? d.extra.find((e) => e.name === c.header) : undefined;
+    const stats = summary ?? extra;
+    const fmt = (v: number | null | undefined) => (v === null || v === undefined ? '—' : formatNumber(v));
+    return [
+      c.header,
+      c.role,
+      `${c.unit ?? '—'}${c.assumed ? ' (assumed)' : ''}`,
+      c.siUnit ?? '—',
+      c.role === 'time' ? formatNumber(d.timeSpan.start) : fmt(stats?.min),
+      c.role === 'time' ? formatNumber(d.timeSpan.end) : fmt(stats?.max),
+      c.role === 'time' ? '' : fmt(stats?.mean),
+    ];
+  });
+  for (const derived of d.derived) {
+    const summary = d.channels[derived.role as keyof typeof d.channels];
+    rows.push([
+      `(${derived.role} from ${derived.from})`, derived.role, 'derived', summary?.unit ?? '—',
+      formatNumber(summary?.min ?? Number.NaN), formatNumber(summary?.max ?? Number.NaN), formatNumber(summary?.mean ?? Number.NaN),
+    ]);
+  }
+  out.push(
+    formatTable(['column', 'role', 'unit read', 'SI unit', 'min', 'max', 'mean'], rows, ['left', 'left', 'left', 'left', 'right', 'right', 'right'])
+      .split('\n')
+      .map((l) => `  ${l}`)
+      .join('\n'),
+  );
+  for (const derived of d.derived) {
+    out.push(
+      `  ${derived.role} derived from ${derived.from}: ${derived.method}; quantisation step ${formatNumber(derived.quantisationStep)}, ` +
+        `implied speed noise σ ≈ ${formatNumber(derived.speedNoiseSigma)} rad/s`,
+    );
+  }
+  if (d.issues.length > 0) {
+    out.push('  notes:');
+    for (const issue of d.issues) {
+      const where = [issue.line !== undefined ? `line ${issue.line}` : '', issue.column !== undefined ? `column "${issue.column}"` : '']
+        .filter(Boolean)
+        .join(', ');
+      const tag = issue.severity === 'warning' ? paint.warn('warning') : paint.dim('info');
+      out.push(`    ${tag} ${issue.code}${where ? ` (${where})` : ''}: ${issue.message}`);
+    }
+  }
+  return out.join('\n');
+}
+
+async function run(args: string[], io: CliIo): Promise<number> {
+  const { values, positionals } = parseSubcommandArgs('inspect', args, {
+    json: { type: 'boolean' },
+    ...INGEST_OPTIONS,
+  });
+  if (positionals.length === 0) throw new UsageError('give at least one CSV file to inspect', 'inspect');
+  const options = ingestOptionsFrom('inspect', values);
+  const paint = paintFor(io);
+  const results: (RecordingDescription | FileFailure)[] = [];
+  let failed = 0;
+  for (const file of positionals) {
+    try {
+      const result = await readInput(io.cwd, file, options);
+      results.push(describeRecording(result));
+    } catch (err) {
+      failed++;
+      results.push(failureOf(file, err));
+    }
+  }
+  if (values.json) {
+    io.stdout(`${JSON.stringify({ schema: 'motorprint.inspect-list/1', files: results }, null, 2)}\n`);
+  } else {
+    const blocks = results.filter((r): r is RecordingDescription => !('error' in r)).map((d) => formatDescription(d, paint));
+    if (blocks.length > 0) io.stdout(`${blocks.join('\n\n')}\n`);
+  }
+  for (const r of results) {
+    if ('error' in r) io.stderr(`${paint.error('error:')} ${failureText(r)}\n`);
+  }
+  return failed > 0 ? EXIT.dataProblem : EXIT.ok;
+}
+
+function failureText(f: FileFailure): string {
+  const where = [f.file, f.error.line !== undefined ? `line ${f.error.line}` : '', f.error.column !== undefined ? `column "${f.error.column}"` : '']
+    .filter(Boolean)
+    .join(', ');
+  return `${where}: ${f.error.message.startsWith(f.file) ? f.error.message.slice(f.file.length).replace(/^[:,]\s*/, '') : f.error.message} [${f.error.code}]`;
+}
+
+/** `motorprint inspect`: shows what ingest understood of each file. */
+export const inspectCommand: Subcommand = {
+  name: 'inspect',
+  summary: 'show what was read from bench recordings (columns, units, dropped rows, sampling, kind)',
+  help: HELP,
+  run,
+};

@@ -1,0 +1,114 @@
+import type { IngestIssue, TimeBase } from './types.js';
+
+/** Intervals longer than this multiple of the median are reported as gaps. */
+const GAP_FACTOR = 3;
+/** Relative dt standard deviation above which sampling is reported as irregular. */
+const JITTER_NOTE = 0.01;
+
+/**
+ * Describes a strictly increasing time base: span, median sample interval, jitter and gaps.
+ *
+ * @param time - sample times [s], strictly increasing, at least 2 samples
+ * @returns the time base and issues `time-gap` (intervals > 3 × median) and `irregular-sampling`
+ *   (std of dt > 1 % of the median)
+ * @example
+ * checkTimeBase(Float64Array.of(0, 0.001, 0.002, 0.003)).timeBase.sampleRate // ≈ 1000
+ */
+export function checkTimeBase(time: Float64Array): { timeBase: TimeBase; issues: IngestIssue[] } {
+  const n = time.length;
+  const m = n - 1;
+  const dt = new Float64Array(m);
+  let sum = 0;
+  let maxDt = 0;
+  let maxAt = 0;
+  for (let k = 0; k < m; k++) {
+    const d = time[k + 1]! - time[k]!;
+    dt[k] = d;
+    sum += d;
+    if (d > maxDt) {
+      maxDt = d;
+      maxAt = k;
+    }
+  }
+  const mean = sum / m;
+  let ss = 0;
+  for (let k = 0; k < m; k++) {
+    const e = dt[k]! - mean;
+    ss += e * e;
+  }
+  const std = m > 1 ? Math.sqrt(ss / (m - 1)) : 0;
+  let minDt = Number.POSITIVE_INFINITY;
+  for (let k = 0; k < m; k++) if (dt[k]! < minDt) minDt = dt[k]!;
+  // The median reorders dt; the rest needs no order.
+  const median = medianOf(dt);
+  const maxDev = Math.max(maxDt - median, median - minDt);
+  let gaps = 0;
+  for (let k = 0; k < m; k++) if (dt[k]! > GAP_FACTOR * median) gaps++;
+  const timeBase: TimeBase = {
+    start: time[0]!,
+    end: time[n - 1]!,
+    duration: time[n - 1]! - time[0]!,
+    sampleInterval: median,
+    sampleRate: 1 / median,
+    jitterStd: std / median,
+    jitterMax: maxDev / median,
+    gaps,
+    maxInterval: maxDt,
+  };
+  const issues: IngestIssue[] = [];
+  if (gaps > 0) {
+    issues.push({
+      code: 'time-gap',
+      severity: 'warning',
+      message: `${gaps} sample intervals are longer than ${GAP_FACTOR} × the median ${fmt(median)} s; the largest is ${fmt(maxDt)} s after t = ${fmt(time[maxAt]!)} s.`,
+    });
+  }
+  if (timeBase.jitterStd > JITTER_NOTE) {
+    issues.push({
+      code: 'irregular-sampling',
+      severity: 'info',
+      message: `Sample intervals vary: std ${(100 * timeBase.jitterStd).toFixed(2)} % of the median ${fmt(median)} s, worst ${(100 * timeBase.jitterMax).toFixed(1)} %.`,
+    });
+  }
+  return { timeBase, issues };
+}
+
+function fmt(x: number): string {
+  return Number(x.toPrecision(4)).toString();
+}
+
+/** Median by quickselect (Hoare partition, middle pivot); reorders `x`. O(n) on average. */
+function medianOf(x: Float64Array): number {
+  const m = x.length;
+  const upper = selectInPlace(x, m >> 1);
+  if (m % 2) return upper;
+  let lower = Number.NEGATIVE_INFINITY;
+  for (let k = 0; k < m >> 1; k++) if (x[k]! > lower) lower = x[k]!;
+  return (lower + upper) / 2;
+}
+
+/** Moves the k-th smallest value to x[k], smaller ones before it, larger after; returns it. */
+function selectInPlace(x: Float64Array, k: number): number {
+  let lo = 0;
+  let hi = x.length - 1;
+  while (hi > lo) {
+    const pivot = x[(lo + hi) >> 1]!;
+    let i = lo;
+    let j = hi;
+    while (i <= j) {
+      while (x[i]! < pivot) i++;
+      while (x[j]! > pivot) j--;
+      if (i <= j) {
+        const t = x[i]!;
+        x[i] = x[j]!;
+        x[j] = t;
+        i++;
+        j--;
+      }
+    }
+    if (k <= j) hi = j;
+    else if (k >= i) lo = i;
+    else break;
+  }
+  return x[k]!;
+}
