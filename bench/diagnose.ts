@@ -131,4 +131,29 @@ export default async function run(): Promise<void> {
     }
     console.log(`${label.padEnd(16)} ${pad(`${any}/30`, 6)} ${pad(`${fitLevel}/30`, 10)} ${pad(`${pref}/30`, 18)} ${pad((tf / 30).toFixed(0), 7)} ${pad((td / 30).toFixed(0), 8)}  ${[...codes].map(([c, k]) => `${c}×${k}`).join(' ')}`);
   }
+  console.log('\n(g) false alarms of every finding on CLEAN invented recordings (FACTS.md §5 motor), 100 seeds per kind;');
+  console.log('    95 % upper bound: exact one-sided Clopper–Pearson (binomial); and detection rates with the effect on');
+  const cp = (k: number, n: number): number => {
+    // Smallest p with P(X <= k | n, p) <= 0.05, by bisection on the binomial CDF.
+    const cdf = (p: number): number => { let t = Math.pow(1 - p, n), c = t; for (let i = 1; i <= k; i++) { t *= ((n - i + 1) / i) * (p / (1 - p)); c += t; } return c; };
+    let lo = k / n, hi = 1;
+    for (let it = 0; it < 60; it++) { const mid = (lo + hi) / 2; if (cdf(mid) > 0.05) lo = mid; else hi = mid; }
+    return hi;
+  };
+  const gcases: [string, Parameters<typeof invented>[0], Parameters<typeof invented>[1], Parameters<typeof invented>[3]][] = [
+    ['clean step', MOTOR, 'step', {}], ['clean prbs 10 kHz', MOTOR, 'prbs', {}], ['clean prbs 2 kHz', MOTOR, 'prbs', { sampleRate: 2000 }],
+    ['clean multisine', MOTOR, 'multisine', {}], ['clean steady-state', MOTOR, 'steady-state', {}],
+    ['clean coast-down 3 s', MOTOR, 'coast-down', { duration: 3 }], ['clean locked-rotor', MOTOR, 'locked-rotor', {}],
+    ['Tc 2e-3 steady-state', { ...MOTOR, Tc: 2e-3 }, 'steady-state', {}], ['Tc 2e-3 prbs 10 kHz', { ...MOTOR, Tc: 2e-3 }, 'prbs', {}],
+    ['Tc 2e-3 prbs 2 kHz', { ...MOTOR, Tc: 2e-3 }, 'prbs', { sampleRate: 2000 }], ['Tc 2e-3 coast-down 3 s', { ...MOTOR, Tc: 2e-3 }, 'coast-down', { duration: 3 }],
+    ['cd 1e-7 steady-state', { ...MOTOR, cd: 1e-7 }, 'steady-state', {}],
+  ];
+  const G = 100;
+  console.log(`${'case'.padEnd(24)} ${'finding'.padEnd(20)} ${pad('count', 7)} ${pad('rate', 6)} ${pad('95% up', 7)}`);
+  for (const [label, p, kind, extra] of gcases) {
+    const m = new Map<string, number>();
+    for (let s = 1; s <= G; s++) for (const c of new Set(scanRecording(invented(p, kind, 5000 + s, extra), { kind }).findings.map((f) => f.code))) m.set(c, (m.get(c) ?? 0) + 1);
+    if (m.size === 0) console.log(`${label.padEnd(24)} ${'(none)'.padEnd(20)} ${pad(`0/${G}`, 7)} ${pad('0.00', 6)} ${pad(cp(0, G).toFixed(3), 7)}`);
+    for (const [c, k] of m) console.log(`${label.padEnd(24)} ${c.padEnd(20)} ${pad(`${k}/${G}`, 7)} ${pad((k / G).toFixed(2), 6)} ${pad(cp(k, G).toFixed(3), 7)}`);
+  }
 }

@@ -69,3 +69,4 @@ export function slopeWithSerialCorrection(x: Float64Array, y: Float64Array): { s
   const s2 = ss / (m - 2);
   return { slope, intercept, se: Math.sqrt(s2 / sxx) * Math.sqrt((1 + r1) / (1 - r1)), rows: m, lag1: r1, sd: Math.sqrt(s2) };
 }
+

@@ -55,6 +55,11 @@ export interface MechanicalRegression {
   bothDirections: boolean;
   /** Filtered full-rate series (for detectors that need them): drive, speed, acceleration. */
   filtered: { drive: Float64Array; speed: Float64Array; acceleration: Float64Array; decimation: number };
+  /**
+   * The decimated regression rows: response `drive` and the columns in the order of `coulombDrag`
+   * — acceleration, speed, sign, speed·|speed| (+ ones when `offset`).
+   */
+  rows: { drive: Float64Array; columns: Float64Array[] };
 }
 
 /**
@@ -169,5 +174,6 @@ export function mechanicalRegression(input: MechanicalRegressionInput): Mechanic
     movingFraction: moving / m,
     bothDirections: pos > 0 && neg > 0,
     filtered: { drive: y, speed: w, acceleration: acc, decimation: dec },
+    rows: { drive: cY, columns: [cAcc, cW, cS, cD, ...extra] },
   };
 }
