@@ -27,3 +27,8 @@ export { fitMotor, solveLeastSquares, fitCurve } from '@motorprint/estimate';
 export type { MotorFit, FitMotorOptions, MotorRecordingInput, ParameterEstimate } from '@motorprint/estimate';
 export { diagnoseFit, residualStats } from '@motorprint/diagnose';
 export type { FitDiagnosis, DiagnosisFinding, ParameterDiagnosis } from '@motorprint/diagnose';
+export {
+  buildParameterSet, readParameterSet, derivedFigures, normaliseResistance,
+  formatParameterSetJson, formatParameterSetCsv, formatParameterSetMarkdown, renderHtmlReport,
+} from '@motorprint/report';
+export type { ParameterSet, DerivedFigure, BuildParameterSetOptions } from '@motorprint/report';

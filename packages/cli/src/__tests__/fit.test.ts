@@ -1,4 +1,4 @@
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
@@ -36,7 +36,8 @@ describe('motorprint fit', () => {
     const code = await runCli(['fit', 'locked-rotor.csv', 'step.csv', '--kind', 'locked-rotor.csv=locked-rotor', '--json'], c.io);
     expect(code, c.stderr()).toBe(EXIT.ok);
     const doc = JSON.parse(c.stdout());
-    expect(doc.converged).toBe(true);
+    expect(doc.schema).toBe('motorprint.parameter-set/1');
+    expect(doc.fit.converged).toBe(true);
     for (const name of ['R', 'L', 'Kt', 'Ke', 'J', 'b'] as const) {
       const p = doc.parameters[name];
       expect(p.unit.length).toBeGreaterThan(0);
@@ -46,8 +47,8 @@ describe('motorprint fit', () => {
       expect(p.ci95[0]).toBeLessThan(p.value);
       expect(p.ci95[1]).toBeGreaterThan(p.value);
     }
-    expect(doc.recordings[0].kindSource).toBe('declared');
-    expect(doc.recordings[1].kind).toBe('step');
+    expect(doc.fit.recordings[1].kind).toBe('step');
+    expect(Array.isArray(doc.findings)).toBe(true);
   });
   it('prints a readable table with intervals and the solver status', async () => {
     const c = capture(dir);
@@ -61,8 +62,9 @@ describe('motorprint fit', () => {
     const code = await runCli(['fit', 'locked-rotor.csv', '--kind', 'locked-rotor.csv=locked-rotor', '--fix', 'L=0.001', '--json'], c.io);
     expect(code, c.stderr()).toBe(EXIT.ok);
     const doc = JSON.parse(c.stdout());
-    expect(doc.parameters.L).toMatchObject({ value: 0.001, fixed: true });
-    expect(doc.parameters.J).toBeUndefined();
+    expect(doc.parameters.L).toMatchObject({ value: 0.001, fixed: true, ci95: null });
+    // A constant no recording informs is listed with value null and no interval, never as a number.
+    expect(doc.parameters.J).toMatchObject({ value: null, ci95: null, identifiable: false });
     expect(doc.notInformed.map((u: { name: string }) => u.name)).toEqual(expect.arrayContaining(['J', 'b']));
   });
   it('rejects usage mistakes with exit 2', async () => {
@@ -82,5 +84,40 @@ describe('motorprint fit', () => {
     const c = capture(dir);
     expect(await runCli(['fit', 'broken.csv'], c.io)).toBe(EXIT.dataProblem);
     expect(c.stderr()).toMatch(/broken\.csv/);
+  });
+});
+
+describe('motorprint fit --out / --report and motorprint show', () => {
+  it('writes a parameter set that validates on read-back, that show prints and simulate accepts', async () => {
+    const c = capture(dir);
+    const code = await runCli(
+      ['fit', 'locked-rotor.csv', 'step.csv', '--kind', 'locked-rotor.csv=locked-rotor', '--out', 'set/motor.json', '--report', 'set/report.html', '--id', 'motor=bench sample (invented)', '--winding-temp', '75'],
+      c.io,
+    );
+    expect(code, c.stderr()).toBe(EXIT.ok);
+    const set = JSON.parse(readFileSync(join(dir, 'set/motor.json'), 'utf8'));
+    expect(set.schema).toBe('motorprint.parameter-set/1');
+    expect(set.provenance.inputs).toHaveLength(2);
+    expect(set.provenance.inputs[0].sha256).toMatch(/^[0-9a-f]{64}$/);
+    // Copper law k = 234.5 from 75 °C to 25 °C: factor (234.5 + 25)/(234.5 + 75) = 259.5/309.5 (FACTS.md §3 form).
+    expect(set.resistanceAtReference.factor).toBeCloseTo(259.5 / 309.5, 12);
+    const html = readFileSync(join(dir, 'set/report.html'), 'utf8');
+    expect(html).toMatch(/<svg/);
+    expect(html).toMatch(/winding/i);
+    const show = capture(dir);
+    expect(await runCli(['show', 'set/motor.json'], show.io)).toBe(EXIT.ok);
+    expect(show.stdout()).toMatch(/motor: bench sample \(invented\)/);
+    expect(show.stdout()).toMatch(/stall torque/);
+    const md = capture(dir);
+    expect(await runCli(['show', 'set/motor.json', '--format', 'md'], md.io)).toBe(EXIT.ok);
+    expect(md.stdout()).toMatch(/\|/);
+    const sim = capture(dir);
+    expect(await runCli(['simulate', 'set/motor.json', '--experiment', 'step', '--out', 'again.csv'], sim.io)).toBe(EXIT.ok);
+  });
+  it('show exits 1 on a file that is not a parameter set, naming the path in the document', async () => {
+    writeFileSync(join(dir, 'bad-set.json'), JSON.stringify({ schema: 'motorprint.parameter-set/1', parameters: { R: { value: 'x' } } }));
+    const c = capture(dir);
+    expect(await runCli(['show', 'bad-set.json'], c.io)).toBe(EXIT.dataProblem);
+    expect(c.stderr()).toMatch(/bad-set\.json: not a motorprint parameter set/);
   });
 });

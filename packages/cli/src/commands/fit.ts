@@ -1,8 +1,14 @@
 import { basename } from 'node:path';
+import { mkdir, writeFile } from 'node:fs/promises';
+import { dirname, extname, resolve } from 'node:path';
 import { diagnoseFit, type FitDiagnosis } from '@motorprint/diagnose';
+import {
+  buildParameterSet, formatParameterSetCsv, formatParameterSetMarkdown, renderHtmlReport,
+  type BuildParameterSetOptions, type JsonValue, type ParameterSet,
+} from '@motorprint/report';
 import { fitMotor, type FitMotorOptions, type MotorConstantName, type MotorExperimentKind, type MotorFit } from '@motorprint/estimate';
 import type { IngestResult } from '@motorprint/ingest';
-import { keyValuePairs, parseSubcommandArgs } from '../args.js';
+import { keyValuePairs, numberOption, parseSubcommandArgs } from '../args.js';
 import { INGEST_OPTION_HELP, INGEST_OPTIONS, ingestOptionsFrom, readInput } from '../readInputs.js';
 import { paintFor, type Paint } from '../style.js';
 import { formatNumber, formatTable } from '../table.js';
@@ -34,7 +40,17 @@ Options:
                      and print NRMSE per channel; repeat as needed
   --measured-voltage feed the raw measured voltage to the model (no rebuild of the command; biased
                      when the voltage is noisy — for comparison only)
-  --json             print one JSON document on stdout
+  --json             print the parameter set (one JSON document) on stdout
+  --out FILE         write the parameter set to FILE (JSON; Markdown or CSV with --format or a
+                     .md / .csv name); "motorprint simulate" and "motorprint show" read the JSON
+  --format F         json | md | csv for --out
+  --report FILE.html write a self-contained HTML report (traces, residuals, findings, cautions)
+  --rated-voltage V  voltage for the datasheet figures (default: the largest step voltage seen)
+  --winding-temp C   winding temperature during the runs, to carry R to the reference temperature
+                     (default: the mean of a temperature column, if logged)
+  --reference-temp C reference temperature for R (default 25 °C)
+  --copper-k K       copper law constant: 234.5 (IEEE Std 113 form, default) or 235 (IEC 60034-1 form)
+  --id KEY=VALUE     identification for the report, e.g. --id motor="Tern 24" --id serial=A113
 ${INGEST_OPTION_HELP}
 
 Exit codes: 0 converged fit, 1 data problem or a fit that did not converge (its numbers are not
@@ -55,70 +71,15 @@ function constantPairs(name: string, raw: string[] | undefined): Partial<Record<
   return out;
 }
 
-/** Plain JSON document of a fit (typed arrays left out). */
-export function fitDocument(
-  fit: MotorFit,
-  diagnosis: FitDiagnosis,
-  inputs: { file: string; result: IngestResult }[],
-  validation: ValidationResult[] = [],
-): Record<string, unknown> {
-  const parameters: Record<string, unknown> = {};
-  for (const [name, d] of Object.entries(diagnosis.parameters)) {
-    if (d.value === null) continue;
-    const entry: Record<string, unknown> = { value: d.value, unit: d.unit, ci95: d.ci95, identifiable: d.identifiable };
-    if (d.fixed) entry.fixed = true;
-    if (d.standardError !== null) entry.standardError = d.standardError;
-    if (d.reason !== undefined) entry.reason = d.reason;
-    const informedBy = fit.parameters[name]?.informedBy;
-    if (informedBy !== undefined) entry.informedBy = informedBy;
-    parameters[name] = entry;
+/** What `fit --json` prints and `--out` writes: the parameter set, plus held-out checks and the model comparison. */
+export function fitDocument(set: ParameterSet, diagnosis: FitDiagnosis, validation: ValidationResult[]): Record<string, unknown> {
+  const doc: Record<string, unknown> = { ...set };
+  if (diagnosis.coulombRefit) {
+    const { comparison, supported, converged, triggeredBy } = diagnosis.coulombRefit;
+    doc.modelComparison = { supported, converged, triggeredBy, comparison };
   }
-  return {
-    schema: 'motorprint.fit/1',
-    tool: { name: 'motorprint', version: '0.1.0' },
-    converged: fit.converged,
-    stopReason: fit.stopReason,
-    parameters,
-    notInformed: fit.notInformed,
-    variant: fit.variant,
-    recordings: fit.recordings.map((r, k) => ({
-      name: r.name,
-      file: inputs[k]?.file,
-      sha256: inputs[k]?.result.recording.meta.source.sha256,
-      rowsDropped: inputs[k]?.result.recording.meta.rowsDroppedCount ?? 0,
-      kind: r.kind,
-      kindSource: r.kindSource,
-      kindReason: r.kindReason,
-      samples: r.samples,
-      input: r.input,
-      nuisance: r.nuisance,
-      channels: r.channels.map(({ residuals: _residuals, ...rest }) => rest),
-    })),
-    solver: {
-      iterations: fit.iterations,
-      jacobianEvaluations: fit.jacobianEvaluations,
-      functionEvaluations: fit.functionEvaluations,
-      residualVariance: fit.residualVariance,
-      rows: fit.rows,
-    },
-    start: fit.start,
-    findings: diagnosis.findings.map(({ code, severity, title, evidence, advice, recording, origin }) => ({
-      code, severity, title, evidence, advice, recording, origin,
-    })),
-    comparisons: diagnosis.comparisons,
-    coulombRefit: diagnosis.coulombRefit,
-    residuals: diagnosis.residuals.map((r) => ({
-      recording: r.recording,
-      channel: r.channel,
-      rms: r.stats.rms,
-      nrmse: r.stats.nrmse,
-      ljungBox: r.stats.ljungBox,
-      runs: r.stats.runs,
-    })),
-    conditionNumber: diagnosis.conditionNumber,
-    correlation: diagnosis.correlation,
-    validation,
-  };
+  if (validation.length > 0) doc.checks = validation;
+  return doc;
 }
 
 /** NRMSE of the fitted model on a held-out recording (see `--check`). */
@@ -225,6 +186,14 @@ async function run(args: string[], io: CliIo): Promise<number> {
     'measured-voltage': { type: 'boolean' },
     check: { type: 'string', multiple: true },
     json: { type: 'boolean' },
+    out: { type: 'string' },
+    format: { type: 'string' },
+    report: { type: 'string' },
+    'rated-voltage': { type: 'string' },
+    'winding-temp': { type: 'string' },
+    'reference-temp': { type: 'string' },
+    'copper-k': { type: 'string' },
+    id: { type: 'string', multiple: true },
     ...INGEST_OPTIONS,
   });
   if (positionals.length === 0) throw new UsageError('give at least one recording (CSV) to fit', 'fit');
@@ -244,6 +213,13 @@ async function run(args: string[], io: CliIo): Promise<number> {
   if (Object.keys(guess).length > 0) options.initial = guess;
   if (values['measured-voltage']) options.voltage = 'measured';
   const ingestOptions = ingestOptionsFrom('fit', values);
+  const ratedVoltage = numberOption('fit', 'rated-voltage', values['rated-voltage'], (x) => x > 0, 'a voltage > 0');
+  const windingTemp = numberOption('fit', 'winding-temp', values['winding-temp'], (x) => x > -273.15, 'a temperature in °C');
+  const referenceTemp = numberOption('fit', 'reference-temp', values['reference-temp'], (x) => x > -273.15, 'a temperature in °C');
+  const copperK = numberOption('fit', 'copper-k', values['copper-k'], (x) => x === 234.5 || x === 235, '234.5 (IEEE Std 113 form) or 235 (IEC 60034-1 form)') as 234.5 | 235 | undefined;
+  const outFormat = values.format ?? (values.out !== undefined ? ({ '.md': 'md', '.csv': 'csv' } as Record<string, string>)[extname(values.out).toLowerCase()] ?? 'json' : 'json');
+  if (!['json', 'md', 'csv'].includes(outFormat)) throw new UsageError(`--format must be json, md or csv (got "${outFormat}")`, 'fit');
+  if (values.format !== undefined && values.out === undefined) throw new UsageError('--format applies to --out FILE; give --out as well', 'fit');
   const paint = paintFor(io);
 
   const inputs: { file: string; result: IngestResult }[] = [];
@@ -274,9 +250,67 @@ async function run(args: string[], io: CliIo): Promise<number> {
     const held = await readInput(io.cwd, file, ingestOptions);
     validation.push(checkOnRecording(fit, file, held));
   }
-  if (values.json) io.stdout(`${JSON.stringify(fitDocument(fit, diagnosis, inputs, validation), null, 2)}\n`);
-  else io.stdout(`${formatFit(fit, diagnosis, validation, paint)}\n`);
+  const setOptions: BuildParameterSetOptions = {
+    recordings: inputs.map((x) => x.result.recording),
+    diagnosis,
+    identification: Object.fromEntries(keyValuePairs('fit', 'id', values.id)),
+    provenance: {
+      tool: { name: 'motorprint', version: TOOL_VERSION },
+      date: new Date().toISOString(),
+      inputs: inputs.map(({ file, result }) => ({ file, sha256: result.recording.meta.source.sha256 })),
+      options: resolvedOptions(values, positionals),
+    },
+  };
+  if (ratedVoltage !== undefined) setOptions.ratedVoltage = ratedVoltage;
+  if (windingTemp !== undefined) setOptions.windingTemperature = windingTemp;
+  if (referenceTemp !== undefined) setOptions.referenceTemperature = referenceTemp;
+  if (copperK !== undefined) setOptions.copperConstant = copperK;
+  const set = buildParameterSet(fit, setOptions);
+  const doc = fitDocument(set, diagnosis, validation);
+  if (values.json) io.stdout(`${JSON.stringify(doc, null, 2)}\n`);
+  else io.stdout(`${formatFit(fit, diagnosis, validation, paint)}\n${formatResistanceAtReference(set)}`);
+  if (values.out !== undefined) {
+    const text = outFormat === 'md' ? formatParameterSetMarkdown(set) : outFormat === 'csv' ? formatParameterSetCsv(set) : `${JSON.stringify(doc, null, 2)}\n`;
+    await writeOut(io, values.out, text);
+    io.stderr(`wrote the parameter set (${outFormat}) to ${values.out}\n`);
+  }
+  if (values.report !== undefined) {
+    io.stderr('writing the report…\n');
+    const html = renderHtmlReport({ parameterSet: set, fit, recordings: inputs.map((x) => x.result.recording), diagnosis, title: reportTitle(set) });
+    await writeOut(io, values.report, html);
+    io.stderr(`wrote the report to ${values.report}\n`);
+  }
   return EXIT.ok;
+}
+
+const TOOL_VERSION = '0.1.0';
+
+/** Every option as typed, for the provenance record. */
+function resolvedOptions(values: Record<string, unknown>, files: string[]): { [key: string]: JsonValue } {
+  const out: { [key: string]: JsonValue } = { files };
+  for (const [key, value] of Object.entries(values)) {
+    if (value === undefined) continue;
+    out[key] = Array.isArray(value) ? value.map(String) : (value as string | boolean);
+  }
+  return out;
+}
+
+async function writeOut(io: CliIo, file: string, text: string): Promise<void> {
+  const path = resolve(io.cwd, file);
+  await mkdir(dirname(path), { recursive: true });
+  await writeFile(path, text);
+}
+
+function reportTitle(set: ParameterSet): string {
+  const id = set.identification;
+  const name = id.motor ?? id.name ?? id.serial;
+  return name ? `Motor constants — ${name}` : 'Motor constants from bench recordings';
+}
+
+function formatResistanceAtReference(set: ParameterSet): string {
+  const r = set.resistanceAtReference;
+  if (r.value === null) return `R is not carried to ${r.referenceTemperature} °C: ${r.note}\n`;
+  return `R at ${r.referenceTemperature} °C: ${formatNumber(r.value, 5)} Ω (${r.note})\n`;
 }
 
 /**

@@ -1,7 +1,8 @@
 import type { Subcommand } from '../types.js';
 import { fitCommand } from './fit.js';
 import { inspectCommand } from './inspect.js';
+import { showCommand } from './show.js';
 import { simulateCommand } from './simulate.js';
 
 /** Every subcommand, in the order the overall help lists them. */
-export const SUBCOMMANDS: readonly Subcommand[] = [fitCommand, inspectCommand, simulateCommand];
+export const SUBCOMMANDS: readonly Subcommand[] = [fitCommand, inspectCommand, showCommand, simulateCommand];

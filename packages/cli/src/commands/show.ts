@@ -1,0 +1,93 @@
+import { readFile } from 'node:fs/promises';
+import { resolve } from 'node:path';
+import { formatParameterSetCsv, formatParameterSetMarkdown, readParameterSet, type ParameterSet } from '@motorprint/report';
+import { parseSubcommandArgs } from '../args.js';
+import { paintFor, type Paint } from '../style.js';
+import { formatNumber, formatTable } from '../table.js';
+import { EXIT, type CliIo, type Subcommand } from '../types.js';
+import { UsageError } from '../UsageError.js';
+
+const HELP = `motorprint show PARAMS.json [--format text|md|csv|json]
+
+Prints a parameter set written by "motorprint fit --out PARAMS.json" (or --json): the constants with
+their intervals, R at the reference temperature, the datasheet figures, the findings and where the
+numbers came from. The file is checked against the published schema first (docs/parameter-set.schema.json).
+
+Options:
+  --format F   text (default, for a terminal), md (Markdown), csv (one row per constant and figure),
+               json (the validated document, re-printed)`;
+
+function interval(ci: [number, number] | null): string {
+  return ci === null ? '—' : `${formatNumber(ci[0], 5)} … ${formatNumber(ci[1], 5)}`;
+}
+
+/** Terminal view of a parameter set. */
+export function formatParameterSetText(set: ParameterSet, paint: Paint): string {
+  const out: string[] = [];
+  const id = Object.entries(set.identification).map(([k, v]) => `${k}: ${v}`).join(', ');
+  out.push(paint.bold(`Parameter set${id ? ` — ${id}` : ''}`));
+  out.push(`${set.variant.description}; fit ${set.fit.converged ? 'converged' : 'NOT converged'} (${set.fit.stopReason})`);
+  out.push('');
+  const rows = Object.entries(set.parameters).map(([name, p]) => [
+    name,
+    p.value === null ? '—' : formatNumber(p.value, 5),
+    p.unit,
+    interval(p.ci95),
+    p.fixed ? 'pinned' : p.identifiable ? 'yes' : 'no',
+    p.note,
+  ]);
+  out.push(formatTable(['constant', 'value', 'unit', '95 % interval', 'identified', 'note'], rows, ['left', 'right', 'left', 'left', 'left', 'left']));
+  const r = set.resistanceAtReference;
+  out.push('');
+  out.push(r.value === null ? `R at ${r.referenceTemperature} °C: not carried (${r.note})` : `R at ${r.referenceTemperature} °C: ${formatNumber(r.value, 5)} Ω, 95 % ${interval(r.ci95)} (${r.note})`);
+  out.push('');
+  out.push(paint.bold(`Datasheet figures at ${set.ratedVoltage.value === null ? '—' : formatNumber(set.ratedVoltage.value, 4)} V (${set.ratedVoltage.source})`));
+  const figures = Object.values(set.derived).map((f) => [f.label, f.value === null ? '—' : formatNumber(f.value, 5), f.unit, interval(f.ci95), f.formula]);
+  out.push(formatTable(['figure', 'value', 'unit', '95 % interval', 'formula'], figures, ['left', 'right', 'left', 'left', 'left']));
+  out.push('');
+  if (set.notInformed.length > 0) {
+    out.push(paint.bold('Not informed'));
+    for (const u of set.notInformed) out.push(`  ${u.name}: ${u.reason} — ${u.wouldInform}`);
+    out.push('');
+  }
+  out.push(paint.bold(`Findings (${set.findings.length})`));
+  for (const f of set.findings) out.push(`  ${f.severity} ${f.code}: ${f.title}\n    advice: ${f.advice}`);
+  out.push('');
+  out.push(`From ${set.provenance.inputs.map((i) => `${i.file} (sha256 ${i.sha256.slice(0, 12)}…)`).join(', ')}`);
+  out.push(`by ${set.provenance.tool.name} ${set.provenance.tool.version} on ${set.provenance.date}`);
+  return out.join('\n');
+}
+
+async function run(args: string[], io: CliIo): Promise<number> {
+  const { values, positionals } = parseSubcommandArgs('show', args, { format: { type: 'string' } });
+  if (positionals.length !== 1) throw new UsageError(`expected one parameter-set file (got ${positionals.length})`, 'show');
+  const format = values.format ?? 'text';
+  if (!['text', 'md', 'csv', 'json'].includes(format)) throw new UsageError(`--format must be text, md, csv or json (got "${format}")`, 'show');
+  const file = positionals[0] as string;
+  let text: string;
+  try {
+    text = await readFile(resolve(io.cwd, file), 'utf8');
+  } catch (err) {
+    throw new Error(`${file}: cannot read the parameter set (${(err as NodeJS.ErrnoException).code ?? (err as Error).message})`);
+  }
+  let set: ParameterSet;
+  try {
+    set = readParameterSet(text);
+  } catch (err) {
+    const e = err as Error & { path?: string };
+    throw new Error(`${file}: not a motorprint parameter set${e.path ? ` (at ${e.path})` : ''}: ${e.message}`);
+  }
+  if (format === 'md') io.stdout(formatParameterSetMarkdown(set));
+  else if (format === 'csv') io.stdout(formatParameterSetCsv(set));
+  else if (format === 'json') io.stdout(`${JSON.stringify(set, null, 2)}\n`);
+  else io.stdout(`${formatParameterSetText(set, paintFor(io))}\n`);
+  return EXIT.ok;
+}
+
+/** `motorprint show`: prints a parameter set. */
+export const showCommand: Subcommand = {
+  name: 'show',
+  summary: 'print a parameter set written by "fit --out" (text, Markdown, CSV or JSON)',
+  help: HELP,
+  run,
+};
