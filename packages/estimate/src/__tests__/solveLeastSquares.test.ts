@@ -2,6 +2,7 @@ import { expectClose } from '@motorprint/testkit';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { accumulateNormalEquations } from '../solver/accumulateNormalEquations.js';
+import { createCurveProblem } from '../solver/createCurveProblem.js';
 import { createNormalEquations } from '../solver/createNormalEquations.js';
 import { resetNormalEquations } from '../solver/resetNormalEquations.js';
 import { solveLeastSquares } from '../solver/solveLeastSquares.js';
@@ -470,5 +471,113 @@ describe('solveLeastSquares validates its inputs', () => {
   });
   it('createNormalEquations throws RangeError for p < 1', () => {
     expect(() => createNormalEquations(0)).toThrow('createNormalEquations: p must be an integer >= 1 (got 0)');
+  });
+});
+
+describe('geodesic acceleration (Transtrum & Sethna 2012) is opt-in and second-order exact', () => {
+  // Invented data: y = a·e^(b·x) on x = 0, 0.1, …, 1 with a = 1.5, b = 0.5 plus a fixed wobble.
+  const n = 11;
+  const x = Float64Array.from({ length: n }, (_, k) => k / 10);
+  const y = Float64Array.from(x, (xk, k) => 1.5 * Math.exp(0.5 * xk) + 0.01 * Math.sin(3 * k));
+  const model = (t: Float64Array, [c]: readonly Float64Array[], out: Float64Array) => {
+    for (let k = 0; k < out.length; k++) out[k] = t[0]! * Math.exp(t[1]! * c![k]!);
+  };
+  /**
+   * Hand-derived (derived here): r = a·e^(bx) − y, J = [e^(bx), a·x·e^(bx)], and along v = (va, vb)
+   * r_vv = d²/dt² (a + t·va)·e^((b + t·vb)x) = 2·va·vb·x·e^(bx) + a·vb²·x²·e^(bx).
+   */
+  const analyticJtRvv = (a: number, b: number, va: number, vb: number): [number, number] => {
+    let s0 = 0;
+    let s1 = 0;
+    for (const xk of x) {
+      const e = Math.exp(b * xk);
+      const rvv = 2 * va * vb * xk * e + a * vb * vb * xk * xk * e;
+      s0 += e * rvv;
+      s1 += a * xk * e * rvv;
+    }
+    return [s0, s1];
+  };
+
+  it('createCurveProblem.accumulateSecondOrder matches the analytic Jᵀr_vv of y = a·e^(b·x)', () => {
+    const prob = createCurveProblem([x], y, model, undefined, 2);
+    const theta = Float64Array.of(1.2, 0.7);
+    const v = Float64Array.of(0.3, -0.2);
+    const [e0, e1] = analyticJtRvv(1.2, 0.7, 0.3, -0.2);
+    // Finite difference error is O(h·‖v‖) relative: ~h·0.3/3 (third-derivative term, derived here),
+    // 1e-4 at h = 1e-3; the central-difference Jacobian adds ~1e-10.
+    const out = new Float64Array(2);
+    prob.accumulateSecondOrder(theta, v, 1e-3, out);
+    expectClose(out[0]!, e0, { rel: 3e-4 }, 'Jᵀr_vv[0] at h = 1e-3');
+    expectClose(out[1]!, e1, { rel: 3e-4 }, 'Jᵀr_vv[1] at h = 1e-3');
+    // It accumulates: a second call doubles the sums (h = 1e-3 again, same point).
+    prob.accumulateSecondOrder(theta, v, 1e-3, out);
+    expectClose(out[0]!, 2 * e0, { rel: 3e-4 }, 'accumulated Jᵀr_vv[0]');
+    // The default h = 0.1 is 100× coarser: error ~1e-2 relative (derived here as above), still close.
+    out.fill(0);
+    prob.accumulateSecondOrder(theta, v, 0.1, out);
+    expectClose(out[1]!, e1, { rel: 2e-2 }, 'Jᵀr_vv[1] at h = 0.1');
+    // One-parameter case y = e^(b·x): r_vv = v²·x²·e^(bx), Jᵀr_vv = v²·Σ x³·e^(2bx) (derived here).
+    const prob1 = createCurveProblem([x], y, (t, [c], o) => {
+      for (let k = 0; k < o.length; k++) o[k] = Math.exp(t[0]! * c![k]!);
+    }, undefined, 1);
+    let want = 0;
+    for (const xk of x) want += 0.25 * xk ** 3 * Math.exp(2 * 0.4 * xk);
+    const o1 = new Float64Array(1);
+    prob1.accumulateSecondOrder(Float64Array.of(0.4), Float64Array.of(0.5), 1e-4, o1);
+    expectClose(o1[0]!, want, { rel: 1e-4 }, 'Jᵀr_vv of e^(bx) at h = 1e-4');
+  });
+
+  it('is off by default: a problem offering accumulateSecondOrder runs bit-identically and it is never called', () => {
+    const plain = createCurveProblem([x], y, model, undefined, 2);
+    const offered = createCurveProblem([x], y, model, undefined, 2);
+    let calls = 0;
+    const base = offered.accumulateSecondOrder;
+    offered.accumulateSecondOrder = (t, v, h, out) => {
+      calls++;
+      base(t, v, h, out);
+    };
+    const withoutIt: LeastSquaresProblem = { parameterCount: 2, evaluate: plain.evaluate };
+    const a = solveLeastSquares(withoutIt, [1, 1]);
+    const b = solveLeastSquares(offered, [1, 1]);
+    expect(calls).toBe(0);
+    expect(Array.from(b.theta)).toEqual(Array.from(a.theta));
+    expect(b.iterations).toBe(a.iterations);
+    // Asked for but not offered: ignored, same run.
+    const c = solveLeastSquares(withoutIt, [1, 1], { geodesicAcceleration: true });
+    expect(Array.from(c.theta)).toEqual(Array.from(a.theta));
+  });
+
+  it('with an analytic second-order term reaches the same least-squares optimum as plain LM', () => {
+    const dense = createCurveProblem([x], y, model, undefined, 2);
+    let calls = 0;
+    const analytic: LeastSquaresProblem = {
+      parameterCount: 2,
+      evaluate: dense.evaluate,
+      accumulateSecondOrder(t, v, _h, out) {
+        calls++;
+        const [s0, s1] = analyticJtRvv(t[0]!, t[1]!, v[0]!, v[1]!);
+        out[0] = out[0]! + s0;
+        out[1] = out[1]! + s1;
+      },
+    };
+    const plain = solveLeastSquares({ parameterCount: 2, evaluate: dense.evaluate }, [0.2, 3]);
+    const geo = solveLeastSquares(analytic, [0.2, 3], { geodesicAcceleration: true });
+    expect(calls).toBeGreaterThan(0);
+    expect(geo.converged, geo.stopReason).toBe(true);
+    // Same data, same minimum; 1e-7 relative is common practice, no source (both stop at 1e-10 tolerances).
+    expectClose(geo.theta[0]!, plain.theta[0]!, { rel: 1e-7 }, 'a');
+    expectClose(geo.theta[1]!, plain.theta[1]!, { rel: 1e-7 }, 'b');
+  });
+
+  it('validates the geodesic options', () => {
+    const ok = rosenbrock();
+    expect(() => solveLeastSquares(ok, [1, 1], { geodesicAcceleration: 1 as unknown as boolean })).toThrow(
+      'solveLeastSquares: options.geodesicAcceleration must be a boolean (got number)',
+    );
+    expect(() => solveLeastSquares(ok, [1, 1], { accelerationRatio: 0 })).toThrow(RangeError);
+    expect(() => solveLeastSquares(ok, [1, 1], { secondOrderStep: 2 })).toThrow(
+      'solveLeastSquares: options.secondOrderStep must be > 0 and <= 1 (got 2)',
+    );
+    expect(() => solveLeastSquares(ok, [1, 1], { dampingScale: 'max' as 'current' })).toThrow(TypeError);
   });
 });

@@ -9,6 +9,11 @@ const DEFAULTS: ResolvedSolverOptions = {
   compensatedSums: true,
   initialStepBound: 1,
   stationarityTolerance: 1e-3,
+  geodesicAcceleration: false,
+  // Transtrum & Sethna (2012), arXiv:1201.5885: α = 0.75 and h = 0.1 (from memory).
+  accelerationRatio: 0.75,
+  secondOrderStep: 0.1,
+  dampingScale: 'running-max',
 };
 
 /**
@@ -43,6 +48,8 @@ export function checkSolverOptions(options: SolverOptions | undefined, caller: s
   num('gradientTolerance', (v) => v >= 0 && v < 1, '>= 0 and < 1');
   num('initialStepBound', (v) => v > 0, '> 0 (Infinity for no bound)');
   num('stationarityTolerance', (v) => v >= 0 && v < 1, '>= 0 and < 1');
+  num('accelerationRatio', (v) => v > 0 && Number.isFinite(v), 'finite and > 0');
+  num('secondOrderStep', (v) => v > 0 && v <= 1, '> 0 and <= 1');
   num('initialDamping', (v) => v > 0 && Number.isFinite(v), 'finite and > 0');
   if (options.compensatedSums !== undefined) {
     if (typeof options.compensatedSums !== 'boolean') {
@@ -51,6 +58,22 @@ export function checkSolverOptions(options: SolverOptions | undefined, caller: s
       );
     }
     out.compensatedSums = options.compensatedSums;
+  }
+  if (options.dampingScale !== undefined) {
+    if (options.dampingScale !== 'running-max' && options.dampingScale !== 'current') {
+      throw new TypeError(
+        `${caller}: options.dampingScale must be 'running-max' or 'current' (got ${String(options.dampingScale)})`,
+      );
+    }
+    out.dampingScale = options.dampingScale;
+  }
+  if (options.geodesicAcceleration !== undefined) {
+    if (typeof options.geodesicAcceleration !== 'boolean') {
+      throw new TypeError(
+        `${caller}: options.geodesicAcceleration must be a boolean (got ${typeof options.geodesicAcceleration})`,
+      );
+    }
+    out.geodesicAcceleration = options.geodesicAcceleration;
   }
   return out;
 }

@@ -42,6 +42,16 @@ export interface LeastSquaresProblem {
    * solver treats that as a failed step, never as an error. Must not keep `theta` (it is reused).
    */
   evaluate(theta: Float64Array, wantJacobian: boolean, acc: NormalEquations): number;
+  /**
+   * Optional second-order capability, used only when `SolverOptions.geodesicAcceleration` is on:
+   * adds Jᵀr_vv into `out` (length p, arrives zeroed), where J = ∂r/∂θ at `theta` and
+   * r_vv = d²r(θ + t·v)/dt² at t = 0 is the second directional derivative of the residuals along
+   * the velocity `v`. Return it analytically, or by the finite difference
+   * r_vv ≈ (2/h)·((r(θ + h·v) − r(θ))/h − J·v) with the step fraction `h` the solver passes.
+   * Write NaN when it cannot be computed (the solver then takes the plain step). Must keep
+   * neither `theta` nor `v`.
+   */
+  accumulateSecondOrder?(theta: Float64Array, v: Float64Array, h: number, out: Float64Array): void;
 }
 
 /** Why `solveLeastSquares` stopped. */
@@ -103,6 +113,30 @@ export interface SolverOptions {
    * @default 1e-3
    */
   stationarityTolerance?: number;
+  /**
+   * Add Transtrum & Sethna's geodesic acceleration to every trial step when the problem offers
+   * `accumulateSecondOrder` (ignored otherwise). Off by default in `solveLeastSquares` and
+   * `fitCurve` (on, it lowered the LRE of some NIST StRD runs; see the package README).
+   * @default false
+   */
+  geodesicAcceleration?: boolean;
+  /**
+   * Largest ratio 2‖a‖/‖v‖ of acceleration to velocity (scaled norms) at which an accelerated
+   * step is tried; above it the trial is rejected and the damping raised (Transtrum & Sethna's α).
+   * @default 0.75
+   */
+  accelerationRatio?: number;
+  /**
+   * Step fraction h of the finite-difference second directional derivative, θ + h·v.
+   * @default 0.1
+   */
+  secondOrderStep?: number;
+  /**
+   * Diagonal scaling D of the damping: `'running-max'` (Moré: the largest √diag(JᵀJ) seen so
+   * far) or `'current'` (Marquardt: √diag(JᵀJ) at the current point).
+   * @default 'running-max'
+   */
+  dampingScale?: 'running-max' | 'current';
 }
 
 /** The resolved options (every field present). */

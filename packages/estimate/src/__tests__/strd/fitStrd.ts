@@ -13,6 +13,21 @@ export const STRD_OPTIONS: SolverOptions = {
   gradientTolerance: 1e-15,
 };
 
+/**
+ * Runs that need more than the default solver: geodesic acceleration (Transtrum & Sethna 2012)
+ * with Marquardt's current-point scaling. Only MGH10 Start 1 (it stalls at b1 → 0 without them).
+ * Over all 54 runs this pair would move MGH17 Start 1 and BoxBOD Start 1 to other stationary
+ * points, so it is not a default.
+ */
+export const STRD_RUN_OPTIONS: Readonly<Record<string, SolverOptions>> = {
+  'MGH10 1': { geodesicAcceleration: true, dampingScale: 'current' },
+};
+
+/** Solver options of one run: {@link STRD_OPTIONS} plus any entry of {@link STRD_RUN_OPTIONS}. */
+export function strdRunOptions(name: string, start: 1 | 2): SolverOptions {
+  return { ...STRD_OPTIONS, ...STRD_RUN_OPTIONS[`${name} ${start}`] };
+}
+
 /** Scores of one fit against the certified values. */
 export interface StrdScore {
   fit: FitCurveResult;
