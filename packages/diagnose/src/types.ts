@@ -3,6 +3,7 @@
  * residual statistics, model comparisons and findings. Everything is JSON-able except
  * `Float64Array` series.
  */
+import type { ExperimentKind } from '@motorprint/model';
 import type { CovarianceSummary, FitMotorOptions } from '@motorprint/estimate';
 
 /** Names of the measured channels a recording may carry (SI: V, A, rad/s, rad, N·m, °C). */
@@ -51,16 +52,8 @@ export interface ConfidenceReport {
   conditionNumber: number;
 }
 
-/** Experiment kinds (trade terms) a recording description may name. */
-export type RecordingKind =
-  | 'locked-rotor'
-  | 'step'
-  | 'coast-down'
-  | 'steady-state'
-  | 'prbs'
-  | 'multisine'
-  | 'loaded'
-  | 'unknown';
+/** Experiment kinds (trade terms) a recording description may name: the model's kinds, or `unknown`. */
+export type RecordingKind = ExperimentKind | 'unknown';
 
 /** A plain description of one recording for the identifiability verdict. */
 export interface RecordingDescription {
