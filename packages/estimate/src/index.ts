@@ -42,7 +42,7 @@ export { detectVoltageSegments } from './motor/detectVoltageSegments.js';
 export { estimateNoiseLevel } from './motor/estimateNoiseLevel.js';
 export { fitInverseDynamics } from './motor/fitInverseDynamics.js';
 export { rebuildCommand } from './motor/rebuildCommand.js';
-export type { RebuiltCommand } from './motor/rebuildCommand.js';
+export type { RebuiltCommand, SineBasis } from './motor/rebuildCommand.js';
 export { zeroPhaseLowPass } from './motor/zeroPhaseLowPass.js';
 export type {
   ChannelFit, FitMotorOptions, InputHandling, MotorChannel, MotorConstantName, MotorExperimentKind, MotorFit,

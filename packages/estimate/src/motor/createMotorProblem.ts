@@ -1,7 +1,8 @@
-import { zohInto, zohSensitivitiesInto } from '@motorprint/model';
 import { accumulateNormalEquations } from '../solver/accumulateNormalEquations.js';
 import type { LeastSquaresProblem, NormalEquations } from '../solver/types.js';
 import type { PreparedRecording } from './prepareRecording.js';
+import { sweepLinearModel } from './sweepLinearModel.js';
+import type { SweepBuffers, SweepSpec } from './sweepLinearModel.js';
 
 /** Where the nuisance parameters of one recording sit in θ (−1: absent). */
 export interface RecordingSlots {
@@ -17,6 +18,9 @@ export interface RecordingSlots {
   /** Initial speed of a coast-down (ω0 = θ·w0Scale [rad/s]). */
   w0: number;
   w0Scale: number;
+  /** θ indices of the sine-fit input coefficients (constant, then cos/sin pairs; β = θ·sineScale [V]). */
+  sine: number[];
+  sineScale: number;
 }
 
 /** Where each constant sits in θ (−1: not fitted, the value in `fixed` is used). */
@@ -39,12 +43,20 @@ export interface Constants { R: number; L: number; Kt: number; Ke: number; J: nu
 /** Residual series per recording (model − measured; NaN where not fitted). */
 export interface ResidualSeries { current: Float64Array | null; speed: Float64Array | null }
 
-/** The motor problem: a solver problem plus a way to read the residual series at θ. */
+/**
+ * The motor problem: a solver problem over the free entries of θ (the frozen ones keep their
+ * values from `thetaFull`), plus ways to move between the free and the full vector and to read
+ * the residual series at a full θ.
+ */
 export interface MotorProblem extends LeastSquaresProblem {
-  /** Constants at θ. */
+  /** Constants at a full θ. */
   constantsAt(theta: Float64Array): Constants;
-  /** Residual series (model − measured, in channel units) at θ, one entry per recording. */
+  /** Residual series (model − measured, in channel units) at a full θ, one entry per recording. */
   residualsAt(theta: Float64Array): ResidualSeries[];
+  /** Full θ from a free one (frozen entries from the problem's full vector). */
+  toFull(free: ArrayLike<number>): Float64Array;
+  /** Free entries of a full θ. */
+  toFree(full: ArrayLike<number>): Float64Array;
 }
 
 const CHUNK = 4096;
@@ -57,41 +69,60 @@ const CHUNK = 4096;
  *
  * Models per kind: locked-rotor — first-order armature L·di/dt = v − R·i, exact hold recursion
  * with its own sensitivities; step, prbs, multisine, steady-state, loaded — the exact
- * zero-order-hold linear model, propagated here together with its forward sensitivities (the
- * matrices and their parameter derivatives come from `zohSensitivitiesInto` of
- * `@motorprint/model`), with a constant load torque (the load level plus Tc·sgn ω when Coulomb
- * friction is in the model); coast-down — the closed-form speed decay
- * ω = ω0·e^{−at} + (Tc/J)·expm1(−at)/a, a = b/J, until the stop.
+ * zero-order-hold linear model with its forward sensitivities (`sweepLinearModel`; the matrices
+ * and their parameter derivatives come from `zohSensitivitiesInto` of `@motorprint/model`), with a
+ * constant load torque (the load level plus Tc·sgn ω when Coulomb friction is in the model) and,
+ * with Coulomb friction, the rotor held at rest until Kt·i − load crosses Tc; coast-down — the
+ * closed-form speed decay ω = ω0·e^{−at} + (Tc/J)·expm1(−at)/a, a = b/J, until the stop.
  *
- * Errors in variables: a piecewise-constant command is the sum of its level classes,
- * u(t) = Σ_c U_c·[class(t) = c]. Each U_c is a parameter; the voltage samples of the class give
- * rows (U_c − v_k)/σ_v (added in closed form from their count, mean and spread), and ∂x/∂U_c is the
- * response to the class indicator, propagated like any other sensitivity. The level uncertainty
- * so enters the covariance. A current-sensor offset adds to the modelled current; a loaded run's
- * load level gets rows (τ_L − τ_k)/σ_τ from the torque channel.
+ * Errors in variables: the model input is a linear combination of basis signals with fitted
+ * coefficients — level classes of a piecewise-constant command, u(t) = Σ_c U_c·[class(t) = c], or
+ * the constant and sines of a sine-fit input. The voltage samples give rows (u_k − v_k)/σ_v, added
+ * in closed form from their sufficient statistics (per class: count, mean and spread; for the
+ * sines: the Cholesky factor of the Gram matrix and the residual sum of squares). ∂x/∂β_j is the
+ * response to basis signal j, propagated like any other sensitivity, so the input uncertainty
+ * enters the covariance. A current-sensor offset adds to the modelled current; a loaded run's load
+ * level gets rows (τ_L − τ_k)/σ_τ from the torque channel.
+ *
+ * `frozen` marks θ entries held at their value in `thetaFull` (the solver sees only the others);
+ * the problem then never propagates the sensitivities of the frozen input coefficients, which is
+ * what keeps the per-sample cost low while the constants are iterated.
  *
  * Chain rule: positive constants are fitted as θ = ln p, so ∂r/∂θ = p·∂r/∂p; with Kt = Ke one
  * θ entry takes the sum of both sensitivities.
  *
  * @param recs - prepared recordings
  * @param layout - the parameter layout
+ * @param thetaFull - full θ; frozen entries keep these values (copied)
+ * @param frozen - per full θ entry, true when it is held; null: nothing frozen
  * @returns the problem for `solveLeastSquares`
  */
-export function createMotorProblem(recs: PreparedRecording[], layout: ParameterLayout): MotorProblem {
-  const p = layout.names.length;
-  const st = 2 * CHUNK;
-  const r = new Float64Array(st);
-  const jac = new Float64Array(p * st);
+export function createMotorProblem(recs: PreparedRecording[], layout: ParameterLayout, thetaFull: ArrayLike<number>, frozen: boolean[] | null): MotorProblem {
+  const pFull = layout.names.length;
+  const free: number[] = [];
+  const colOf = new Int32Array(pFull);
+  for (let j = 0; j < pFull; j++) {
+    if (frozen !== null && frozen[j]) colOf[j] = -1;
+    else { colOf[j] = free.length; free.push(j); }
+  }
+  const p = free.length;
+  const sink = p;
+  // Column stride of the Jacobian chunk: not a power of two, so that the ~10 columns written per
+  // row do not all map to the same cache set (a 64 KiB stride made every row a conflict miss).
+  const st = 2 * CHUNK + 40;
+  const full = Float64Array.from(thetaFull);
+  const maxBasis = Math.max(1, ...recs.map((x) => (x.levels !== null ? x.levels.classes.length : x.sines !== null ? x.sines.coefficients.length : 0)));
+  const buf: SweepBuffers = {
+    st, r: new Float64Array(st), jac: new Float64Array((p + 1) * st), sink, rows: 0, acc: null, wantJ: false,
+    mats: new Float64Array(56), work: new Float64Array(128), slot: new Float64Array(56), slot2: new Float64Array(56),
+    x: new Float64Array(16), su: new Float64Array(2 * maxBasis), phi: new Float64Array(maxBasis),
+  };
   const r2 = new Float64Array(2);
-  const jac2 = new Float64Array(p * 2);
-  const mats = new Float64Array(56);
-  const work = new Float64Array(128);
-  const S = new Float64Array(12);
-  const maxClasses = Math.max(1, ...recs.map((x) => (x.levels === null ? 0 : x.levels.classes.length)));
-  const SU = new Float64Array(2 * maxClasses);
-  const U = new Float64Array(maxClasses);
-
-  const ctx: PassContext = { layout, st, r, jac, mats, work, S, SU, U };
+  const jac2 = new Float64Array((p + 1) * 2);
+  const U = new Float64Array(maxBasis);
+  const beta = new Float64Array(maxBasis);
+  /** Column offset (index·st) of a full θ index, the sink when absent or frozen. */
+  const colAt = (i: number, stride: number): number => (i < 0 || colOf[i]! < 0 ? sink : colOf[i]!) * stride;
 
   const constantsAt = (theta: Float64Array): Constants => {
     const L = layout;
@@ -108,15 +139,38 @@ export function createMotorProblem(recs: PreparedRecording[], layout: ParameterL
   };
 
   /** Adds rows with closed-form sums: count N of residuals (θ·scale − x_k)/σ with mean m and spread Σ(x − m)². */
-  const levelRows = (acc: NormalEquations, col: number, value: number, scale: number, s: { count: number; mean: number; sumSq: number }, sigma: number, wantJ: boolean): number => {
-    if (s.count === 0) return 0;
+  const levelRows = (acc: NormalEquations, index: number, value: number, scale: number, s: { count: number; mean: number; sumSq: number }, sigma: number, wantJ: boolean): void => {
+    if (s.count === 0) return;
     const sq = Math.sqrt(s.count);
     r2[0] = (sq * (value - s.mean)) / sigma;
     r2[1] = Math.sqrt(s.sumSq) / sigma;
-    if (wantJ) { jac2.fill(0); jac2[col * 2] = (sq * scale) / sigma; }
-    accumulateNormalEquations(acc, r2, wantJ ? jac2 : null, 2, 2);
+    // A held (frozen) coefficient has no Jacobian column: its rows add to rᵀr only.
+    const withJ = wantJ && colAt(index, 1) !== sink;
+    if (withJ) { jac2.fill(0); jac2[colAt(index, 2)] = (sq * scale) / sigma; }
+    accumulateNormalEquations(acc, r2, withJ ? jac2 : null, 2, 2);
     acc.rows += s.count - 2;
-    return r2[0] * r2[0] + r2[1] * r2[1];
+  };
+
+  /** Voltage rows of a sine-fit input: Lᵀ(β − β̂)/σ and √RSS/σ (the sum of squares of all n rows). */
+  const sineRows = (acc: NormalEquations, rec: PreparedRecording, sl: RecordingSlots, wantJ: boolean): void => {
+    const sm = rec.sines!;
+    const q = sm.coefficients.length;
+    const sig = rec.handling.voltageSigma;
+    const rr = new Float64Array(q + 1);
+    const jj = new Float64Array((p + 1) * (q + 1));
+    for (let a = 0; a < q; a++) {
+      // Row a of Lᵀ(β − β̂): Σ_{c ≥ a} L[c][a]·(β_c − β̂_c).
+      let s = 0;
+      for (let c = a; c < q; c++) {
+        const lca = sm.cholesky[c * q + a]!;
+        s += lca * (beta[c]! - sm.coefficients[c]!);
+        if (wantJ) jj[colAt(sl.sine[c]!, q + 1) + a] = (lca * sl.sineScale) / sig;
+      }
+      rr[a] = s / sig;
+    }
+    rr[q] = Math.sqrt(sm.rss) / sig;
+    accumulateNormalEquations(acc, rr, wantJ ? jj : null, q + 1, q + 1);
+    acc.rows += sm.count - (q + 1);
   };
 
   const run = (theta: Float64Array, wantJ: boolean, acc: NormalEquations | null, store: ResidualSeries[] | null): number => {
@@ -125,6 +179,8 @@ export function createMotorProblem(recs: PreparedRecording[], layout: ParameterL
       return NaN;
     }
     const lay = layout;
+    buf.acc = acc;
+    buf.wantJ = wantJ;
     for (let ri = 0; ri < recs.length; ri++) {
       const rec = recs[ri]!;
       const sl = lay.recordings[ri]!;
@@ -132,16 +188,20 @@ export function createMotorProblem(recs: PreparedRecording[], layout: ParameterL
       const lv = rec.levels;
       const nc = lv === null ? 0 : lv.classes.length;
       for (let q = 0; q < nc; q++) U[q] = theta[sl.level[q]!]! * sl.levelScale;
+      const ns = sl.sine.length;
+      for (let q = 0; q < ns; q++) beta[q] = theta[sl.sine[q]!]! * sl.sineScale;
       const off = sl.offset >= 0 ? theta[sl.offset]! * sl.offsetScale : 0;
-      if (wantJ) jac.fill(0);
-      let rows: number;
-      if (rec.kind === 'locked-rotor') rows = lockedRotorPass(ctx, rec, sl, c, off, wantJ, acc, out);
-      else if (rec.kind === 'coast-down') rows = coastDownPass(ctx, rec, sl, c, theta, wantJ, acc, out);
-      else rows = linearPass(ctx, rec, sl, c, off, theta, wantJ, acc, out);
-      if (rows > 0 && acc !== null) accumulateNormalEquations(acc, r, wantJ ? jac : null, rows, st);
+      if (wantJ) buf.jac.fill(0);
+      buf.rows = 0;
+      if (rec.kind === 'locked-rotor') lockedRotorPass(buf, rec, sl, c, off, U, colAt, lay, out);
+      else if (rec.kind === 'coast-down') coastDownPass(buf, rec, sl, c, theta, colAt, lay, out);
+      else sweepLinearModel(buf, linearSpec(rec, sl, c, off, theta, U, beta, colAt, lay, st, out));
+      if (buf.rows > 0 && acc !== null) accumulateNormalEquations(acc, buf.r, wantJ ? buf.jac : null, buf.rows, st);
+      buf.rows = 0;
       if (acc !== null && lv !== null) {
         for (let q = 0; q < nc; q++) levelRows(acc, sl.level[q]!, U[q]!, sl.levelScale, lv.classes[q]!, rec.handling.voltageSigma, wantJ);
       }
+      if (acc !== null && ns > 0) sineRows(acc, rec, sl, wantJ);
       if (acc !== null && sl.load >= 0 && rec.torqueStats !== null) {
         levelRows(acc, sl.load, theta[sl.load]! * sl.loadScale, sl.loadScale, rec.torqueStats, rec.torqueStats.sigma, wantJ);
       }
@@ -149,16 +209,29 @@ export function createMotorProblem(recs: PreparedRecording[], layout: ParameterL
     return acc === null ? 0 : acc.ssr;
   };
 
+  const toFull = (f: ArrayLike<number>): Float64Array => {
+    const t = Float64Array.from(full);
+    for (let j = 0; j < p; j++) t[free[j]!] = f[j]!;
+    return t;
+  };
+  const work = Float64Array.from(full);
   return {
     parameterCount: p,
     evaluate(theta, wantJacobian, acc) {
+      for (let j = 0; j < p; j++) work[free[j]!] = theta[j]!;
       try {
-        return run(theta, wantJacobian, acc, null);
+        return run(work, wantJacobian, acc, null);
       } catch {
         return NaN;
       }
     },
     constantsAt,
+    toFull,
+    toFree(f) {
+      const t = new Float64Array(p);
+      for (let j = 0; j < p; j++) t[j] = f[free[j]!]!;
+      return t;
+    },
     residualsAt(theta) {
       const store: ResidualSeries[] = recs.map((x) => ({
         current: x.current === null ? null : new Float64Array(x.time.length).fill(NaN),
@@ -170,81 +243,119 @@ export function createMotorProblem(recs: PreparedRecording[], layout: ParameterL
   };
 }
 
-/** Buffers shared by the passes of one problem. */
-interface PassContext {
-  layout: ParameterLayout;
-  st: number;
-  r: Float64Array;
-  jac: Float64Array;
-  mats: Float64Array;
-  work: Float64Array;
-  S: Float64Array;
-  SU: Float64Array;
-  U: Float64Array;
+/** The linear pass's view of one recording at the current θ. */
+function linearSpec(
+  rec: PreparedRecording, sl: RecordingSlots, c: Constants, off: number, theta: Float64Array, U: Float64Array, beta: Float64Array,
+  colAt: (i: number, stride: number) => number, lay: ParameterLayout, st: number, out: ResidualSeries | null,
+): SweepSpec {
+  const TL = sl.load >= 0 ? theta[sl.load]! * sl.loadScale : rec.loadTorque;
+  const tied = lay.iKt >= 0 && lay.iKt === lay.iKe;
+  const col = Int32Array.of(
+    colAt(lay.iR, st), colAt(lay.iL, st), colAt(lay.iKt, st), tied ? colAt(-1, st) : colAt(lay.iKe, st), colAt(lay.iJ, st), colAt(lay.iB, st),
+    colAt(lay.iTc, st), colAt(sl.load, st), colAt(sl.offset, st),
+  );
+  // Input basis: fitted only when its coefficients are free.
+  let basis: 0 | 1 | 2 = 0;
+  let idx: number[] = [];
+  let uScale = 1;
+  if (rec.levels !== null && sl.level.length > 0 && colAt(sl.level[0]!, 1) !== colAt(-1, 1)) { basis = 1; idx = sl.level; uScale = sl.levelScale; }
+  else if (rec.sines !== null && sl.sine.length > 0 && colAt(sl.sine[0]!, 1) !== colAt(-1, 1)) { basis = 2; idx = sl.sine; uScale = sl.sineScale; }
+  const uniform = typeof rec.timeBase === 'number';
+  // Held sine coefficients away from the voltage-only fit (a polish trial): rebuild the input.
+  let input = rec.input;
+  if (rec.sines !== null && basis === 0 && sl.sine.length > 0 && rec.sines.coefficients.some((v, j) => v !== beta[j])) {
+    input = new Float64Array(rec.time.length);
+    const om = rec.sines.omega, K = om.length;
+    for (let k = 0; k < input.length; k++) {
+      let v = beta[0]!;
+      for (let j = 0; j < K; j++) v += beta[1 + 2 * j]! * Math.cos(om[j]! * k) + beta[2 + 2 * j]! * Math.sin(om[j]! * k);
+      input[k] = v;
+    }
+  }
+  return {
+    n: rec.time.length, time: rec.time, h: uniform ? (rec.timeBase as number) : NaN,
+    mi: rec.current, mw: rec.speed,
+    sI: rec.currentNoise === null ? 1 : 1 / rec.currentNoise.sigma,
+    sW: rec.speedNoise === null ? 1 : 1 / rec.speedNoise.sigma,
+    outI: out === null ? null : out.current, outW: out === null ? null : out.speed,
+    off, tau: TL + c.Tc * rec.direction, col,
+    tcW: lay.tcScale * rec.direction, ldW: sl.loadScale, offW: sl.offsetScale,
+    input, cls: rec.levels === null ? null : rec.levels.classOf, levels: U,
+    basis, m: idx.length, beta, colU: Int32Array.from(idx, (i) => colAt(i, st)), uScale,
+    omega: rec.sines === null ? new Float64Array(0) : rec.sines.omega,
+    stuck: c.Tc > 0, direction: rec.direction, load: TL, Tc: c.Tc,
+    R: c.R, L: c.L, Kt: c.Kt, Ke: c.Ke, J: c.J, b: c.b, tied,
+  };
 }
 
-/** Locked-rotor recording: rows of the current; returns the rows left in the chunk. */
-function lockedRotorPass(ctx: PassContext, rec: PreparedRecording, sl: RecordingSlots, c: Constants, off: number, wantJ: boolean, acc: NormalEquations | null, out: ResidualSeries | null): number {
-  const { r, jac, st, U, SU } = ctx;
-  const lay = ctx.layout;
-  const iR = lay.iR, iL = lay.iL;
+/** Locked-rotor recording: rows of the current, left in the chunk (full chunks are accumulated). */
+function lockedRotorPass(buf: SweepBuffers, rec: PreparedRecording, sl: RecordingSlots, c: Constants, off: number, U: Float64Array, colAt: (i: number, stride: number) => number, lay: ParameterLayout, out: ResidualSeries | null): void {
+  const { r, jac, st, su } = buf;
+  const wantJ = buf.wantJ;
   const n = rec.time.length;
   const time = rec.time;
   const sI = rec.currentNoise === null ? 1 : 1 / rec.currentNoise.sigma;
-  const mi = rec.current;
+  const mi = rec.current!;
   const cls = rec.levels === null ? null : rec.levels.classOf;
-  const nc = rec.levels === null ? 0 : rec.levels.classes.length;
-  const iOff = sl.offset, offS = sl.offsetScale;
+  const fitLevels = rec.levels !== null && sl.level.length > 0 && colAt(sl.level[0]!, 1) !== colAt(-1, 1);
+  const nc = fitLevels ? rec.levels!.classes.length : 0;
+  const cR = colAt(lay.iR, st), cL = colAt(lay.iL, st), cO = colAt(sl.offset, st);
+  const colU = Int32Array.from(sl.level, (i) => colAt(i, st));
+  const offW = sl.offsetScale * sI, uW = sl.levelScale * sI;
   const input = rec.input;
-  let rows = 0;
-  // L·di/dt = v − R·i with v held: i⁺ = a·i + (1 − a)·v/R, a = e^{−R·h/L}.
+  let rows = buf.rows;
+  // L·di/dt = v − R·i with v held: i⁺ = a·i + (1 − a)·v/R, a = e^{−R·h/L}; log-sensitivities.
   let i = 0, dR = 0, dL = 0;
-  SU.fill(0, 0, nc);
-  let hC = NaN, a = 0, daR = 0, daL = 0;
+  su.fill(0, 0, nc);
+  let hC = NaN, a = 0, q = 0;
   for (let k = 0; k < n; k++) {
     if (k > 0) {
       const h = time[k]! - time[k - 1]!;
-      if (h !== hC) { a = Math.exp((-c.R * h) / c.L); daR = (-h / c.L) * a; daL = ((c.R * h) / (c.L * c.L)) * a; hC = h; }
-      const q = cls === null ? -1 : cls[k - 1]!;
-      const v = q < 0 ? input[k - 1]! : U[q]!;
+      if (h !== hC) { q = (c.R * h) / c.L; a = Math.exp(-q); hC = h; }
+      const cl = cls === null ? -1 : cls[k - 1]!;
+      const v = cl < 0 ? input[k - 1]! : U[cl]!;
       const iss = v / c.R;
       if (wantJ) {
-        const nR = a * dR + daR * (i - iss) - (1 - a) * (v / (c.R * c.R));
-        dL = a * dL + daL * (i - iss);
-        dR = nR;
-        for (let j = 0; j < nc; j++) SU[j] = a * SU[j]! + (j === q ? (1 - a) / c.R : 0);
+        dR = a * dR - q * a * (i - iss) - (1 - a) * iss;
+        dL = a * dL + q * a * (i - iss);
+        const g = (1 - a) / c.R;
+        for (let j = 0; j < nc; j++) su[j] = a * su[j]! + (j === cl ? g : 0);
       }
       i = a * i + (1 - a) * iss;
     }
-    const res = i + off - mi![k]!;
+    const res = i + off - mi[k]!;
     if (out !== null) out.current![k] = res;
     r[rows] = res * sI;
     if (wantJ) {
-      if (iR >= 0) jac[iR * st + rows] = dR * c.R * sI;
-      if (iL >= 0) jac[iL * st + rows] = dL * c.L * sI;
-      for (let j = 0; j < nc; j++) jac[sl.level[j]! * st + rows] = SU[j]! * sl.levelScale * sI;
-      if (iOff >= 0) jac[iOff * st + rows] = offS * sI;
+      jac[cR + rows] = dR * sI;
+      jac[cL + rows] = dL * sI;
+      jac[cO + rows] = offW;
+      for (let j = 0; j < nc; j++) jac[colU[j]! + rows] = su[j]! * uW;
     }
     rows++;
-    if (rows === st) { if (acc !== null) accumulateNormalEquations(acc, r, wantJ ? jac : null, rows, st); rows = 0; }
+    if (rows === st) { buf.rows = rows; flushChunk(buf); rows = 0; }
   }
-  return rows;
+  buf.rows = rows;
 }
 
-/** Coast-down recording: rows of the speed decay; returns the rows left in the chunk. */
-function coastDownPass(ctx: PassContext, rec: PreparedRecording, sl: RecordingSlots, c: Constants, theta: Float64Array, wantJ: boolean, acc: NormalEquations | null, out: ResidualSeries | null): number {
-  const { r, jac, st } = ctx;
-  const lay = ctx.layout;
-  const iJ = lay.iJ, iB = lay.iB, iTc = lay.iTc;
+function flushChunk(buf: SweepBuffers): void {
+  if (buf.acc !== null && buf.rows > 0) accumulateNormalEquations(buf.acc, buf.r, buf.wantJ ? buf.jac : null, buf.rows, buf.st);
+  buf.rows = 0;
+}
+
+/** Coast-down recording: rows of the speed decay, left in the chunk (full chunks are accumulated). */
+function coastDownPass(buf: SweepBuffers, rec: PreparedRecording, sl: RecordingSlots, c: Constants, theta: Float64Array, colAt: (i: number, stride: number) => number, lay: ParameterLayout, out: ResidualSeries | null): void {
+  const { r, jac, st } = buf;
+  const wantJ = buf.wantJ;
+  const cJ = colAt(lay.iJ, st), cB = colAt(lay.iB, st), cT = colAt(lay.iTc, st), cW = colAt(sl.w0, st);
   const n = rec.time.length;
   const time = rec.time;
   const sW = rec.speedNoise === null ? 1 : 1 / rec.speedNoise.sigma;
-  const mw = rec.speed;
-  let rows = 0;
+  const mw = rec.speed!;
+  let rows = buf.rows;
   const a = c.b / c.J;
   const g = c.Tc / c.J;
-  const wi = sl.w0;
-  const w0 = theta[wi]! * sl.w0Scale;
+  const w0 = theta[sl.w0]! * sl.w0Scale;
   const t0 = time[rec.first]!;
   for (let k = rec.first; k < n; k++) {
     const t = time[k]! - t0;
@@ -258,127 +369,18 @@ function coastDownPass(ctx: PassContext, rec: PreparedRecording, sl: RecordingSl
     let dA = -w0 * t * E + g * dq, dG = q, dW0 = E;
     const stopped = (w0 >= 0 ? w <= 0 : w >= 0) && g !== 0 && Math.sign(g) === Math.sign(w0);
     if (stopped) { w = 0; dA = 0; dG = 0; dW0 = 0; }
-    const res = w - mw![k]!;
+    const res = w - mw[k]!;
     if (out !== null) out.speed![k] = res;
     r[rows] = res * sW;
     if (wantJ) {
-      // a = b/J, g = Tc/J: ∂/∂b = ∂A/J, ∂/∂J = −(a·∂A + g·∂G)/J, ∂/∂Tc = ∂G/J.
-      if (iB >= 0) jac[iB * st + rows] = (dA / c.J) * c.b * sW;
-      if (iJ >= 0) jac[iJ * st + rows] = (-(a * dA + g * dG) / c.J) * c.J * sW;
-      if (iTc >= 0) jac[iTc * st + rows] = (dG / c.J) * lay.tcScale * sW;
-      jac[wi * st + rows] = dW0 * sl.w0Scale * sW;
+      // a = b/J, g = Tc/J: ∂/∂ln b = a·∂A, ∂/∂ln J = −(a·∂A + g·∂G), ∂/∂Tc = ∂G/J.
+      jac[cB + rows] = a * dA * sW;
+      jac[cJ + rows] = -(a * dA + g * dG) * sW;
+      jac[cT + rows] = (dG / c.J) * lay.tcScale * sW;
+      jac[cW + rows] = dW0 * sl.w0Scale * sW;
     }
     rows++;
-    if (rows === st) { if (acc !== null) accumulateNormalEquations(acc, r, wantJ ? jac : null, rows, st); rows = 0; }
+    if (rows === st) { buf.rows = rows; flushChunk(buf); rows = 0; }
   }
-  return rows;
-}
-
-/** Free-shaft recording (exact ZOH model with sensitivities): current and speed rows; returns the rows left in the chunk. */
-function linearPass(ctx: PassContext, rec: PreparedRecording, sl: RecordingSlots, c: Constants, off: number, theta: Float64Array, wantJ: boolean, acc: NormalEquations | null, out: ResidualSeries | null): number {
-  const { r, jac, st, U, SU } = ctx;
-  const lay = ctx.layout;
-  const iR = lay.iR, iL = lay.iL, iKt = lay.iKt, iKe = lay.iKe, iJ = lay.iJ, iB = lay.iB, iTc = lay.iTc;
-  const n = rec.time.length;
-  const time = rec.time;
-  const sI = rec.currentNoise === null ? 1 : 1 / rec.currentNoise.sigma;
-  const sW = rec.speedNoise === null ? 1 : 1 / rec.speedNoise.sigma;
-  const mi = rec.current, mw = rec.speed;
-  const cls = rec.levels === null ? null : rec.levels.classOf;
-  const nc = rec.levels === null ? 0 : rec.levels.classes.length;
-  const iOff = sl.offset, offS = sl.offsetScale;
-  const input = rec.input;
-  let rows = 0;
-  const { mats, work, S } = ctx;
-  const tied = iKt >= 0 && iKt === iKe;
-  const params = { R: c.R, L: c.L, Kt: c.Kt, Ke: c.Ke, J: c.J, b: c.b };
-  const TL = sl.load >= 0 ? theta[sl.load]! * sl.loadScale : rec.loadTorque;
-  const tau = TL + c.Tc * rec.direction;
-  const uniform = typeof rec.timeBase === 'number';
-  let hC = NaN;
-  let i = 0, w = 0;
-  S.fill(0);
-  SU.fill(0, 0, 2 * nc);
-  let sLi = 0, sLw = 0;
-  const fR = c.R, fL = c.L, fKt = c.Kt, fKe = c.Ke, fJ = c.J, fB = c.b;
-  const tcS = lay.tcScale * rec.direction, ldS = sl.loadScale, iLd = sl.load;
-  const lvS = sl.levelScale;
-  const lvIdx = sl.level;
-  for (let k = 0; k < n; k++) {
-    if (mi !== null) {
-      const res = i + off - mi[k]!;
-      if (out !== null) out.current![k] = res;
-      r[rows] = res * sI;
-      if (wantJ) {
-        if (iR >= 0) jac[iR * st + rows] = S[0]! * fR * sI;
-        if (iL >= 0) jac[iL * st + rows] = S[2]! * fL * sI;
-        if (tied) jac[iKt * st + rows] = (S[4]! * fKt + S[6]! * fKe) * sI;
-        else {
-          if (iKt >= 0) jac[iKt * st + rows] = S[4]! * fKt * sI;
-          if (iKe >= 0) jac[iKe * st + rows] = S[6]! * fKe * sI;
-        }
-        if (iJ >= 0) jac[iJ * st + rows] = S[8]! * fJ * sI;
-        if (iB >= 0) jac[iB * st + rows] = S[10]! * fB * sI;
-        if (iTc >= 0) jac[iTc * st + rows] = sLi * tcS * sI;
-        if (iLd >= 0) jac[iLd * st + rows] = sLi * ldS * sI;
-        for (let j = 0; j < nc; j++) jac[lvIdx[j]! * st + rows] = SU[2 * j]! * lvS * sI;
-        if (iOff >= 0) jac[iOff * st + rows] = offS * sI;
-      }
-      rows++;
-    }
-    if (mw !== null) {
-      const res = w - mw[k]!;
-      if (out !== null) out.speed![k] = res;
-      r[rows] = res * sW;
-      if (wantJ) {
-        if (iR >= 0) jac[iR * st + rows] = S[1]! * fR * sW;
-        if (iL >= 0) jac[iL * st + rows] = S[3]! * fL * sW;
-        if (tied) jac[iKt * st + rows] = (S[5]! * fKt + S[7]! * fKe) * sW;
-        else {
-          if (iKt >= 0) jac[iKt * st + rows] = S[5]! * fKt * sW;
-          if (iKe >= 0) jac[iKe * st + rows] = S[7]! * fKe * sW;
-        }
-        if (iJ >= 0) jac[iJ * st + rows] = S[9]! * fJ * sW;
-        if (iB >= 0) jac[iB * st + rows] = S[11]! * fB * sW;
-        if (iTc >= 0) jac[iTc * st + rows] = sLw * tcS * sW;
-        if (iLd >= 0) jac[iLd * st + rows] = sLw * ldS * sW;
-        for (let j = 0; j < nc; j++) jac[lvIdx[j]! * st + rows] = SU[2 * j + 1]! * lvS * sW;
-      }
-      rows++;
-    }
-    if (rows >= st - 1) { if (acc !== null) accumulateNormalEquations(acc, r, wantJ ? jac : null, rows, st); rows = 0; }
-    if (k + 1 >= n) break;
-    // Advance over [t_k, t_{k+1}] with the input held.
-    const h = uniform ? (rec.timeBase as number) : time[k + 1]! - time[k]!;
-    if (h !== hC) {
-      if (wantJ) zohSensitivitiesInto(mats, params, h, work);
-      else zohInto(mats, params, h);
-      hC = h;
-    }
-    const q = cls === null ? -1 : cls[k]!;
-    const v = q < 0 ? input[k]! : U[q]!;
-    const p11 = mats[0]!, p12 = mats[1]!, p21 = mats[2]!, p22 = mats[3]!;
-    const g1 = mats[4]!, g2 = mats[5]!, t1 = mats[6]!, t2 = mats[7]!;
-    if (wantJ) {
-      for (let j = 0; j < 6; j++) {
-        const mo = 8 + 8 * j;
-        const si = S[2 * j]!, sw = S[2 * j + 1]!;
-        S[2 * j] = p11 * si + p12 * sw + mats[mo]! * i + mats[mo + 1]! * w + mats[mo + 4]! * v + mats[mo + 6]! * tau;
-        S[2 * j + 1] = p21 * si + p22 * sw + mats[mo + 2]! * i + mats[mo + 3]! * w + mats[mo + 5]! * v + mats[mo + 7]! * tau;
-      }
-      for (let j = 0; j < nc; j++) {
-        const si = SU[2 * j]!, sw = SU[2 * j + 1]!;
-        const e = j === q ? 1 : 0;
-        SU[2 * j] = p11 * si + p12 * sw + g1 * e;
-        SU[2 * j + 1] = p21 * si + p22 * sw + g2 * e;
-      }
-      const li = sLi;
-      sLi = p11 * li + p12 * sLw + t1;
-      sLw = p21 * li + p22 * sLw + t2;
-    }
-    const iNext = p11 * i + p12 * w + g1 * v + t1 * tau;
-    w = p21 * i + p22 * w + g2 * v + t2 * tau;
-    i = iNext;
-  }
-  return rows;
+  buf.rows = rows;
 }

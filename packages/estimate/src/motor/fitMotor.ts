@@ -1,4 +1,5 @@
 import { covarianceFromNormalMatrix } from '../solver/covarianceFromNormalMatrix.js';
+import type { StopReason } from '../solver/types.js';
 import { createNormalEquations } from '../solver/createNormalEquations.js';
 import { resetNormalEquations } from '../solver/resetNormalEquations.js';
 import { solveLeastSquares } from '../solver/solveLeastSquares.js';
@@ -7,12 +8,40 @@ import { createMotorProblem } from './createMotorProblem.js';
 import type { Constants, ParameterLayout, RecordingSlots } from './createMotorProblem.js';
 import { guessConstants } from './guessConstants.js';
 import { prepareRecording } from './prepareRecording.js';
+import { solveSymmetricSystem } from './solveSymmetricSystem.js';
 import type { PreparedRecording } from './prepareRecording.js';
 import { studentQuantile } from './studentQuantile.js';
 import type {
   ChannelFit, FitMotorOptions, MotorConstantName, MotorExperimentKind, MotorFit, MotorRecordingInput,
   ParameterEstimate, RecordingReport, StartAttempt, UninformedConstant,
 } from './types.js';
+
+/** Total samples above which the starts are run on windows first (common practice, no source). */
+const PREFIT_THRESHOLD = 262144;
+/** Samples per recording in that window. */
+const PREFIT_WINDOW = 65536;
+/** SSR mismatch (whitened units) under which a joint Gauss–Newton step counts as landing. */
+const LANDING_SLACK = 1e-2;
+
+/**
+ * The first `len` samples of a recording from just before its first command switch (the rotor is
+ * at rest there), for the windowed starts; coast-downs and short recordings are kept whole.
+ */
+function windowOf(r: PreparedRecording, len: number): PreparedRecording {
+  const n = r.time.length;
+  if (n <= len || r.kind === 'coast-down') return r;
+  let k0 = 0;
+  if (r.handling.stepTime !== null) {
+    while (k0 < n && r.time[k0]! < r.handling.stepTime) k0++;
+    k0 = Math.min(Math.max(k0 - 8, 0), n - len);
+  }
+  const cut = (x: Float64Array | null): Float64Array | null => (x === null ? null : x.subarray(k0, k0 + len));
+  return {
+    ...r, time: r.time.subarray(k0, k0 + len), timeBase: typeof r.timeBase === 'number' ? r.timeBase : r.time.subarray(k0, k0 + len),
+    input: r.input.subarray(k0, k0 + len), current: cut(r.current), speed: cut(r.speed),
+    levels: r.levels === null ? null : { ...r.levels, classOf: r.levels.classOf.subarray(k0, k0 + len) },
+  };
+}
 
 const UNITS: Record<MotorConstantName, string> = { R: 'Ω', L: 'H', Kt: 'N·m/A', Ke: 'V·s/rad', J: 'kg·m²', b: 'N·m·s/rad', Tc: 'N·m' };
 const DEFAULTS: Constants = { R: 1, L: 1e-3, Kt: 0.05, Ke: 0.05, J: 1e-5, b: 1e-6, Tc: 0 };
@@ -149,8 +178,9 @@ export function fitMotor(recordings: MotorRecordingInput[], options?: FitMotorOp
   if (layout.iKe === -2) layout.iKe = layout.iKt;
   if (layout.iTc >= 0) theta0[layout.iTc] = value0.Tc / layout.tcScale;
   const push = (name: string, value: number): number => { thetaNames.push(name); theta0.push(value); return theta0.length - 1; };
+  const inputCoefficients: number[] = [];
   for (const r of recs) {
-    const slots: RecordingSlots = { level: [], levelScale: 1, offset: -1, offsetScale: 1, load: -1, loadScale: 1, w0: -1, w0Scale: 1 };
+    const slots: RecordingSlots = { level: [], levelScale: 1, offset: -1, offsetScale: 1, load: -1, loadScale: 1, w0: -1, w0Scale: 1, sine: [], sineScale: 1 };
     if (r.kind === 'coast-down' && r.speed !== null) {
       const w0 = r.speed[r.first]!;
       slots.w0Scale = Math.max(Math.abs(w0), 1e-9);
@@ -160,6 +190,13 @@ export function fitMotor(recordings: MotorRecordingInput[], options?: FitMotorOp
       const cl = r.levels.classes;
       slots.levelScale = Math.max(1e-6, ...cl.map((q) => Math.abs(q.mean)));
       cl.forEach((q, j) => slots.level.push(push(`level ${j} ${r.name}`, q.mean / slots.levelScale)));
+      inputCoefficients.push(...slots.level);
+    }
+    if (r.sines !== null) {
+      const co = r.sines.coefficients;
+      slots.sineScale = Math.max(1e-6, ...Array.from(co, Math.abs));
+      co.forEach((v, j) => slots.sine.push(push(`input coefficient ${j} ${r.name}`, v / slots.sineScale)));
+      inputCoefficients.push(...slots.sine);
     }
     if (r.baseline && r.current !== null && r.kind !== 'coast-down') {
       let m = 0;
@@ -219,7 +256,11 @@ export function fitMotor(recordings: MotorRecordingInput[], options?: FitMotorOp
     };
   }
 
-  const problem = createMotorProblem(recs, layout);
+  // The input coefficients (voltage levels, sine-fit coefficients) are held at their voltage-only
+  // estimates while the constants are iterated (the pass then skips their sensitivities), and
+  // released for a final joint Gauss–Newton polish below.
+  const frozen = theta0.map((_, j) => inputCoefficients.includes(j));
+  const problem = createMotorProblem(recs, layout, theta0, inputCoefficients.length > 0 ? frozen : null);
   const p = theta0.length;
   // Candidate starts: the caller's (when given) and the automatic guesses from the data alone.
   const candidates: { label: StartAttempt['start']; theta: Float64Array }[] = [];
@@ -239,33 +280,96 @@ export function fitMotor(recordings: MotorRecordingInput[], options?: FitMotorOp
     if (!separate) auto.Ke = auto.Kt;
     candidates.push({ label: 'automatic', theta: thetaFrom(auto) });
   }
-  const acc0 = createNormalEquations(p);
-  const ssr0 = candidates.map((cand) => {
-    resetNormalEquations(acc0);
-    const v = problem.evaluate(cand.theta, false, acc0);
-    return Number.isFinite(v) ? v : Infinity;
-  });
-  // Lower starting SSR first; the other start is tried only when the first does not converge.
-  const order = candidates.map((_, i) => i).sort((a, b) => ssr0[a]! - ssr0[b]!);
+  // Long records: the starts are run on a window of each recording (WINDOW samples from the
+  // first switch of the command); the joint Gauss–Newton polish on the whole record then starts a
+  // few standard errors from its optimum and normally lands in one step. When it does not, the
+  // held-coefficient solver runs on the whole record from the window's optimum.
+  const total = recs.reduce((acc, r) => acc + r.time.length, 0);
+  const windowed = total > PREFIT_THRESHOLD ? recs.map((r) => windowOf(r, PREFIT_WINDOW)) : null;
+  // With input coefficients the held run only has to bring the constants close for the joint
+  // polish, which lands within ≈ 0.1 SE; a relative-reduction tolerance of 1e-7 (unless the
+  // caller set one) saves its last iterations.
+  const heldOptions = inputCoefficients.length > 0 && opts.solver.relativeReductionTolerance === undefined
+    ? { ...opts.solver, relativeReductionTolerance: 1e-7 } : opts.solver;
   const attempts: StartAttempt[] = [];
-  let best: ReturnType<typeof solveLeastSquares> | null = null;
-  let iterations = 0, jacobianEvaluations = 0, functionEvaluations = candidates.length;
-  for (const i of order) {
-    const cand = candidates[i]!;
-    const res = solveLeastSquares(problem, cand.theta, opts.solver);
-    // A run that ends where a fitted parameter no longer moves any residual (e.g. b so large that a
-    // coast-down stops at once) is stuck on a plateau, not at an optimum.
-    for (let j = 0; j < p; j++) {
-      if (res.converged && !(res.JtJ[j * p + j]! > 0)) { res.converged = false; res.stopReason = 'stalled'; }
+  let iterations = 0, jacobianEvaluations = 0, functionEvaluations = 0;
+  const runStarts = (prob: typeof problem, starts: typeof candidates): { best: ReturnType<typeof solveLeastSquares>; order: number[]; ssr0: number[] } => {
+    const acc0 = createNormalEquations(prob.parameterCount);
+    const ssr0 = starts.map((cand) => {
+      resetNormalEquations(acc0);
+      const v = prob.evaluate(prob.toFree(cand.theta), false, acc0);
+      return Number.isFinite(v) ? v : Infinity;
+    });
+    functionEvaluations += starts.length;
+    // Lower starting SSR first; the other start is tried only when the first does not converge.
+    const order = starts.map((_, i) => i).sort((x, y) => ssr0[x]! - ssr0[y]!);
+    let best: ReturnType<typeof solveLeastSquares> | null = null;
+    for (const i of order) {
+      const cand = starts[i]!;
+      const res = solveLeastSquares(prob, prob.toFree(cand.theta), heldOptions);
+      // A run that ends where a fitted parameter no longer moves any residual (e.g. b so large that a
+      // coast-down stops at once) is stuck on a plateau, not at an optimum.
+      const q = prob.parameterCount;
+      for (let j = 0; j < q; j++) {
+        if (res.converged && !(res.JtJ[j * q + j]! > 0)) { res.converged = false; res.stopReason = 'stalled'; }
+      }
+      iterations += res.iterations; jacobianEvaluations += res.jacobianEvaluations; functionEvaluations += res.functionEvaluations;
+      attempts.push({ start: cand.label, startSsr: ssr0[i]!, ssr: res.ssr, iterations: res.iterations, converged: res.converged, stopReason: res.stopReason, chosen: false });
+      const better = best === null || (res.converged && !best.converged) || (res.converged === best.converged && res.ssr < best.ssr);
+      if (better) best = res;
+      if (res.converged) break;
     }
-    iterations += res.iterations; jacobianEvaluations += res.jacobianEvaluations; functionEvaluations += res.functionEvaluations;
-    attempts.push({ start: cand.label, startSsr: ssr0[i]!, ssr: res.ssr, iterations: res.iterations, converged: res.converged, stopReason: res.stopReason, chosen: false });
-    const better = best === null || (res.converged && !best.converged) || (res.converged === best.converged && res.ssr < best.ssr);
-    if (better) best = res;
-    if (res.converged) break;
+    const b = best!;
+    attempts.forEach((x) => { x.chosen = false; });
+    attempts[attempts.findIndex((x) => x.ssr === b.ssr && x.converged === b.converged)]!.chosen = true;
+    return { best: b, order, ssr0 };
+  };
+  type Solution = { theta: Float64Array; JtJ: Float64Array; ssr: number; rows: number; converged: boolean; stopReason: StopReason };
+  let sol: Solution | null = null;
+  const polish = (from: Float64Array): ReturnType<typeof polishJointly> => {
+    const polished = polishJointly(recs, layout, frozen, from);
+    jacobianEvaluations += polished.jacobianEvaluations;
+    functionEvaluations += polished.jacobianEvaluations + polished.functionEvaluations;
+    return polished;
+  };
+  let startsRun: ReturnType<typeof runStarts> | null = null;
+  if (windowed !== null) {
+    const short = createMotorProblem(windowed, layout, theta0, inputCoefficients.length > 0 ? frozen : null);
+    const pre = runStarts(short, candidates);
+    if (pre.best.converged) {
+      const polished = polish(short.toFull(pre.best.theta));
+      if (polished.linear) {
+        sol = { theta: polished.theta, JtJ: polished.JtJ, ssr: polished.ssr, rows: polished.rows, converged: true, stopReason: 'relative-reduction' };
+      } else {
+        // Whole record, held coefficients, from the window's optimum.
+        startsRun = runStarts(problem, [{ label: attempts.find((x) => x.chosen)!.start, theta: polished.theta }]);
+      }
+    }
   }
-  const sol = best!;
-  attempts[attempts.findIndex((a) => a.ssr === sol.ssr && a.converged === sol.converged)]!.chosen = true;
+  if (sol === null) {
+    startsRun ??= runStarts(problem, candidates);
+    const reducedSol = startsRun.best;
+    sol = { theta: problem.toFull(reducedSol.theta), JtJ: reducedSol.JtJ, ssr: reducedSol.ssr, rows: reducedSol.rows, converged: reducedSol.converged, stopReason: reducedSol.stopReason };
+    if (inputCoefficients.length > 0 && !sol.converged) {
+      // The held-coefficient run did not converge (e.g. a constant with a standard error as large as
+      // itself ran towards 0 on the log scale, where the held and the joint optimum differ most):
+      // run the joint problem from the same start instead, as a whole.
+      const fullProblem = createMotorProblem(recs, layout, theta0, null);
+      const chosen = candidates[startsRun.order[0]!]!;
+      const res = solveLeastSquares(fullProblem, chosen.theta, opts.solver);
+      for (let j = 0; j < p; j++) {
+        if (res.converged && !(res.JtJ[j * p + j]! > 0)) { res.converged = false; res.stopReason = 'stalled'; }
+      }
+      iterations += res.iterations; jacobianEvaluations += res.jacobianEvaluations; functionEvaluations += res.functionEvaluations;
+      attempts.forEach((a) => { a.chosen = false; });
+      attempts.push({ start: chosen.label, startSsr: startsRun.ssr0[startsRun.order[0]!]!, ssr: res.ssr, iterations: res.iterations, converged: res.converged, stopReason: res.stopReason, chosen: true });
+      sol = { theta: Float64Array.from(res.theta), JtJ: res.JtJ, ssr: res.ssr, rows: res.rows, converged: res.converged, stopReason: res.stopReason };
+    } else if (inputCoefficients.length > 0) {
+      const polished = polish(sol.theta);
+      sol = { ...sol, theta: polished.theta, JtJ: polished.JtJ, ssr: polished.ssr, rows: polished.rows };
+      if (sol.converged && !polished.linear) { sol.converged = false; sol.stopReason = 'stalled'; }
+    }
+  }
   const constants = problem.constantsAt(sol.theta);
   const dof = sol.rows - p;
   let se: Float64Array | null = null;
@@ -335,4 +439,51 @@ export function fitMotor(recordings: MotorRecordingInput[], options?: FitMotorOp
     iterations, jacobianEvaluations, functionEvaluations, starts: attempts,
     converged: sol.converged, stopReason: sol.stopReason,
   };
+}
+
+/**
+ * Gauss–Newton steps on the full joint problem (constants and input coefficients together) from
+ * the optimum found with the input coefficients held. The residuals are linear in the input
+ * coefficients and the start lies within a few standard errors of the joint optimum, so one step
+ * normally lands on it. A step counts as landing when its actual SSR reduction matches the linear
+ * prediction to 0.01 + 1e-4·prediction (whitened units, so the point is within about 0.1 standard
+ * error of the joint optimum in any direction): the model is then linear over the step, the
+ * gradient left at the new point is negligible, and JᵀJ from the start of the step (returned
+ * with it) differs from JᵀJ at the new point by terms of the step's size. The trial SSR is
+ * evaluated with the coefficients held at their trial values (the cheap pass). Returns the point
+ * with that JᵀJ.
+ */
+function polishJointly(
+  recs: PreparedRecording[], layout: ParameterLayout, frozen: boolean[], theta0: Float64Array,
+): { theta: Float64Array; JtJ: Float64Array; ssr: number; rows: number; linear: boolean; jacobianEvaluations: number; functionEvaluations: number } {
+  let theta = Float64Array.from(theta0);
+  const full = createMotorProblem(recs, layout, theta, null);
+  const p = full.parameterCount;
+  let acc = createNormalEquations(p);
+  let ssr = full.evaluate(theta, true, acc);
+  let jEvals = 1, fEvals = 0;
+  let linear = false;
+  for (let it = 0; it < 5 && Number.isFinite(ssr); it++) {
+    // Solve with the columns scaled to unit norm (the nuisances and the log-constants differ by
+    // orders of magnitude in JᵀJ).
+    const d = Float64Array.from({ length: p }, (_, j) => { const v = Math.sqrt(acc.JtJ[j * p + j]!); return v > 0 ? v : 1; });
+    const scaled = Float64Array.from(acc.JtJ, (v, ij) => v / (d[Math.floor(ij / p)]! * d[ij % p]!));
+    const z = solveSymmetricSystem(scaled, Float64Array.from(acc.Jtr, (g, j) => -g / d[j]!), p);
+    if (z === null) break;
+    const step = Float64Array.from(z, (v, j) => v / d[j]!);
+    let predicted = 0;
+    for (let j = 0; j < p; j++) predicted -= step[j]! * acc.Jtr[j]!;
+    const trial = Float64Array.from(theta, (t, j) => t + step[j]!);
+    const held = createMotorProblem(recs, layout, trial, frozen);
+    const ssr2 = held.evaluate(held.toFree(trial), false, createNormalEquations(held.parameterCount));
+    fEvals++;
+    if (!(ssr2 <= ssr)) { linear = predicted <= LANDING_SLACK; break; }
+    const actual = ssr - ssr2;
+    theta = trial;
+    if (Math.abs(actual - predicted) <= LANDING_SLACK + 1e-4 * predicted) { ssr = ssr2; linear = true; break; }
+    acc = createNormalEquations(p);
+    ssr = full.evaluate(theta, true, acc);
+    jEvals++;
+  }
+  return { theta, JtJ: Float64Array.from(acc.JtJ), ssr, rows: acc.rows, linear, jacobianEvaluations: jEvals, functionEvaluations: fEvals };
 }

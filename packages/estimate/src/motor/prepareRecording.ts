@@ -2,6 +2,7 @@ import { classifyRecording } from './classifyRecording.js';
 import { detectVoltageSegments } from './detectVoltageSegments.js';
 import { estimateNoiseLevel } from './estimateNoiseLevel.js';
 import { rebuildCommand } from './rebuildCommand.js';
+import type { SineBasis } from './rebuildCommand.js';
 import type { InputHandling, MotorExperimentKind, MotorRecordingInput, NoiseLevel, VoltageSegment } from './types.js';
 
 /** A recording made ready for the joint fit (internal shape of the estimator). */
@@ -34,6 +35,11 @@ export interface PreparedRecording {
    * nuisance parameters and the voltage samples residual rows; null when the input is used as is.
    */
   levels: LevelModel | null;
+  /**
+   * Sine-fit input as a linear basis (errors in variables): the coefficients become nuisance
+   * parameters with the voltage samples as rows; null when the input is not a sine fit.
+   */
+  sines: SineModel | null;
   /** Whether the record starts with a pre-trigger baseline at 0 V (informs a current-sensor offset). */
   baseline: boolean;
   /** Torque channel summary of a loaded run (the load level becomes a nuisance with torque rows), else null. */
@@ -42,6 +48,20 @@ export interface PreparedRecording {
 
 /** Sufficient statistics of samples that share one level: count, mean, Σ(x − mean)², noise σ. */
 export interface ChannelSummary { count: number; mean: number; sumSq: number; sigma: number }
+
+/** A sine-fit input u_k = β0 + Σ_j (β_{2j+1}·cos(ω_j·k) + β_{2j+2}·sin(ω_j·k)), k the sample index. */
+export interface SineModel {
+  /** Angular frequencies per sample ω_j [rad/sample]. */
+  omega: Float64Array;
+  /** Least-squares coefficients β̂ [V] (constant, then cos/sin pairs). */
+  coefficients: Float64Array;
+  /** Lower Cholesky factor L of the Gram matrix XᵀX (q×q row-major), so Σ(v − Xβ)² = RSS + ‖Lᵀ(β − β̂)‖². */
+  cholesky: Float64Array;
+  /** Residual sum of squares at β̂ [V²]. */
+  rss: number;
+  /** Number of voltage samples. */
+  count: number;
+}
 
 /** Level classes of a piecewise-constant command. */
 export interface LevelModel {
@@ -133,7 +153,7 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
     if (v === null) return null;
     const lvl = estimateNoiseLevel(v);
     let maxAbs = 0;
-    for (let k = 0; k < n; k++) maxAbs = Math.max(maxAbs, Math.abs(v[k]!));
+    for (let k = 0; k < n; k++) { const a = v[k]! < 0 ? -v[k]! : v[k]!; if (a > maxAbs) maxAbs = a; }
     return { ...lvl, sigma: Math.max(lvl.sigma, FLOOR * Math.max(maxAbs, 1)) };
   };
   const currentNoise = kind === 'coast-down' ? null : noise(current);
@@ -142,6 +162,7 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
   let input: Float64Array;
   let handling: InputHandling;
   let segments: VoltageSegment[] | null = null;
+  let sines: SineModel | null = null;
   let first = 0;
   if (kind === 'coast-down') {
     first = findCoastStart(current, speed!, speedNoise!.sigma);
@@ -156,6 +177,7 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
     };
   } else {
     const rb = rebuildCommand(time, voltage, voltageMode);
+    if (rb.sineBasis !== undefined) sines = sineModel(rb.sineBasis, voltage, rb.voltage);
     input = rb.voltage;
     handling = rb.handling;
     segments = rb.segments ?? (kind === 'steady-state' ? detectVoltageSegments(voltage, handling.voltageSigma) : null);
@@ -180,8 +202,28 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
     name, kind, kindSource, kindReason, time, timeBase, h, input, handling, segments,
     current: kind === 'coast-down' ? null : current,
     speed: kind === 'locked-rotor' ? null : speed,
-    currentNoise, speedNoise, loadTorque, first, direction, levels, baseline, torqueStats,
+    currentNoise, speedNoise, loadTorque, first, direction, levels, sines, baseline, torqueStats,
   };
+}
+
+/** The sine fit with the Cholesky factor of its Gram matrix and its residual sum of squares; null when the factor fails. */
+function sineModel(basis: SineBasis, voltage: Float64Array, fitted: Float64Array): SineModel | null {
+  const q = basis.coefficients.length;
+  const G = basis.gram;
+  const L = new Float64Array(q * q);
+  for (let i = 0; i < q; i++) {
+    for (let j = 0; j <= i; j++) {
+      let s = G[i * q + j]!;
+      for (let k = 0; k < j; k++) s -= L[i * q + k]! * L[j * q + k]!;
+      if (i === j) {
+        if (!(s > 0)) return null;
+        L[i * q + i] = Math.sqrt(s);
+      } else L[i * q + j] = s / L[j * q + j]!;
+    }
+  }
+  let rss = 0;
+  for (let k = 0; k < voltage.length; k++) { const d = voltage[k]! - fitted[k]!; rss += d * d; }
+  return { omega: basis.omega, coefficients: basis.coefficients, cholesky: L, rss, count: voltage.length };
 }
 
 function hasSegments(segs: VoltageSegment[] | null): boolean {
@@ -222,13 +264,16 @@ function buildLevels(voltage: Float64Array, segs: VoltageSegment[], sigma: numbe
     segClass.push(found);
     classOf.fill(found, s.start, s.end);
   }
-  const switches = Int32Array.from(segs.slice(1).map((s) => s.start));
+  const switches = new Int32Array(Math.max(segs.length - 1, 0));
+  for (let j = 1; j < segs.length; j++) switches[j - 1] = segs[j]!.start;
   const use = new Uint8Array(n).fill(1);
   for (let j = 0; j < switches.length; j++) { const k = switches[j]!; use[k] = 0; use[k - 1] = 0; }
-  const sums = centres.map(() => ({ s: 0, c: 0 }));
-  for (let k = 0; k < n; k++) if (use[k] === 1) { const q = sums[classOf[k]!]!; q.s += voltage[k]!; q.c++; }
-  const classes: ChannelSummary[] = sums.map((q) => ({ count: q.c, mean: q.c > 0 ? q.s / q.c : 0, sumSq: 0, sigma }));
-  for (let k = 0; k < n; k++) if (use[k] === 1) { const q = classes[classOf[k]!]!; q.sumSq += (voltage[k]! - q.mean) * (voltage[k]! - q.mean); }
+  const m = centres.length;
+  const sum = new Float64Array(m), cnt = new Int32Array(m), sq = new Float64Array(m);
+  for (let k = 0; k < n; k++) if (use[k] === 1) { const q = classOf[k]!; sum[q] = sum[q]! + voltage[k]!; cnt[q] = cnt[q]! + 1; }
+  const mean = Float64Array.from(sum, (x, q) => (cnt[q]! > 0 ? x / cnt[q]! : centres[q]!.level));
+  for (let k = 0; k < n; k++) if (use[k] === 1) { const q = classOf[k]!; const d = voltage[k]! - mean[q]!; sq[q] = sq[q]! + d * d; }
+  const classes: ChannelSummary[] = centres.map((_, q) => ({ count: cnt[q]!, mean: mean[q]!, sumSq: sq[q]!, sigma }));
   return { classOf, classes, switches };
 }
 

@@ -13,12 +13,29 @@ export interface RebuiltCommand {
   handling: InputHandling;
   /** The constant segments when the command is piecewise constant, else null. */
   segments: VoltageSegment[] | null;
+  /**
+   * The sine fit as a linear model when `handling.method` is `sine-fit`: columns 1, cos(ω_j·k),
+   * sin(ω_j·k) (k the sample index), their Gram matrix XᵀX and the least-squares coefficients.
+   */
+  sineBasis?: SineBasis;
+}
+
+/** A least-squares sine fit v_k ≈ Σ_c β_c·x_c(k) over the sample index k. */
+export interface SineBasis {
+  /** Angular frequencies per sample ω_j [rad/sample]. */
+  omega: Float64Array;
+  /** Coefficients β̂ [V]: constant, then cos/sin pairs. */
+  coefficients: Float64Array;
+  /** Gram matrix XᵀX, q×q row-major, q = 1 + 2·omega.length. */
+  gram: Float64Array;
 }
 
 /** Ratio RMS(measured − rebuilt)/σ below which a rebuild is taken to explain the data. */
 const ACCEPT_RATIO = 1.5;
 /** Most sines fitted to a smooth input. */
 const MAX_SINES = 40;
+/** Most harmonics of a whole-record period (common practice, no source). */
+const MAX_HARMONICS = 64;
 
 /**
  * Turns a measured, noisy terminal voltage into the model input without the errors-in-variables
@@ -29,13 +46,16 @@ const MAX_SINES = 40;
  * says that the constants may be biased.
  *
  * ## Method
- * The noise σ comes from `estimateNoiseLevel`. Change points are jumps above 6·√2·σ
- * (`detectVoltageSegments`); the segmentation is accepted when the within-segment RMS is below
+ * The noise σ comes from `estimateNoiseLevel`, re-estimated from the second differences inside
+ * the detected segments when that is smaller (frequent switches inflate the first estimate).
+ * Change points are jumps above 6·√2·σ (`detectVoltageSegments`); the segmentation is accepted when the within-segment RMS is below
  * 1.5σ and there are fewer segments than n/8. For the sines, peaks of the rectangular-window,
  * zero-padded magnitude spectrum above 10× its median are located by parabolic interpolation on
  * the log magnitude; when the peaks are harmonics of one base frequency the base is refined by
  * least squares over all of them; amplitudes and phases are then fitted by linear least squares
- * together with a constant, accepted under the same 1.5σ rule.
+ * together with a constant, accepted under the same 1.5σ rule. When the peaks do not explain the
+ * input, harmonics of the record length, f0 = 1/((n − 1)·h) or 1/(n·h), up to the highest
+ * significant peak (at most 64) are tried the same way (a multisine periodic over the record).
  *
  * @param time - sample times [s] (uniform sampling assumed for the spectrum)
  * @param voltage - measured voltage [V]
@@ -48,8 +68,19 @@ const MAX_SINES = 40;
  */
 export function rebuildCommand(time: Float64Array, voltage: Float64Array, mode: 'auto' | 'measured'): RebuiltCommand {
   const n = voltage.length;
-  const sigma = estimateNoiseLevel(voltage).sigma;
-  const segs = detectVoltageSegments(voltage, sigma);
+  let sigma = estimateNoiseLevel(voltage).sigma;
+  let segs = detectVoltageSegments(voltage, sigma);
+  // Frequent switches (a PRBS with few samples per bit) inflate the second-difference σ, which
+  // raises the jump threshold and loses switches: re-estimate σ from the second differences that
+  // lie wholly inside one segment and segment again, until σ settles (at most 3 times).
+  for (let it = 0; it < 3 && segs.length > 1; it++) {
+    const inner = withinSegmentSigma(voltage, segs);
+    if (!(inner > 0) || !(inner < sigma)) break;
+    const settled = sigma - inner <= 0.02 * sigma;
+    sigma = inner;
+    segs = detectVoltageSegments(voltage, sigma);
+    if (settled) break;
+  }
   const stepTime = segs.length > 1 ? time[segs[1]!.start]! : null;
   const piecewise = new Float64Array(n);
   for (const s of segs) piecewise.fill(s.level, s.start, s.end);
@@ -77,7 +108,19 @@ export function rebuildCommand(time: Float64Array, voltage: Float64Array, mode: 
     };
   }
   const h = (time[n - 1]! - time[0]!) / (n - 1);
-  const sines = fitSines(voltage, h);
+  let sines = fitSines(voltage, h);
+  let harmonic = false;
+  if (sines !== null && !(rmsDiff(voltage, sines.values) / Math.max(sigma, 1e-300) < ACCEPT_RATIO)) {
+    // Periodic excitation over the whole record (the usual multisine design): harmonics of
+    // 1/((n − 1)·h) or 1/(n·h) up to the highest significant spectral peak; the spectral peaks of
+    // such a record sit one bin apart, where the window's side lobes confuse the peak picking.
+    for (const period of [(n - 1) * h, n * h]) {
+      const f0 = 1 / period;
+      const K = Math.min(MAX_HARMONICS, Math.max(1, Math.round(sines.fmaxPeak / f0)), Math.floor((n - 1) / 8));
+      const cand = fitHarmonics(voltage, h, f0, K, sigma, sines.fmaxPeak);
+      if (cand !== null && rmsDiff(voltage, cand.values) / Math.max(sigma, 1e-300) < ACCEPT_RATIO) { sines = cand; harmonic = true; break; }
+    }
+  }
   if (sines !== null) {
     const ratio = rmsDiff(voltage, sines.values) / Math.max(sigma, 1e-300);
     if (ratio < ACCEPT_RATIO) {
@@ -85,13 +128,14 @@ export function rebuildCommand(time: Float64Array, voltage: Float64Array, mode: 
         voltage: sines.values,
         handling: {
           method: 'sine-fit',
-          reason: `smooth periodic input: ${sines.frequencies.length} sine(s) at the spectral peaks explain it to ${fmt(ratio)}σ`,
+          reason: `smooth periodic input: ${sines.frequencies.length} sine(s) ${harmonic ? `at the harmonics of the record length (f0 = ${fmt(sines.frequencies[0]!)} Hz)` : 'at the spectral peaks'} explain it to ${fmt(ratio)}σ`,
           frequencies: sines.frequencies,
           stepTime: null,
           residualRatio: ratio,
           voltageSigma: sigma,
         },
         segments: null,
+        sineBasis: { omega: sines.omega, coefficients: sines.coefficients, gram: sines.gram },
       };
     }
     const fmax = Math.max(...sines.frequencies);
@@ -126,6 +170,51 @@ export function rebuildCommand(time: Float64Array, voltage: Float64Array, mode: 
   };
 }
 
+/** 1.4826·MAD/√6 of the second differences whose three samples lie in one segment (see `estimateNoiseLevel`). */
+function withinSegmentSigma(v: Float64Array, segs: VoltageSegment[]): number {
+  let total = 0;
+  for (const sg of segs) total += Math.max(sg.end - sg.start - 2, 0);
+  if (total < 8) return NaN;
+  // At most 2¹⁵ of them, every stride-th (as in estimateNoiseLevel).
+  const stride = Math.max(1, Math.ceil(total / 32768));
+  const d = new Float64Array(Math.ceil(total / stride));
+  let q = 0, c = 0;
+  for (const sg of segs) {
+    for (let k = sg.start + 1; k + 1 < sg.end; k++) {
+      if (c++ % stride === 0 && q < d.length) d[q++] = v[k + 1]! - 2 * v[k]! + v[k - 1]!;
+    }
+  }
+  const m = q;
+  const dd = d.subarray(0, m);
+  const med = medianOf(dd);
+  for (let k = 0; k < m; k++) dd[k] = Math.abs(dd[k]! - med);
+  return (1.482602218505602 * medianOf(dd)) / Math.sqrt(6);
+}
+
+/** Median by Hoare's selection (expected O(n)); rearranges `a`. */
+function medianOf(a: Float64Array): number {
+  const n = a.length;
+  const h = n >> 1;
+  let left = 0, right = n - 1;
+  while (right > left) {
+    const pivot = a[(left + right) >> 1]!;
+    let i = left, j = right;
+    while (i <= j) {
+      while (a[i]! < pivot) i++;
+      while (a[j]! > pivot) j--;
+      if (i <= j) { const t = a[i]!; a[i] = a[j]!; a[j] = t; i++; j--; }
+    }
+    if (h <= j) right = j;
+    else if (h >= i) left = i;
+    else break;
+  }
+  const hi = a[h]!;
+  if (n % 2 === 1) return hi;
+  let lo = -Infinity;
+  for (let k = 0; k < h; k++) if (a[k]! > lo) lo = a[k]!;
+  return 0.5 * (lo + hi);
+}
+
 function fmt(x: number): string {
   return Number.isFinite(x) ? x.toPrecision(3) : String(x);
 }
@@ -136,7 +225,10 @@ function rmsDiff(a: Float64Array, b: Float64Array): number {
   return Math.sqrt(s / a.length);
 }
 
-function fitSines(v: Float64Array, h: number): { values: Float64Array; frequencies: number[] } | null {
+/** A sine fit: values, frequencies [Hz], ω per sample, coefficients, Gram matrix, highest significant spectral peak [Hz]. */
+interface SineFit { values: Float64Array; frequencies: number[]; omega: Float64Array; coefficients: Float64Array; gram: Float64Array; fmaxPeak: number }
+
+function fitSines(v: Float64Array, h: number): SineFit | null {
   const n = v.length;
   const { magnitude, length } = fourierMagnitudes(v, 4);
   const sorted = Float64Array.from(magnitude).sort();
@@ -147,6 +239,7 @@ function fitSines(v: Float64Array, h: number): { values: Float64Array; frequenci
     if (m > 10 * floor && m >= magnitude[k - 1]! && m > magnitude[k + 1]!) peaks.push({ bin: k, mag: m });
   }
   if (peaks.length === 0) return null;
+  const fmaxPeak = Math.max(...peaks.map((q) => q.bin)) / (length * h);
   peaks.sort((a, b) => b.mag - a.mag);
   const chosen = peaks.slice(0, MAX_SINES);
   const T = n * h;
@@ -170,6 +263,12 @@ function fitSines(v: Float64Array, h: number): { values: Float64Array; frequenci
     const f0 = num / den;
     freqs = ks.map((k) => k * f0);
   }
+  return fitSineBasis(v, h, freqs, fmaxPeak);
+}
+
+/** Linear least squares of a constant plus sines at the given frequencies [Hz]. */
+function fitSineBasis(v: Float64Array, h: number, freqs: number[], fmaxPeak: number): SineFit | null {
+  const n = v.length;
   const K = freqs.length;
   const p = 2 * K + 1;
   const A = new Float64Array(p * p);
@@ -191,6 +290,7 @@ function fitSines(v: Float64Array, h: number): { values: Float64Array; frequenci
     }
   }
   for (let i = 0; i < p; i++) for (let j = 0; j < i; j++) A[i * p + j] = A[j * p + i]!;
+  const gram = Float64Array.from(A);
   const coef = solveSymmetricSystem(A, rhs, p);
   if (coef === null) return null;
   const values = new Float64Array(n);
@@ -202,5 +302,47 @@ function fitSines(v: Float64Array, h: number): { values: Float64Array; frequenci
     }
     values[k] = s;
   }
-  return { values, frequencies: freqs };
+  return { values, frequencies: freqs, omega: Float64Array.from(cw), coefficients: coef, gram, fmaxPeak };
+}
+
+/**
+ * Harmonics k·f0 of a base frequency near `f0`: fits K harmonics, keeps those whose amplitude is
+ * clearly above the noise ((a² + b²)/(2σ²/n) > 25, i.e. more than 5 standard errors on a 2-dof
+ * chi-square), then refines f0 by three parabolic steps on the residual sum of squares (the record
+ * need not hold a whole number of periods exactly).
+ */
+function fitHarmonics(v: Float64Array, h: number, f0: number, K: number, sigma: number, fmaxPeak: number): SineFit | null {
+  const n = v.length;
+  const all = fitSineBasis(v, h, Array.from({ length: K }, (_, j) => (j + 1) * f0), fmaxPeak);
+  if (all === null) return null;
+  const c = all.coefficients;
+  const keep: number[] = [];
+  const se2 = (2 * sigma * sigma) / n;
+  for (let j = 0; j < K; j++) {
+    const a = c[1 + 2 * j]!, b = c[2 + 2 * j]!;
+    if ((a * a + b * b) / Math.max(se2, 1e-300) > 25) keep.push(j + 1);
+  }
+  if (keep.length === 0) return all;
+  const rssAt = (f: number): { fit: SineFit | null; rss: number } => {
+    const fit = fitSineBasis(v, h, keep.map((k) => k * f), fmaxPeak);
+    if (fit === null) return { fit, rss: Infinity };
+    let r = 0;
+    for (let k = 0; k < n; k++) { const d = v[k]! - fit.values[k]!; r += d * d; }
+    return { fit, rss: r };
+  };
+  let f = f0;
+  let best = rssAt(f);
+  // Step: a tenth of the frequency change that moves the highest kept harmonic by one bin over the record.
+  let step = 0.1 / (keep[keep.length - 1]! * n * h);
+  for (let it = 0; it < 3; it++) {
+    const lo = rssAt(f - step), hi = rssAt(f + step);
+    const den = lo.rss - 2 * best.rss + hi.rss;
+    let shift = den > 0 ? (0.5 * step * (lo.rss - hi.rss)) / den : 0;
+    if (shift > 2 * step) shift = 2 * step;
+    if (shift < -2 * step) shift = -2 * step;
+    const next = rssAt(f + shift);
+    if (next.rss < best.rss) { f += shift; best = next; }
+    step *= 0.3;
+  }
+  return best.fit;
 }

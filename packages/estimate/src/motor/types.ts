@@ -68,7 +68,7 @@ export interface InputHandling {
   /**
    * `segment-means`: piecewise-constant command found, each segment replaced by its mean;
    * `sine-fit`: smooth periodic input rebuilt by linear least squares on sines at the spectral
-   * peaks; `low-pass`: smooth input that the sines do not explain, passed through a zero-phase
+   * peaks or at the harmonics of the record length (the coefficients are then fitted as nuisances); `low-pass`: smooth input that the sines do not explain, passed through a zero-phase
    * low-pass at three times its highest spectral peak; `measured`: the raw voltage is used (either asked for, or nothing better was found —
    * then the constants may be biased and `reason` says so); `not-used`: the model of this kind
    * does not take the voltage sample by sample (coast-down, steady-state plateaus).
@@ -173,7 +173,11 @@ export interface MotorFit {
   fittedNames: string[];
   /** Fitted parameter vector at the optimum (log scale for positive constants). */
   theta: number[];
-  /** JᵀJ of the whitened residuals at the optimum w.r.t. `theta`, p×p row-major. */
+  /**
+   * JᵀJ of the whitened residuals w.r.t. `theta`, p×p row-major: at the optimum, or — after the
+   * joint Gauss–Newton polish — at the start of its last step, which landed within about 0.1
+   * standard error of the optimum (see the README, "Motor estimator").
+   */
   normalMatrix: Float64Array;
   /** Sum of squared whitened residuals at the optimum. */
   ssr: number;
@@ -186,7 +190,11 @@ export interface MotorFit {
   /**
    * The solver runs, in the order tried: the start with the lower sum of squares goes first (the
    * caller's `options.initial` or the automatic guesses from the data alone); the other is tried
-   * only when the first does not converge. `chosen` marks the run whose optimum is reported.
+   * only when the first does not converge. `chosen` marks the run whose optimum is reported. On
+   * records of more than 262144 samples in total the runs use a 65536-sample window of each
+   * recording and the whole record is reached by the joint polish; a run on the whole record
+   * (or a joint run with all input coefficients free, after a held-coefficient run that did not
+   * converge) is appended under the same start label.
    */
   starts: StartAttempt[];
   /** Solver trial steps (all runs). */
