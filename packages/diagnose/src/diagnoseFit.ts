@@ -123,7 +123,21 @@ export function diagnoseFit(fit: MotorFit, recordings: MotorRecordingInput[], op
     }
     if (scan) {
       const s = scanRecording(rec, { kind: rep.kind, alpha });
-      for (const f of s.findings) findings.push({ ...f, recording: rep.name, origin: 'recording-scan' });
+      for (const f of s.findings) {
+        if (f.code === 'coulomb-friction' && fit.variant.coulomb) {
+          // The fitted model already carries Tc: keep the evidence, but as a note, not a call to act.
+          findings.push({
+            ...f,
+            severity: 'info',
+            title: `${f.title} (the fitted model includes it as Tc)`,
+            advice: 'The fitted model includes Coulomb friction Tc; this finding is the evidence for it. Compare Tc with the friction seen here.',
+            recording: rep.name,
+            origin: 'recording-scan',
+          });
+          continue;
+        }
+        findings.push({ ...f, recording: rep.name, origin: 'recording-scan' });
+      }
       for (const c of s.comparisons) comparisons.push({ ...c, recording: rep.name });
     }
   });

@@ -121,3 +121,36 @@ describe('motorprint fit --out / --report and motorprint show', () => {
     expect(c.stderr()).toMatch(/bad-set\.json: not a motorprint parameter set/);
   });
 });
+
+describe('motorprint fit chooses the friction model the data support', () => {
+  it('reports the Coulomb model when the comparison supports it, and says so; --coulomb no keeps viscous only', async () => {
+    const d = mkdtempSync(join(tmpdir(), 'mp-coulomb-'));
+    // Invented motor with Coulomb friction Tc = 6 mN·m (about 1 % of its stall torque at 24 V).
+    const motor = { R: 1.9, L: 6.2e-4, Kt: 0.052, Ke: 0.052, J: 1.1e-5, b: 4e-6, Tc: 0.006 };
+    writeFileSync(join(d, 'm.json'), JSON.stringify(motor));
+    const noise = ['--noise-voltage', '0.05', '--noise-current', '0.02', '--noise-speed', '0.3'];
+    for (const [kind, extra, seed] of [
+      ['locked-rotor', ['--volts', '6', '--sample-rate', '50000'], '4'],
+      ['prbs', ['--volts', '24', '--sample-rate', '5000'], '3'],
+    ] as const) {
+      const c = capture(d);
+      expect(await runCli(['simulate', 'm.json', '--experiment', kind, ...extra, ...noise, '--seed', seed, '--out', `${kind}.csv`], c.io), c.stderr()).toBe(EXIT.ok);
+    }
+    const auto = capture(d);
+    expect(await runCli(['fit', 'locked-rotor.csv', 'prbs.csv', '--json'], auto.io), auto.stderr()).toBe(EXIT.ok);
+    const doc = JSON.parse(auto.stdout());
+    expect(doc.variant.coulomb).toBe(true);
+    expect(doc.modelComparison).toMatchObject({ supported: 'viscous + Coulomb', reported: 'viscous + Coulomb friction' });
+    for (const name of ['R', 'L', 'Kt', 'J', 'b', 'Tc'] as const) {
+      const p = doc.parameters[name];
+      const z = Math.abs(p.value - motor[name]) / p.standardError;
+      expect(z, `${name}: ${p.value} ± ${p.standardError} vs true ${motor[name]}`).toBeLessThan(3);
+    }
+    const text = capture(d);
+    expect(await runCli(['fit', 'locked-rotor.csv', 'prbs.csv'], text.io)).toBe(EXIT.ok);
+    expect(text.stdout()).toMatch(/Model: viscous \+ Coulomb friction, chosen over viscous friction only/);
+    const viscous = capture(d);
+    expect(await runCli(['fit', 'locked-rotor.csv', 'prbs.csv', '--json', '--coulomb', 'no'], viscous.io)).toBe(EXIT.ok);
+    expect(JSON.parse(viscous.stdout()).variant.coulomb).toBe(false);
+  });
+});

@@ -38,6 +38,9 @@ Options:
   --guess P=V        start constant P at V [SI] instead of the automatic guess
   --check FILE       after fitting, predict FILE (a held-out recording) with the fitted constants
                      and print NRMSE per channel; repeat as needed
+  --coulomb M        Coulomb friction in the model: auto (default: added when a coast-down or
+                     steady-state run is given, or when the findings call for it and the model
+                     comparison supports it — the output then says so), yes, or no
   --measured-voltage feed the raw measured voltage to the model (no rebuild of the command; biased
                      when the voltage is noisy — for comparison only)
   --json             print the parameter set (one JSON document) on stdout
@@ -71,12 +74,20 @@ function constantPairs(name: string, raw: string[] | undefined): Partial<Record<
   return out;
 }
 
+/** Which friction model the command reported, when it chose between two (see `--coulomb auto`). */
+export interface ModelSelection {
+  chosen: string;
+  over: string;
+  comparison: FitDiagnosis['comparisons'][number] | NonNullable<FitDiagnosis['coulombRefit']>['comparison'];
+  triggeredBy: string[];
+}
+
 /** What `fit --json` prints and `--out` writes: the parameter set, plus held-out checks and the model comparison. */
-export function fitDocument(set: ParameterSet, diagnosis: FitDiagnosis, validation: ValidationResult[]): Record<string, unknown> {
+export function fitDocument(set: ParameterSet, diagnosis: FitDiagnosis, validation: ValidationResult[], selection: ModelSelection | null = null): Record<string, unknown> {
   const doc: Record<string, unknown> = { ...set };
   if (diagnosis.coulombRefit) {
     const { comparison, supported, converged, triggeredBy } = diagnosis.coulombRefit;
-    doc.modelComparison = { supported, converged, triggeredBy, comparison };
+    doc.modelComparison = { supported, converged, triggeredBy, comparison, reported: selection ? selection.chosen : 'as fitted' };
   }
   if (validation.length > 0) doc.checks = validation;
   return doc;
@@ -185,6 +196,7 @@ async function run(args: string[], io: CliIo): Promise<number> {
     guess: { type: 'string', multiple: true },
     'measured-voltage': { type: 'boolean' },
     check: { type: 'string', multiple: true },
+    coulomb: { type: 'string' },
     json: { type: 'boolean' },
     out: { type: 'string' },
     format: { type: 'string' },
@@ -212,6 +224,9 @@ async function run(args: string[], io: CliIo): Promise<number> {
   if (Object.keys(fix).length > 0) options.fix = fix;
   if (Object.keys(guess).length > 0) options.initial = guess;
   if (values['measured-voltage']) options.voltage = 'measured';
+  const coulombChoice = values.coulomb ?? 'auto';
+  if (!['auto', 'yes', 'no'].includes(coulombChoice)) throw new UsageError(`--coulomb must be auto, yes or no (got "${coulombChoice}")`, 'fit');
+  if (coulombChoice !== 'auto') options.coulomb = coulombChoice === 'yes';
   const ingestOptions = ingestOptionsFrom('fit', values);
   const ratedVoltage = numberOption('fit', 'rated-voltage', values['rated-voltage'], (x) => x > 0, 'a voltage > 0');
   const windingTemp = numberOption('fit', 'winding-temp', values['winding-temp'], (x) => x > -273.15, 'a temperature in °C');
@@ -235,7 +250,7 @@ async function run(args: string[], io: CliIo): Promise<number> {
     const kind = kinds.get(file);
     return kind === undefined ? { recording: result.recording, name: file } : { recording: result.recording, name: file, kind };
   });
-  const fit = fitMotor(fitInputs, options);
+  let fit = fitMotor(fitInputs, options);
   if (!fit.converged) {
     // Diagnose only a converged fit; say where it stopped.
     if (values.json) io.stdout(`${JSON.stringify({ schema: 'motorprint.fit/1', converged: false, stopReason: fit.stopReason, iterations: fit.iterations }, null, 2)}\n`);
@@ -244,7 +259,19 @@ async function run(args: string[], io: CliIo): Promise<number> {
     return EXIT.dataProblem;
   }
   io.stderr('checking the fit (intervals, residuals, findings)…\n');
-  const diagnosis = diagnoseFit(fit, fitInputs, { fitOptions: options });
+  let diagnosis = diagnoseFit(fit, fitInputs, { fitOptions: options, refitCoulomb: coulombChoice === 'auto' });
+  let selection: ModelSelection | null = null;
+  const refit = diagnosis.coulombRefit;
+  if (coulombChoice === 'auto' && refit !== null && refit.converged && refit.supported === 'viscous + Coulomb') {
+    // The data support the model with Coulomb friction: report that model's constants, and say so.
+    io.stderr('the data support Coulomb friction; fitting that model…\n');
+    const withCoulomb = fitMotor(fitInputs, { ...options, coulomb: true });
+    if (withCoulomb.converged) {
+      selection = { chosen: 'viscous + Coulomb friction', over: 'viscous friction only', comparison: refit.comparison, triggeredBy: refit.triggeredBy };
+      fit = withCoulomb;
+      diagnosis = { ...diagnoseFit(fit, fitInputs, { fitOptions: { ...options, coulomb: true }, refitCoulomb: false }), coulombRefit: refit };
+    }
+  }
   const validation: ValidationResult[] = [];
   for (const file of values.check ?? []) {
     const held = await readInput(io.cwd, file, ingestOptions);
@@ -266,9 +293,9 @@ async function run(args: string[], io: CliIo): Promise<number> {
   if (referenceTemp !== undefined) setOptions.referenceTemperature = referenceTemp;
   if (copperK !== undefined) setOptions.copperConstant = copperK;
   const set = buildParameterSet(fit, setOptions);
-  const doc = fitDocument(set, diagnosis, validation);
+  const doc = fitDocument(set, diagnosis, validation, selection);
   if (values.json) io.stdout(`${JSON.stringify(doc, null, 2)}\n`);
-  else io.stdout(`${formatFit(fit, diagnosis, validation, paint)}\n${formatResistanceAtReference(set)}`);
+  else io.stdout(`${formatSelection(selection, paint)}${formatFit(fit, diagnosis, validation, paint)}\n${formatResistanceAtReference(set)}`);
   if (values.out !== undefined) {
     const text = outFormat === 'md' ? formatParameterSetMarkdown(set) : outFormat === 'csv' ? formatParameterSetCsv(set) : `${JSON.stringify(doc, null, 2)}\n`;
     await writeOut(io, values.out, text);
@@ -305,6 +332,15 @@ function reportTitle(set: ParameterSet): string {
   const id = set.identification;
   const name = id.motor ?? id.name ?? id.serial;
   return name ? `Motor constants — ${name}` : 'Motor constants from bench recordings';
+}
+
+function formatSelection(selection: ModelSelection | null, paint: Paint): string {
+  if (selection === null) return '';
+  const c = selection.comparison;
+  return `${paint.bold('Model:')} ${selection.chosen}, chosen over ${selection.over} because the data support it ` +
+    `(F-test p ${formatNumber(c.fPValue, 2)}, AIC ${formatNumber(c.aic[0], 6)} → ${formatNumber(c.aic[1], 6)}, ` +
+    `BIC ${formatNumber(c.bic[0], 6)} → ${formatNumber(c.bic[1], 6)}; prompted by ${selection.triggeredBy.join(', ')}). ` +
+    'Use --coulomb no to report the viscous-only fit.\n\n';
 }
 
 function formatResistanceAtReference(set: ParameterSet): string {

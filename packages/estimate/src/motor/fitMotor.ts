@@ -52,7 +52,7 @@ const WOULD_INFORM: Record<MotorConstantName, string> = {
   Ke: 'a free-run step, PRBS, multisine or steady-state sweep with speed',
   J: 'a free-run step, PRBS or multisine with speed',
   b: 'a steady-state sweep or a free-run step (or a coast-down once J is known)',
-  Tc: 'a coast-down (with J known) or a steady-state sweep',
+  Tc: 'a coast-down (with J known), a steady-state sweep, or a step / PRBS / multisine with current and speed',
 };
 
 /** Which constants a recording informs (before the coast-down rule on J). */
@@ -62,8 +62,11 @@ function informs(rec: PreparedRecording): MotorConstantName[] {
     case 'locked-rotor': return ['R', 'L'];
     case 'coast-down': return ['b', 'Tc'];
     case 'steady-state': return ['R', 'Kt', 'Ke', 'J', 'b', 'Tc'];
-    case 'loaded': return ['R', 'L', 'Kt', 'Ke', 'J', 'b'];
-    default: return hasI ? ['R', 'L', 'Kt', 'Ke', 'J', 'b'] : ['Kt', 'Ke', 'J', 'b'];
+    // With current logged, a driven run informs Tc when the model has it: it acts as a load torque
+    // that, unlike b·ω, does not scale with speed (the covariance says when the speed range is too
+    // narrow to tell them apart).
+    case 'loaded': return ['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc'];
+    default: return hasI ? ['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc'] : ['Kt', 'Ke', 'J', 'b'];
   }
 }
 
