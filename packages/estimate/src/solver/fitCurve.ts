@@ -18,7 +18,7 @@ import type { FitCurveInput, FitCurveResult } from './types.js';
  * and lowered the LRE of Lanczos3 Start 1 from 10.1 to 6.4).
  *
  * ## References
- * - J. J. Moré (1978), Lecture Notes in Mathematics 630, 105–116, doi:10.1007/BFb0067700.
+ * - J. J. Moré (1978), Numerical Analysis (Dundee 1977), Springer LNM 630, 105–116, doi:10.1007/BFb0067700.
  * - M. K. Transtrum, J. P. Sethna (2012), arXiv:1201.5885 (geodesic acceleration).
  *
  * @param input - predictors `x` (one column or several), response `y`, `model`, optional

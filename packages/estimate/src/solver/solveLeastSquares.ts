@@ -48,7 +48,7 @@ import type { LeastSquaresProblem, NormalEquations, SolverOptions, SolverResult,
  * - K. Levenberg (1944), Q. Appl. Math. 2, 164–168, doi:10.1090/qam/10666.
  * - D. W. Marquardt (1963), SIAM J. Appl. Math. 11(2), 431–441, doi:10.1137/0111030.
  * - J. J. Moré (1978), "The Levenberg–Marquardt algorithm: implementation and theory",
- *   Lecture Notes in Mathematics 630, 105–116, doi:10.1007/BFb0067700.
+ *   Numerical Analysis (Dundee 1977), Springer LNM 630, 105–116, doi:10.1007/BFb0067700.
  * - H. B. Nielsen (1999), "Damping parameter in Marquardt's method", IMM-REP-1999-05, DTU.
  * - J. J. Moré, B. S. Garbow, K. E. Hillstrom (1980), "User guide for MINPACK-1", ANL-80-74
  *   (`factor`: initial step bound, recommended in [0.1, 100]).
