@@ -4,9 +4,11 @@ import { expectClose } from '@motorprint/testkit';
 import { simulateInto, zohInto } from '../index.js';
 import type { LinearOptions, LinearTrace, MotorParams } from '../index.js';
 
-// The uniform-interval path of simulateInto advances the state four samples at a time
-// (x_{k+4} = Φ⁴x_k + Σ Φ^{3−j}Γ·u_{k+j}). These tests compare it with the plain one-step
-// recursion x_{k+1} = Φx_k + Γv·v_k + Γτ·τ written out here independently, sample by sample.
+// The uniform-interval path of simulateInto advances the state two samples at a time
+// (x_{k+2} = Φ²x_k + ΦΓ·u_k + Γ·u_{k+1}), two such blocks per loop pass after (n − 1) mod 4 single
+// steps, with a separate loop when the load torque is exactly 0.
+// These tests compare both loops with the plain one-step recursion x_{k+1} = Φx_k + Γv·v_k + Γτ·τ
+// written out here independently, sample by sample.
 
 /** Reference: one step at a time, matrices per interval from zohInto, left-to-right sums. */
 function singleStep(p: MotorParams, v: Float64Array, time: number | Float64Array, o: LinearOptions): LinearTrace {
@@ -59,20 +61,23 @@ const motorArb = fc.record({
 const tauE = (p: MotorParams) => p.L / p.R;
 
 // Agreement bound, relative to the signal scale: 1e-12 (the brief's target; common practice for
-// "same map, different rounding order" comparisons, no source). Measured when written: ≤ 5.1e-15 on
-// the random property, 2.2e-14 for FACTS.md §5 over 10⁶ samples, 4.9e-13 for the slow motor over 10⁶
-// samples — where merely reordering the one-step sums already differs by 3.8e-13 (ε amplified by the
-// lightly damped mode), and the difference stops growing after ~10⁵ samples.
+// "same map, different rounding order" comparisons, no source). Measured with the 2-block kernel:
+// over 10⁶ samples 1.9e-14 (load) / 1.3e-14 (no load) for FACTS.md §5 and 5.0e-13 (load) / 1.4e-13
+// (no load) for the slow motor — where merely reordering the one-step sums already differs by
+// 3.8e-13 (ε amplified by the lightly damped mode, measured with the earlier 4-block kernel).
 const TOL = 1e-12;
 
-describe('simulateInto (uniform interval, blocked by four) agrees with the one-step recursion', () => {
-  it('on the FACTS.md §5 12 V step for every record length 1…40 (all remainders mod 4) and 1001', () => {
+describe('simulateInto (uniform interval, blocked by two) agrees with the one-step recursion', () => {
+  it('on the FACTS.md §5 12 V step for every record length 1…40 (all step counts mod 4) and 1001, with and without load', () => {
     for (const n of [...Array.from({ length: 40 }, (_, j) => j + 1), 1001]) {
       const v = new Float64Array(n).fill(12);
-      const a = run(facts, v, 1e-4, {});
-      const r = singleStep(facts, v, 1e-4, {});
-      expect(scaledDifference(a.current, r.current), `i, n = ${n}`).toBeLessThanOrEqual(TOL);
-      expect(scaledDifference(a.speed, r.speed), `ω, n = ${n}`).toBeLessThanOrEqual(TOL);
+      // {} and loadTorque 0 take the loop without load terms; 2e-3 N·m (invented) the loop with them.
+      for (const o of [{}, { loadTorque: 0, initialSpeed: 50 }, { loadTorque: 2e-3, initialCurrent: -1 }]) {
+        const a = run(facts, v, 1e-4, o);
+        const r = singleStep(facts, v, 1e-4, o);
+        expect(scaledDifference(a.current, r.current), `i, n = ${n}, ${JSON.stringify(o)}`).toBeLessThanOrEqual(TOL);
+        expect(scaledDifference(a.speed, r.speed), `ω, n = ${n}, ${JSON.stringify(o)}`).toBeLessThanOrEqual(TOL);
+      }
     }
     // FACTS.md §5 step-response table, t = 1e-3 s (sample 10) and t = 1e-2 s (sample 100), 10 digits.
     const a = run(facts, new Float64Array(1001).fill(12), 1e-4, {});
@@ -86,7 +91,7 @@ describe('simulateInto (uniform interval, blocked by four) agrees with the one-s
       fc.property(
         motorArb, logUniform(0.01, 10), fc.integer({ min: 1, max: 300 }), fc.integer({ min: 0, max: 2 ** 31 - 1 }),
         fc.double({ min: -3, max: 3, noNaN: true }), fc.double({ min: -200, max: 200, noNaN: true }),
-        fc.double({ min: -0.05, max: 0.05, noNaN: true }),
+        fc.oneof(fc.constant(0), fc.double({ min: -0.05, max: 0.05, noNaN: true })), // 0 → loop without load
         (p, hOverTauE, n, seed, i0, w0, loadTorque) => {
           const h = hOverTauE * tauE(p);
           const v = new Float64Array(n);
@@ -136,11 +141,28 @@ describe('simulateInto (uniform interval, blocked by four) agrees with the one-s
     // Invented slow motor: mechanical time constant J·R/(R·b + Kt·Ke) ≈ 0.4 s = 4000 samples, complex poles.
     const slow: MotorParams = { R: 0.5, L: 2e-3, Kt: 0.02, Ke: 0.02, J: 5e-4, b: 1e-7 };
     for (const [p, label] of [[facts, 'FACTS.md §5'], [slow, 'slow']] as const) {
-      const o = { initialSpeed: 3, loadTorque: 1e-3 };
-      const a = run(p, v, 1e-4, o);
-      const r = singleStep(p, v, 1e-4, o);
-      expect(scaledDifference(a.current, r.current), `${label} i`).toBeLessThanOrEqual(TOL);
-      expect(scaledDifference(a.speed, r.speed), `${label} ω`).toBeLessThanOrEqual(TOL);
+      for (const loadTorque of [1e-3, 0]) { // invented load; 0 runs the loop without load terms
+        const o = { initialSpeed: 3, loadTorque };
+        const a = run(p, v, 1e-4, o);
+        const r = singleStep(p, v, 1e-4, o);
+        expect(scaledDifference(a.current, r.current), `${label} i, τ = ${loadTorque}`).toBeLessThanOrEqual(TOL);
+        expect(scaledDifference(a.speed, r.speed), `${label} ω, τ = ${loadTorque}`).toBeLessThanOrEqual(TOL);
+      }
+    }
+  });
+
+  it('gives the same trace from the loops with and without load terms when the load is negligible', () => {
+    // A load of 1e-300 N·m takes the loop with load terms but changes no result digit (its terms are
+    // of order 1e-299, far below ε of the signal), so the two loops must agree to TOL with each other.
+    for (const n of [2, 3, 4, 5, 999, 1000]) {
+      const v = new Float64Array(n);
+      for (let k = 0; k < n; k++) v[k] = k % 5 < 2 ? 24 : -3; // invented drive
+      for (const p of [facts, { R: 0.5, L: 2e-3, Kt: 0.02, Ke: 0.02, J: 5e-4, b: 1e-7 }]) {
+        const a = run(p, v, 1e-4, { initialCurrent: 0.3, initialSpeed: -20 });
+        const b = run(p, v, 1e-4, { initialCurrent: 0.3, initialSpeed: -20, loadTorque: 1e-300 });
+        expect(scaledDifference(a.current, b.current), `i, n = ${n}`).toBeLessThanOrEqual(TOL);
+        expect(scaledDifference(a.speed, b.speed), `ω, n = ${n}`).toBeLessThanOrEqual(TOL);
+      }
     }
   });
 
@@ -151,6 +173,10 @@ describe('simulateInto (uniform interval, blocked by four) agrees with the one-s
     expect(Number.isNaN(a.speed[5]!)).toBe(false);
     expect(Number.isNaN(a.speed[6]!)).toBe(true); // v[5] acts on [t5, t6)
     expect(Number.isNaN(a.current[8]!)).toBe(true);
+    const l = run(facts, v, 1e-4, { loadTorque: 1e-3 }); // same through the loop with load terms
+    expect(Number.isNaN(l.speed[5]!)).toBe(false);
+    expect(Number.isNaN(l.speed[6]!)).toBe(true);
+    expect(Number.isNaN(l.current[8]!)).toBe(true);
     const b = run(facts, new Float64Array(9).fill(12), 1e3, {});
     // FACTS.md §5: ω_ss = 238.09523809523807 rad/s, i_ss = 0.047619047619047 A (Tc = 0).
     expectClose(b.speed[8]!, 238.09523809523807, { rel: 1e-12 }, 'ω_ss');
