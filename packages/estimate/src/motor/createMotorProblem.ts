@@ -53,6 +53,11 @@ export interface MotorProblem extends LeastSquaresProblem {
   constantsAt(theta: Float64Array): Constants;
   /** Residual series (model − measured, in channel units) at a full θ, one entry per recording. */
   residualsAt(theta: Float64Array): ResidualSeries[];
+  /**
+   * Sum of squares at a full θ accumulated into `acc` (no Jacobian), with the residual series
+   * stored on the way (the pass of `residualsAt` and of `evaluate` in one).
+   */
+  ssrWithResiduals(theta: Float64Array, acc: NormalEquations): { ssr: number; residuals: ResidualSeries[] };
   /** Full θ from a free one (frozen entries from the problem's full vector). */
   toFull(free: ArrayLike<number>): Float64Array;
   /** Free entries of a full θ. */
@@ -215,6 +220,10 @@ export function createMotorProblem(recs: PreparedRecording[], layout: ParameterL
     return t;
   };
   const work = Float64Array.from(full);
+  const newStore = (): ResidualSeries[] => recs.map((x) => ({
+    current: x.current === null ? null : new Float64Array(x.time.length).fill(NaN),
+    speed: x.speed === null ? null : new Float64Array(x.time.length).fill(NaN),
+  }));
   return {
     parameterCount: p,
     evaluate(theta, wantJacobian, acc) {
@@ -233,12 +242,19 @@ export function createMotorProblem(recs: PreparedRecording[], layout: ParameterL
       return t;
     },
     residualsAt(theta) {
-      const store: ResidualSeries[] = recs.map((x) => ({
-        current: x.current === null ? null : new Float64Array(x.time.length).fill(NaN),
-        speed: x.speed === null ? null : new Float64Array(x.time.length).fill(NaN),
-      }));
+      const store = newStore();
       run(theta, false, null, store);
       return store;
+    },
+    ssrWithResiduals(theta, acc) {
+      const residuals = newStore();
+      let ssr: number;
+      try {
+        ssr = run(theta, false, acc, residuals);
+      } catch {
+        ssr = NaN;
+      }
+      return { ssr, residuals };
     },
   };
 }

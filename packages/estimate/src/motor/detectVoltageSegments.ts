@@ -23,7 +23,11 @@ export function detectVoltageSegments(voltage: Float64Array, sigma: number, thre
   const n = voltage.length;
   const jump = threshold * Math.SQRT2 * Math.max(sigma, 1e-15);
   const starts: number[] = [0];
+  // Prefix sums for the binary segmentation below, in the same pass as the jump test.
+  const prefix = new Float64Array(n + 1);
+  if (n > 0) prefix[1] = voltage[0]!;
   for (let k = 1; k < n; k++) {
+    prefix[k + 1] = prefix[k]! + voltage[k]!;
     const d = Math.abs(voltage[k]! - voltage[k - 1]!);
     if (d > jump) {
       const lastStart = starts[starts.length - 1]!;
@@ -34,26 +38,21 @@ export function detectVoltageSegments(voltage: Float64Array, sigma: number, thre
   // Binary segmentation inside each segment: a level change whose jump the noise hid from the
   // sample-to-sample test still shows as a large difference of the means on either side of it.
   const split: number[] = [];
-  const prefix = new Float64Array(n + 1);
-  for (let k = 0; k < n; k++) prefix[k + 1] = prefix[k]! + voltage[k]!;
   const sd = Math.max(sigma, 1e-15);
-  const splitInto = (a: number, b: number, depth: number): void => {
+  // Explicit stack of [a, b, depth] (no recursion, no closure per call), pieces in split order.
+  const stack: number[] = [];
+  for (let i = starts.length - 1; i >= 0; i--) stack.push(starts[i]!, i + 1 < starts.length ? starts[i + 1]! : n, 0);
+  const limit = threshold * threshold * sd * sd;
+  while (stack.length > 0) {
+    const depth = stack.pop()!, b = stack.pop()!, a = stack.pop()!;
     split.push(a);
-    if (b - a < 4 || depth > 60) return;
-    let best = 0, at = -1;
-    const total = prefix[b]! - prefix[a]!;
-    for (let k = a + 2; k <= b - 2; k++) {
-      const nl = k - a, nr = b - k;
-      const left = prefix[k]! - prefix[a]!;
-      const t = Math.abs(left / nl - (total - left) / nr) / (sd * Math.sqrt(1 / nl + 1 / nr));
-      if (t > best) { best = t; at = k; }
-    }
-    if (best > threshold && at > 0) { splitInto(a, at, depth + 1); splitInto(at, b, depth + 1); }
-  };
-  for (let i = 0; i < starts.length; i++) splitInto(starts[i]!, i + 1 < starts.length ? starts[i + 1]! : n, 0);
+    if (b - a < 4 || depth > 60) continue;
+    const at = bestSplit(prefix, a, b, limit);
+    if (at > 0) stack.push(at, b, depth + 1, a, at, depth + 1);
+  }
   split.sort((x, y) => x - y);
   let segs: VoltageSegment[] = split.map((s, i) => ({ start: s, end: i + 1 < split.length ? split[i + 1]! : n, level: 0 }));
-  for (const s of segs) s.level = meanOf(voltage, s.start, s.end);
+  for (const s of segs) s.level = meanOf(prefix, s.start, s.end);
   // Pieces of one or two samples are the straddled samples of a switch: join them to the
   // neighbour with the nearer level.
   for (let i = 0; i < segs.length && segs.length > 1; i++) {
@@ -61,8 +60,8 @@ export function detectVoltageSegments(voltage: Float64Array, sigma: number, thre
     if (s.end - s.start > 2) continue;
     const prev = segs[i - 1], next = segs[i + 1];
     const toPrev = next === undefined || (prev !== undefined && Math.abs(prev.level - s.level) <= Math.abs(next.level - s.level));
-    if (toPrev) { prev!.end = s.end; prev!.level = meanOf(voltage, prev!.start, prev!.end); }
-    else { next!.start = s.start; next!.level = meanOf(voltage, next!.start, next!.end); }
+    if (toPrev) { prev!.end = s.end; prev!.level = meanOf(prefix, prev!.start, prev!.end); }
+    else { next!.start = s.start; next!.level = meanOf(prefix, next!.start, next!.end); }
     segs.splice(i, 1);
     i--;
   }
@@ -73,7 +72,7 @@ export function detectVoltageSegments(voltage: Float64Array, sigma: number, thre
       const se = Math.max(sigma, 1e-15) * Math.sqrt(1 / (prev.end - prev.start) + 1 / (s.end - s.start));
       if (Math.abs(prev.level - s.level) < threshold * se) {
         prev.end = s.end;
-        prev.level = meanOf(voltage, prev.start, prev.end);
+        prev.level = meanOf(prefix, prev.start, prev.end);
         continue;
       }
     }
@@ -83,8 +82,30 @@ export function detectVoltageSegments(voltage: Float64Array, sigma: number, thre
   return segs;
 }
 
-function meanOf(v: Float64Array, a: number, b: number): number {
-  let s = 0;
-  for (let k = a; k < b; k++) s += v[k]!;
-  return s / (b - a);
+/** Mean of v[a..b) from the prefix sums of v (one subtraction instead of a pass over the samples). */
+function meanOf(prefix: Float64Array, a: number, b: number): number {
+  return (prefix[b]! - prefix[a]!) / (b - a);
+}
+
+/**
+ * Best split of [a, b) for the binary segmentation: the k in [a + 2, b − 2] maximising the
+ * two-sample statistic t² = (mean_l − mean_r)²/(σ²·(1/n_l + 1/n_r)), or −1 when its t² is not
+ * above threshold². With N = n_l + n_r, S_l the left sum and S the total,
+ * mean_l − mean_r = (S_l·N − S·n_l)/(n_l·n_r) and 1/n_l + 1/n_r = N/(n_l·n_r), so
+ * t² = (S_l·N − S·n_l)²/(n_l·n_r·N·σ²): one division per k, no square root.
+ *
+ * @param limit - threshold²·σ² [V²]
+ */
+function bestSplit(prefix: Float64Array, a: number, b: number, limit: number): number {
+  const N = b - a;
+  const pa = prefix[a]!;
+  const total = prefix[b]! - pa;
+  let best = 0, at = -1;
+  for (let k = a + 2; k <= b - 2; k++) {
+    const nl = k - a;
+    const d = (prefix[k]! - pa) * N - total * nl;
+    const t2 = (d * d) / (nl * (N - nl));
+    if (t2 > best) { best = t2; at = k; }
+  }
+  return best > limit * N && at > 0 ? at : -1;
 }

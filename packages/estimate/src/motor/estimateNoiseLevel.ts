@@ -49,8 +49,17 @@ export function estimateNoiseLevel(values: Float64Array): NoiseLevel {
   const fn = 'estimateNoiseLevel';
   if (!(values instanceof Float64Array)) throw new TypeError(`${fn}: values must be a Float64Array`);
   const n = values.length;
+  // One pass: finite count and the smallest non-zero step (the quantum; a step next to a
+  // non-finite sample is NaN and never counts).
   let finite = 0;
-  for (let k = 0; k < n; k++) if (Number.isFinite(values[k]!)) finite++;
+  let quantum = Infinity;
+  if (n > 0 && Number.isFinite(values[0]!)) finite++;
+  for (let k = 1; k < n; k++) {
+    const x = values[k]!;
+    if (Number.isFinite(x)) finite++;
+    const step = Math.abs(x - values[k - 1]!);
+    if (step > 0 && step < quantum) quantum = step;
+  }
   if (finite < 8) throw new RangeError(`${fn}: values must hold at least 8 finite samples (got ${finite})`);
   // Long records: every stride-th second difference (at most MAX_DIFFERENCES of them, spread over
   // the whole record) is enough for the MAD; the quantum still looks at every step.
@@ -58,11 +67,6 @@ export function estimateNoiseLevel(values: Float64Array): NoiseLevel {
   const d = new Float64Array(Math.ceil(Math.max(n - 2, 0) / stride));
   let m = 0;
   let sumSq = 0;
-  let quantum = Infinity;
-  for (let k = 1; k < n; k++) {
-    const step = Math.abs(values[k]! - values[k - 1]!);
-    if (step > 0 && step < quantum) quantum = step;
-  }
   for (let k = 1; k + 1 < n; k += stride) {
     const v = values[k + 1]! - 2 * values[k]! + values[k - 1]!;
     if (Number.isFinite(v)) {

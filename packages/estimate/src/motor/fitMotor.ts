@@ -5,21 +5,25 @@ import { resetNormalEquations } from '../solver/resetNormalEquations.js';
 import { solveLeastSquares } from '../solver/solveLeastSquares.js';
 import { checkFitMotorOptions } from './checkFitMotorOptions.js';
 import { createMotorProblem } from './createMotorProblem.js';
-import type { Constants, ParameterLayout, RecordingSlots } from './createMotorProblem.js';
+import type { Constants, ParameterLayout, RecordingSlots, ResidualSeries } from './createMotorProblem.js';
 import { guessConstants } from './guessConstants.js';
 import { prepareRecording } from './prepareRecording.js';
 import { solveSymmetricSystem } from './solveSymmetricSystem.js';
 import type { PreparedRecording } from './prepareRecording.js';
-import { studentQuantile } from './studentQuantile.js';
+import tQuantile from '@stdlib/stats-base-dists-t-quantile';
 import type {
   ChannelFit, FitMotorOptions, MotorConstantName, MotorExperimentKind, MotorFit, MotorRecordingInput,
   ParameterEstimate, RecordingReport, StartAttempt, UninformedConstant,
 } from './types.js';
 
-/** Total samples above which the starts are run on windows first (common practice, no source). */
-const PREFIT_THRESHOLD = 262144;
-/** Samples per recording in that window. */
-const PREFIT_WINDOW = 65536;
+/**
+ * Total samples above which the starts are run on windows first, and the window: a quarter of
+ * each recording, at least 16384 samples (common practice, no source; chosen on the bench: from
+ * the optimum on a quarter of the record the joint polish lands in one step, at 1e5 and at 1e6
+ * samples, where a 65536-sample window at 1e6 needed a second whole-record Jacobian pass).
+ */
+const PREFIT_THRESHOLD = 65536;
+const PREFIT_MIN_WINDOW = 16384;
 /** SSR mismatch (whitened units) under which a joint Gauss–Newton step counts as landing. */
 const LANDING_SLACK = 1e-2;
 
@@ -283,12 +287,13 @@ export function fitMotor(recordings: MotorRecordingInput[], options?: FitMotorOp
     if (!separate) auto.Ke = auto.Kt;
     candidates.push({ label: 'automatic', theta: thetaFrom(auto) });
   }
-  // Long records: the starts are run on a window of each recording (WINDOW samples from the
+  // Long records: the starts are run on a window of each recording (a quarter of it, from the
   // first switch of the command); the joint Gauss–Newton polish on the whole record then starts a
   // few standard errors from its optimum and normally lands in one step. When it does not, the
   // held-coefficient solver runs on the whole record from the window's optimum.
   const total = recs.reduce((acc, r) => acc + r.time.length, 0);
-  const windowed = total > PREFIT_THRESHOLD ? recs.map((r) => windowOf(r, PREFIT_WINDOW)) : null;
+  const windowed = total > PREFIT_THRESHOLD
+    ? recs.map((r) => windowOf(r, Math.max(PREFIT_MIN_WINDOW, Math.ceil(r.time.length / 4)))) : null;
   // With input coefficients the held run only has to bring the constants close for the joint
   // polish, which lands within ≈ 0.1 SE; a relative-reduction tolerance of 1e-7 (unless the
   // caller set one) saves its last iterations.
@@ -307,6 +312,7 @@ export function fitMotor(recordings: MotorRecordingInput[], options?: FitMotorOp
     // Lower starting SSR first; the other start is tried only when the first does not converge.
     const order = starts.map((_, i) => i).sort((x, y) => ssr0[x]! - ssr0[y]!);
     let best: ReturnType<typeof solveLeastSquares> | null = null;
+    let bestAttempt: StartAttempt | null = null;
     for (const i of order) {
       const cand = starts[i]!;
       const res = solveLeastSquares(prob, prob.toFree(cand.theta), heldOptions);
@@ -317,17 +323,20 @@ export function fitMotor(recordings: MotorRecordingInput[], options?: FitMotorOp
         if (res.converged && !(res.JtJ[j * q + j]! > 0)) { res.converged = false; res.stopReason = 'stalled'; }
       }
       iterations += res.iterations; jacobianEvaluations += res.jacobianEvaluations; functionEvaluations += res.functionEvaluations;
-      attempts.push({ start: cand.label, startSsr: ssr0[i]!, ssr: res.ssr, iterations: res.iterations, converged: res.converged, stopReason: res.stopReason, chosen: false });
-      const better = best === null || (res.converged && !best.converged) || (res.converged === best.converged && res.ssr < best.ssr);
-      if (better) best = res;
+      const attempt: StartAttempt = { start: cand.label, startSsr: ssr0[i]!, ssr: res.ssr, iterations: res.iterations, converged: res.converged, stopReason: res.stopReason, chosen: false };
+      attempts.push(attempt);
+      // A non-finite SSR never wins over a finite one (NaN compares false both ways).
+      const better = best === null || (res.converged && !best.converged) ||
+        (res.converged === best.converged && (res.ssr < best.ssr || !Number.isFinite(best.ssr)));
+      if (better) { best = res; bestAttempt = attempt; }
       if (res.converged) break;
     }
     const b = best!;
     attempts.forEach((x) => { x.chosen = false; });
-    attempts[attempts.findIndex((x) => x.ssr === b.ssr && x.converged === b.converged)]!.chosen = true;
+    bestAttempt!.chosen = true;
     return { best: b, order, ssr0 };
   };
-  type Solution = { theta: Float64Array; JtJ: Float64Array; ssr: number; rows: number; converged: boolean; stopReason: StopReason };
+  type Solution = { theta: Float64Array; JtJ: Float64Array; ssr: number; rows: number; converged: boolean; stopReason: StopReason; residuals?: ResidualSeries[] | null };
   let sol: Solution | null = null;
   const polish = (from: Float64Array): ReturnType<typeof polishJointly> => {
     const polished = polishJointly(recs, layout, frozen, from);
@@ -342,7 +351,7 @@ export function fitMotor(recordings: MotorRecordingInput[], options?: FitMotorOp
     if (pre.best.converged) {
       const polished = polish(short.toFull(pre.best.theta));
       if (polished.linear) {
-        sol = { theta: polished.theta, JtJ: polished.JtJ, ssr: polished.ssr, rows: polished.rows, converged: true, stopReason: 'relative-reduction' };
+        sol = { theta: polished.theta, JtJ: polished.JtJ, ssr: polished.ssr, rows: polished.rows, converged: true, stopReason: 'relative-reduction', residuals: polished.residuals };
       } else {
         // Whole record, held coefficients, from the window's optimum.
         startsRun = runStarts(problem, [{ label: attempts.find((x) => x.chosen)!.start, theta: polished.theta }]);
@@ -369,7 +378,7 @@ export function fitMotor(recordings: MotorRecordingInput[], options?: FitMotorOp
       sol = { theta: Float64Array.from(res.theta), JtJ: res.JtJ, ssr: res.ssr, rows: res.rows, converged: res.converged, stopReason: res.stopReason };
     } else if (inputCoefficients.length > 0) {
       const polished = polish(sol.theta);
-      sol = { ...sol, theta: polished.theta, JtJ: polished.JtJ, ssr: polished.ssr, rows: polished.rows };
+      sol = { ...sol, theta: polished.theta, JtJ: polished.JtJ, ssr: polished.ssr, rows: polished.rows, residuals: polished.residuals };
       if (sol.converged && !polished.linear) { sol.converged = false; sol.stopReason = 'stalled'; }
     }
   }
@@ -388,7 +397,7 @@ export function fitMotor(recordings: MotorRecordingInput[], options?: FitMotorOp
       se = null;
     }
   }
-  const tq = studentQuantile(0.975, Math.max(dof, 1));
+  const tq = tQuantile(0.975, Math.max(dof, 1));
   const uninformed = new Set(notInformed.map((u) => u.name));
   const parameters: Record<string, ParameterEstimate> = {};
   for (const c of names) {
@@ -425,7 +434,7 @@ export function fitMotor(recordings: MotorRecordingInput[], options?: FitMotorOp
     }
     parameters['Kt/Ke'] = est;
   }
-  const residuals = problem.residualsAt(sol.theta);
+  const residuals = sol.residuals ?? problem.residualsAt(sol.theta);
   const reports = reportsFor(residuals);
   recs.forEach((r, i) => {
     const sl = layout.recordings[i]!;
@@ -458,7 +467,11 @@ export function fitMotor(recordings: MotorRecordingInput[], options?: FitMotorOp
  */
 function polishJointly(
   recs: PreparedRecording[], layout: ParameterLayout, frozen: boolean[], theta0: Float64Array,
-): { theta: Float64Array; JtJ: Float64Array; ssr: number; rows: number; linear: boolean; jacobianEvaluations: number; functionEvaluations: number } {
+): {
+  theta: Float64Array; JtJ: Float64Array; ssr: number; rows: number; linear: boolean;
+  /** Residual series at `theta` when the last step landed there, else null. */
+  residuals: ResidualSeries[] | null; jacobianEvaluations: number; functionEvaluations: number;
+} {
   let theta = Float64Array.from(theta0);
   const full = createMotorProblem(recs, layout, theta, null);
   const p = full.parameterCount;
@@ -466,6 +479,7 @@ function polishJointly(
   let ssr = full.evaluate(theta, true, acc);
   let jEvals = 1, fEvals = 0;
   let linear = false;
+  let residuals: ResidualSeries[] | null = null;
   for (let it = 0; it < 5 && Number.isFinite(ssr); it++) {
     // Solve with the columns scaled to unit norm (the nuisances and the log-constants differ by
     // orders of magnitude in JᵀJ).
@@ -477,16 +491,19 @@ function polishJointly(
     let predicted = 0;
     for (let j = 0; j < p; j++) predicted -= step[j]! * acc.Jtr[j]!;
     const trial = Float64Array.from(theta, (t, j) => t + step[j]!);
+    // The trial pass also keeps the residual series: when the step lands they are the ones of
+    // the reported point, and the caller skips a pass of its own.
     const held = createMotorProblem(recs, layout, trial, frozen);
-    const ssr2 = held.evaluate(held.toFree(trial), false, createNormalEquations(held.parameterCount));
+    const tried = held.ssrWithResiduals(trial, createNormalEquations(held.parameterCount));
+    const ssr2 = tried.ssr;
     fEvals++;
     if (!(ssr2 <= ssr)) { linear = predicted <= LANDING_SLACK; break; }
     const actual = ssr - ssr2;
     theta = trial;
-    if (Math.abs(actual - predicted) <= LANDING_SLACK + 1e-4 * predicted) { ssr = ssr2; linear = true; break; }
+    if (Math.abs(actual - predicted) <= LANDING_SLACK + 1e-4 * predicted) { ssr = ssr2; linear = true; residuals = tried.residuals; break; }
     acc = createNormalEquations(p);
     ssr = full.evaluate(theta, true, acc);
     jEvals++;
   }
-  return { theta, JtJ: Float64Array.from(acc.JtJ), ssr, rows: acc.rows, linear, jacobianEvaluations: jEvals, functionEvaluations: fEvals };
+  return { theta, JtJ: Float64Array.from(acc.JtJ), ssr, rows: acc.rows, linear, residuals, jacobianEvaluations: jEvals, functionEvaluations: fEvals };
 }

@@ -94,21 +94,36 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
   if (!(time instanceof Float64Array)) throw new TypeError(`${where}.recording.time must be a Float64Array`);
   const n = time.length;
   if (n < 16) throw new RangeError(`${where}.recording.time must hold at least 16 samples (got ${n})`);
-  for (let k = 0; k < n; k++) {
-    if (!Number.isFinite(time[k]!)) throw new RangeError(`${where}.recording.time[${k}] must be finite (got ${time[k]})`);
-    if (k > 0 && !(time[k]! > time[k - 1]!)) {
-      throw new RangeError(`${where}.recording.time must be strictly increasing (time[${k}] = ${time[k]} after ${time[k - 1]})`);
+  // One pass: finite, strictly increasing, smallest and largest interval.
+  let hmin = Infinity, hmax = 0;
+  if (!Number.isFinite(time[0]!)) throw new RangeError(`${where}.recording.time[0] must be finite (got ${time[0]})`);
+  for (let k = 1; k < n; k++) {
+    const t = time[k]!;
+    if (!Number.isFinite(t)) throw new RangeError(`${where}.recording.time[${k}] must be finite (got ${t})`);
+    const d = t - time[k - 1]!;
+    if (!(d > 0)) {
+      throw new RangeError(`${where}.recording.time must be strictly increasing (time[${k}] = ${t} after ${time[k - 1]})`);
     }
+    if (d < hmin) hmin = d;
+    if (d > hmax) hmax = d;
   }
   if (rec.channels === null || typeof rec.channels !== 'object') throw new TypeError(`${where}.recording.channels must be an object`);
+  const stats = new Map<Float64Array, { maxAbs: number; sum: number }>();
   const channel = (name: 'voltage' | 'current' | 'speed' | 'torque'): Float64Array | null => {
     const v = rec.channels[name];
     if (v === undefined) return null;
     if (!(v instanceof Float64Array)) throw new TypeError(`${where}.recording.channels.${name} must be a Float64Array`);
     if (v.length !== n) throw new TypeError(`${where}.recording.channels.${name} has ${v.length} samples, time has ${n}`);
+    // One pass: finite, largest magnitude, sum (for the noise floor and the running direction).
+    let maxAbs = 0, sum = 0;
     for (let k = 0; k < n; k++) {
-      if (!Number.isFinite(v[k]!)) throw new RangeError(`${where}.recording.channels.${name}[${k}] must be finite (got ${v[k]})`);
+      const x = v[k]!;
+      if (!Number.isFinite(x)) throw new RangeError(`${where}.recording.channels.${name}[${k}] must be finite (got ${x})`);
+      const a = x < 0 ? -x : x;
+      if (a > maxAbs) maxAbs = a;
+      sum += x;
     }
+    stats.set(v, { maxAbs, sum });
     return v;
   };
   const voltage = channel('voltage');
@@ -144,16 +159,13 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
   }
 
   // Sampling.
-  let hmin = Infinity, hmax = 0;
-  for (let k = 1; k < n; k++) { const d = time[k]! - time[k - 1]!; if (d < hmin) hmin = d; if (d > hmax) hmax = d; }
   const h = (time[n - 1]! - time[0]!) / (n - 1);
   const timeBase = hmax - hmin <= 1e-6 * h ? h : time;
 
   const noise = (v: Float64Array | null): NoiseLevel | null => {
     if (v === null) return null;
     const lvl = estimateNoiseLevel(v);
-    let maxAbs = 0;
-    for (let k = 0; k < n; k++) { const a = v[k]! < 0 ? -v[k]! : v[k]!; if (a > maxAbs) maxAbs = a; }
+    const maxAbs = stats.get(v)!.maxAbs;
     return { ...lvl, sigma: Math.max(lvl.sigma, FLOOR * Math.max(maxAbs, 1)) };
   };
   const currentNoise = kind === 'coast-down' ? null : noise(current);
@@ -193,11 +205,7 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
   if (torque !== null && kind === 'loaded') torqueStats = summarise(torque, 0, n);
   const loadTorque = torqueStats === null ? 0 : torqueStats.mean;
   let direction: 1 | -1 = 1;
-  if (speed !== null) {
-    let s = 0;
-    for (let k = 0; k < n; k++) s += speed[k]!;
-    direction = s >= 0 ? 1 : -1;
-  }
+  if (speed !== null) direction = stats.get(speed)!.sum >= 0 ? 1 : -1;
   return {
     name, kind, kindSource, kindReason, time, timeBase, h, input, handling, segments,
     current: kind === 'coast-down' ? null : current,
@@ -266,13 +274,27 @@ function buildLevels(voltage: Float64Array, segs: VoltageSegment[], sigma: numbe
   }
   const switches = new Int32Array(Math.max(segs.length - 1, 0));
   for (let j = 1; j < segs.length; j++) switches[j - 1] = segs[j]!.start;
-  const use = new Uint8Array(n).fill(1);
-  for (let j = 0; j < switches.length; j++) { const k = switches[j]!; use[k] = 0; use[k - 1] = 0; }
+  // Samples used as voltage rows: those of each segment without its first (after a switch) and
+  // last (before a switch) sample; per class in increasing sample order.
   const m = centres.length;
   const sum = new Float64Array(m), cnt = new Int32Array(m), sq = new Float64Array(m);
-  for (let k = 0; k < n; k++) if (use[k] === 1) { const q = classOf[k]!; sum[q] = sum[q]! + voltage[k]!; cnt[q] = cnt[q]! + 1; }
+  const last = segs.length - 1;
+  for (let j = 0; j <= last; j++) {
+    const sg = segs[j]!, q = segClass[j]!;
+    const a = sg.start + (j > 0 ? 1 : 0), b = sg.end - (j < last ? 1 : 0);
+    let s = sum[q]!;
+    for (let k = a; k < b; k++) s += voltage[k]!;
+    sum[q] = s;
+    if (b > a) cnt[q] = cnt[q]! + (b - a);
+  }
   const mean = Float64Array.from(sum, (x, q) => (cnt[q]! > 0 ? x / cnt[q]! : centres[q]!.level));
-  for (let k = 0; k < n; k++) if (use[k] === 1) { const q = classOf[k]!; const d = voltage[k]! - mean[q]!; sq[q] = sq[q]! + d * d; }
+  for (let j = 0; j <= last; j++) {
+    const sg = segs[j]!, q = segClass[j]!, mq = mean[q]!;
+    const a = sg.start + (j > 0 ? 1 : 0), b = sg.end - (j < last ? 1 : 0);
+    let s = sq[q]!;
+    for (let k = a; k < b; k++) { const d = voltage[k]! - mq; s += d * d; }
+    sq[q] = s;
+  }
   const classes: ChannelSummary[] = centres.map((_, q) => ({ count: cnt[q]!, mean: mean[q]!, sumSq: sq[q]!, sigma }));
   return { classOf, classes, switches };
 }

@@ -191,8 +191,8 @@ export interface MotorFit {
    * The solver runs, in the order tried: the start with the lower sum of squares goes first (the
    * caller's `options.initial` or the automatic guesses from the data alone); the other is tried
    * only when the first does not converge. `chosen` marks the run whose optimum is reported. On
-   * records of more than 262144 samples in total the runs use a 65536-sample window of each
-   * recording and the whole record is reached by the joint polish; a run on the whole record
+   * records of more than 65536 samples in total the runs use a window of each recording (a
+   * quarter of it, at least 16384 samples) and the whole record is reached by the joint polish; a run on the whole record
    * (or a joint run with all input coefficients free, after a held-coefficient run that did not
    * converge) is appended under the same start label.
    */

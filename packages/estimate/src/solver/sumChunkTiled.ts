@@ -1,6 +1,7 @@
 /** Position of JᵀJ entry (i, j), i ≤ j, in the packed upper triangle (row by row) of a p×p matrix. */
 function upper(p: number, i: number, j: number): number {
-  return i * p - (i * (i - 1)) / 2 + (j - i);
+  // `>> 1` keeps the index an integer (i·(i − 1)/2 is −0 at i = 0, which de-optimises the caller).
+  return i * p - ((i * (i - 1)) >> 1) + (j - i);
 }
 
 /**
