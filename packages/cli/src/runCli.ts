@@ -1,7 +1,7 @@
 import { CAUTIONS } from './cautions.js';
 import { SUBCOMMANDS } from './commands/index.js';
 import { paintFor } from './style.js';
-import { EXIT, type CliIo } from './types.js';
+import { EXIT, TOOL_VERSION, type CliIo } from './types.js';
 import { UsageError } from './UsageError.js';
 import { describeFailure } from './describeFailure.js';
 
@@ -41,7 +41,7 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     return name === undefined ? EXIT.usage : EXIT.ok;
   }
   if (name === '--version' || name === '-V') {
-    io.stdout('motorprint 0.1.0\n');
+    io.stdout(`motorprint ${TOOL_VERSION}\n`);
     return EXIT.ok;
   }
   const sub = SUBCOMMANDS.find((c) => c.name === name);

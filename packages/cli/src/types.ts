@@ -1,3 +1,6 @@
+/** Version printed by `--version` and written into every parameter set's provenance. */
+export const TOOL_VERSION = '0.1.0';
+
 /** Where the command line reads and writes. Injected so tests run the CLI in-process. */
 export interface CliIo {
   /** Standard output (results; JSON with --json). */

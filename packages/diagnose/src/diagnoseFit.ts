@@ -161,6 +161,7 @@ export function diagnoseFit(fit: MotorFit, recordings: MotorRecordingInput[], op
         parameters: diagnoseParameters(second, descriptions).parameters,
         comparison: { ...comparison, preferred: preferred ? 'full' : 'restricted' },
         supported: preferred ? 'viscous + Coulomb' : 'viscous only',
+        fit: second,
       };
       comparisons.push({ ...coulombRefit.comparison, recording: null });
     }

@@ -4,7 +4,7 @@
  * `Float64Array` series.
  */
 import type { ExperimentKind } from '@motorprint/model';
-import type { CovarianceSummary, FitMotorOptions } from '@motorprint/estimate';
+import type { CovarianceSummary, FitMotorOptions, MotorFit } from '@motorprint/estimate';
 
 /** Names of the measured channels a recording may carry (SI: V, A, rad/s, rad, N·m, °C). */
 export type ChannelName = 'voltage' | 'current' | 'speed' | 'position' | 'torque' | 'temperature';
@@ -264,6 +264,8 @@ export interface CoulombRefit {
   comparison: ModelComparison;
   /** Which model the data support (the comparison's `preferred`). */
   supported: 'viscous only' | 'viscous + Coulomb';
+  /** The re-fit itself, so a caller that adopts the supported model need not fit it again. */
+  fit: MotorFit;
 }
 
 /** Options of `diagnoseFit`. */
@@ -280,7 +282,7 @@ export interface DiagnoseFitOptions {
   maxLag?: number;
 }
 
-/** Everything `diagnoseFit` says about a `MotorFit`. JSON-able except the `Float64Array` autocorrelations. */
+/** Everything `diagnoseFit` says about a `MotorFit`. JSON-able except the `Float64Array` series (autocorrelations, and those inside `coulombRefit.fit`). */
 export interface FitDiagnosis {
   /** Constants (R, L, Kt, Ke, J, b, Tc, Kt/Ke as present), with value, error, interval and identifiability. */
   parameters: Record<string, ParameterDiagnosis>;

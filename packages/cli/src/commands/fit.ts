@@ -12,7 +12,7 @@ import { keyValuePairs, numberOption, parseSubcommandArgs } from '../args.js';
 import { INGEST_OPTION_HELP, INGEST_OPTIONS, ingestOptionsFrom, readInput } from '../readInputs.js';
 import { paintFor, type Paint } from '../style.js';
 import { formatNumber, formatTable } from '../table.js';
-import { EXIT, type CliIo, type Subcommand } from '../types.js';
+import { EXIT, TOOL_VERSION, type CliIo, type Subcommand } from '../types.js';
 import { UsageError } from '../UsageError.js';
 
 const KINDS: readonly MotorExperimentKind[] = ['locked-rotor', 'step', 'coast-down', 'steady-state', 'prbs', 'multisine', 'loaded'];
@@ -263,14 +263,12 @@ async function run(args: string[], io: CliIo): Promise<number> {
   let selection: ModelSelection | null = null;
   const refit = diagnosis.coulombRefit;
   if (coulombChoice === 'auto' && refit !== null && refit.converged && refit.supported === 'viscous + Coulomb') {
-    // The data support the model with Coulomb friction: report that model's constants, and say so.
-    io.stderr('the data support Coulomb friction; fitting that model…\n');
-    const withCoulomb = fitMotor(fitInputs, { ...options, coulomb: true });
-    if (withCoulomb.converged) {
-      selection = { chosen: 'viscous + Coulomb friction', over: 'viscous friction only', comparison: refit.comparison, triggeredBy: refit.triggeredBy };
-      fit = withCoulomb;
-      diagnosis = { ...diagnoseFit(fit, fitInputs, { fitOptions: { ...options, coulomb: true }, refitCoulomb: false }), coulombRefit: refit };
-    }
+    // The data support the model with Coulomb friction: report that model's constants (the
+    // diagnosis already fitted it), and say so.
+    io.stderr('the data support Coulomb friction; reporting that model…\n');
+    selection = { chosen: 'viscous + Coulomb friction', over: 'viscous friction only', comparison: refit.comparison, triggeredBy: refit.triggeredBy };
+    fit = refit.fit;
+    diagnosis = { ...diagnoseFit(fit, fitInputs, { fitOptions: { ...options, coulomb: true }, refitCoulomb: false }), coulombRefit: refit };
   }
   const validation: ValidationResult[] = [];
   for (const file of values.check ?? []) {
@@ -309,8 +307,6 @@ async function run(args: string[], io: CliIo): Promise<number> {
   }
   return EXIT.ok;
 }
-
-const TOOL_VERSION = '0.1.0';
 
 /** Every option as typed, for the provenance record. */
 function resolvedOptions(values: Record<string, unknown>, files: string[]): { [key: string]: JsonValue } {
