@@ -1,6 +1,7 @@
 /**
  * Plain data shapes of the motor estimator. Everything is JSON-able except `Float64Array` series.
  */
+import type { ExperimentKind } from '@motorprint/model';
 import type { SolverOptions, StopReason } from '../solver/types.js';
 
 /** Names of the measured channels a recording may carry (SI: V, A, rad/s, rad, N·m, °C). */
@@ -21,14 +22,7 @@ export interface RecordingData {
  * Experiment kinds the estimator understands (trade terms): locked-rotor step, free-run voltage
  * step, coast-down, steady-state sweep, PRBS, multisine, and a loaded run with a torque transducer.
  */
-export type MotorExperimentKind =
-  | 'locked-rotor'
-  | 'step'
-  | 'coast-down'
-  | 'steady-state'
-  | 'prbs'
-  | 'multisine'
-  | 'loaded';
+export type MotorExperimentKind = ExperimentKind;
 
 /** One recording handed to `fitMotor`. */
 export interface MotorRecordingInput {
