@@ -4,7 +4,7 @@
  * Pass case ids after `--` style arguments through MOTORPRINT_PRACTICE_CASES (comma-separated) to
  * run a few.
  */
-import { formatPractice, practiceCases, practiceSetDir, scoreCase, type CaseScore } from './practiceSet.ts';
+import { formatPractice, practiceCases, practiceSetDir, scoreCase, type CaseScore } from './lib/practiceSet.js';
 
 export default async function practice(): Promise<void> {
   const dir = practiceSetDir();

@@ -10,7 +10,7 @@ export type {
   MotorParams, DetailedParams, CopperConstant, TimeBase, LinearOptions, LinearTrace, ZohMatrices,
   SensitivityName, SensitivityState, SensitivityChunk, PoleKind, StepPoint, MotorFigures,
   DetailedOptions, EnergyTotals, DetailedTrace, ExperimentKind, ChannelNoise, RecordingOptions,
-  RecordingColumn, CommandedInput, RecordingTruth, GeneratedRecording,
+  RecordingColumn, CommandedInput, RecordingTruth, GeneratedRecording, HybridPlan, HybridTrace,
 } from './types.js';
 export { checkMotorParams } from './checkMotorParams.js';
 export { zohInto } from './zohInto.js';
@@ -26,6 +26,8 @@ export { lockedRotorResponse } from './lockedRotorResponse.js';
 export { coastDownResponse } from './coastDownResponse.js';
 export { copperResistance } from './copperResistance.js';
 export { simulateDetailed } from './simulateDetailed.js';
+export { simulateHybrid } from './simulateHybrid.js';
+export { simulateHybridInto } from './simulateHybridInto.js';
 export { createRandom } from './createRandom.js';
 export { prbsBits } from './prbsBits.js';
 export { generateRecording } from './generateRecording.js';

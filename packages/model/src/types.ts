@@ -359,3 +359,48 @@ export interface GeneratedRecording {
   /** The truth sidecar. */
   truth: RecordingTruth;
 }
+
+/**
+ * What `simulateHybrid` is asked to simulate: sample instants, the held drive voltage, and how
+ * the run starts and ends.
+ */
+export interface HybridPlan {
+  /** Sample instants [s], strictly increasing; the outputs are the states at these instants. */
+  time: Float64Array;
+  /**
+   * Drive voltage [V] held piecewise constant: `input[j]` holds from `inputTime[j]` until the next
+   * change. Without `inputTime`, `input[k]` holds on [time[k], time[k+1]) (one value per sample).
+   * With `Rs` in the parameters this is the supply voltage; otherwise the terminal voltage (or the
+   * command, when `Vmax` clips it).
+   */
+  input: Float64Array;
+  /** Instants [s] at which each input value starts, increasing (the input's own grid, e.g. a DAC clock). */
+  inputTime?: Float64Array;
+  /** `held`: the rotor is clamped (locked-rotor test). @default 'free' */
+  rotor?: 'free' | 'held';
+  /** Instant [s] from which the armature circuit is open (coast-down): i = 0, the terminals show Ke·ω. @default Infinity */
+  openFrom?: number;
+  /**
+   * Start state: `rest` (i = 0, ω = 0; stuck when the model has friction), `steady` (the running
+   * steady state under the first input value), or explicit values. @default 'rest'
+   */
+  initial?: 'rest' | 'steady' | { current: number; speed: number };
+  /** Winding temperature at the first sample [°C] (thermal model). @default the ambient temperature */
+  initialTemperature?: number;
+}
+
+/** Output of `simulateHybrid`, one value per sample instant. */
+export interface HybridTrace {
+  /** Armature current [A]. */
+  current: Float64Array;
+  /** Rotor speed [rad/s]. */
+  speed: Float64Array;
+  /** Rotor angle from the first sample [rad] (exact integral of the speed). */
+  position: Float64Array;
+  /** Voltage at the motor terminals [V]: the drive voltage less Rs·i, Ke·ω with the circuit open, R·i + Ke·ω at the current limit. */
+  terminalVoltage: Float64Array;
+  /** Winding temperature [°C] (the initial temperature throughout without the thermal model). */
+  temperature: Float64Array;
+  /** Number of located events (stick, breakaway, reversal, limit entries and exits). */
+  events: number;
+}

@@ -27,12 +27,14 @@ const SQRT12 = Math.sqrt(12);
  * 2¹⁵ + 2 samples use every s-th second difference, s = ⌈(n − 2)/2¹⁵⌉, spread evenly over the
  * record (O(n) reads, O(2¹⁵) selection work).
  *
- * Fallbacks, in order, when the MAD is zero (a quantised signal such as an encoder-derived speed,
- * where most second differences are exactly 0): the quantisation floor q/√12 with q the smallest
- * non-zero |x_{k+1} − x_k|, or the RMS of d/√6 when that is larger (a quantised signal still
- * carries rounding noise that the MAD cannot see); then, when no two neighbours differ but the
- * second differences are not all finite, the SD about the mean of the quietest tenth of the
- * record (a settled segment). A constant channel gives σ = 0 with method `constant`.
+ * Quantised data (ADC codes, rounding in the file) need two more rules. The values lie on a grid
+ * of step q (the smallest non-zero step, accepted when 99 % of the values sit on it and at least
+ * 8 codes are in use): the rounding alone has SD q/√12, a floor for σ. And the MAD of quantised
+ * second differences moves in whole codes, so unless it spans at least 4 codes σ comes instead
+ * from the RMS of the central 96 % of the deviations (smooth in the data; divided by 0.9346,
+ * what a Gaussian keeps after that trim). A piecewise-constant series with no noise at all
+ * inside its runs and no grid (an exact logged command) gives σ = 0 with method `exact`; a series
+ * whose neighbours never differ gives the SD of its quietest tenth, or σ = 0 with method `constant`.
  *
  * ## References
  * F. R. Hampel (1974), "The influence curve and its role in robust estimation", J. Am. Stat.
@@ -66,26 +68,73 @@ export function estimateNoiseLevel(values: Float64Array): NoiseLevel {
   const stride = n - 2 > MAX_DIFFERENCES ? Math.ceil((n - 2) / MAX_DIFFERENCES) : 1;
   const d = new Float64Array(Math.ceil(Math.max(n - 2, 0) / stride));
   let m = 0;
-  let sumSq = 0;
   for (let k = 1; k + 1 < n; k += stride) {
     const v = values[k + 1]! - 2 * values[k]! + values[k - 1]!;
     if (Number.isFinite(v)) {
       d[m++] = v;
-      sumSq += v * v;
     }
   }
   const sd2 = d.subarray(0, m);
   const med = median(sd2);
   for (let k = 0; k < m; k++) sd2[k] = Math.abs(sd2[k]! - med);
   const mad = median(sd2);
-  if (mad > 0) return { sigma: (MAD_TO_SD * mad) / SQRT6, method: 'second-difference', quantum: null };
-  const rms = Math.sqrt(sumSq / Math.max(m, 1)) / SQRT6;
-  if (Number.isFinite(quantum)) {
-    return { sigma: Math.max(quantum / SQRT12, rms), method: 'quantisation', quantum };
+  // A grid of values (ADC codes, rounding in the file): the rounding error alone has SD q/√12.
+  const q = gridStep(values, quantum);
+  const floor = q > 0 ? q / SQRT12 : 0;
+  // The MAD of quantised data moves in whole codes: trust it only when it spans several of them;
+  // otherwise take the RMS of the central 96 % of |d| (smooth in the data), corrected for the trim.
+  if (mad > 0 && (q === 0 || mad >= 4 * q)) {
+    return { sigma: Math.max((MAD_TO_SD * mad) / SQRT6, floor), method: 'second-difference', quantum: q > 0 ? q : null };
   }
+  const trimmed = trimmedRms(sd2) / SQRT6;
+  if (trimmed > 0) {
+    return { sigma: Math.max(trimmed, floor), method: trimmed >= floor ? 'second-difference' : 'quantisation', quantum: q > 0 ? q : null };
+  }
+  if (floor > 0) return { sigma: floor, method: 'quantisation', quantum: q };
+  // No noise inside the runs and no grid: a piecewise-constant series without noise (an exact
+  // command logged by the controller).
+  if (Number.isFinite(quantum)) return { sigma: 0, method: 'exact', quantum: null };
   const settled = quietestSegmentSd(values);
   if (settled > 0) return { sigma: settled, method: 'settled-segment', quantum: null };
   return { sigma: 0, method: 'constant', quantum: null };
+}
+
+/**
+ * RMS of the smallest 96 % of the absolute deviations, divided by the RMS a Gaussian keeps after
+ * the same trim (0.9346: the SD of a normal truncated at ±2.054σ, the 98th percentile, is
+ * √(1 − 2·2.054·φ(2.054)/0.96) = 0.9346σ — derived here). Steps and edges fall in the trimmed 4 %.
+ */
+function trimmedRms(absDev: Float64Array): number {
+  const m = absDev.length;
+  if (m < 8) return 0;
+  const s = Float64Array.from(absDev).sort();
+  const keep = Math.max(1, Math.floor(0.96 * m));
+  let q = 0;
+  for (let k = 0; k < keep; k++) q += s[k]! * s[k]!;
+  return Math.sqrt(q / keep) / 0.9346;
+}
+
+/**
+ * The step of the grid the values lie on, when they do: the smallest non-zero step, accepted when
+ * (x − x₀)/q is within 0.02 of a whole number for 99 % of the samples and the grid has at least 8
+ * codes in use (a two-level command is not a grid). 0 when there is no grid.
+ */
+function gridStep(values: Float64Array, quantum: number): number {
+  if (!Number.isFinite(quantum) || !(quantum > 0)) return 0;
+  const n = values.length;
+  const stride = Math.max(1, Math.floor(n / 20000));
+  const x0 = values[0]!;
+  let bad = 0, total = 0;
+  const codes = new Set<number>();
+  for (let k = 0; k < n; k += stride) {
+    const c = (values[k]! - x0) / quantum;
+    if (!Number.isFinite(c)) continue;
+    total++;
+    const r = Math.round(c);
+    if (Math.abs(c - r) > 0.02) bad++;
+    else if (codes.size < 8) codes.add(r);
+  }
+  return total > 0 && bad <= 0.01 * total && codes.size >= 8 ? quantum : 0;
 }
 
 /** Median by Hoare's selection (expected O(n)) on a copy; the input is left as it is. */

@@ -42,7 +42,7 @@ export interface NoiseLevel {
   /** Standard deviation of the white measurement noise, in the channel's unit. */
   sigma: number;
   /** Which estimator gave it. */
-  method: 'second-difference' | 'quantisation' | 'settled-segment' | 'constant';
+  method: 'second-difference' | 'quantisation' | 'settled-segment' | 'constant' | 'exact';
   /** Quantisation step seen in the data when the quantisation fallback was used, else null. */
   quantum: number | null;
 }

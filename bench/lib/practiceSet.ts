@@ -13,7 +13,7 @@ import { diagnoseFit, type FitDiagnosis } from '@motorprint/diagnose';
 
 /** Where the practice set lives, or null when it is not beside the project. */
 export function practiceSetDir(): string | null {
-  const candidates = [process.env.MOTORPRINT_PRACTICE_DIR, join(import.meta.dirname, '../../shared/reference/bench-practice')];
+  const candidates = [process.env.MOTORPRINT_PRACTICE_DIR, join(import.meta.dirname, '../../../shared/reference/bench-practice')];
   for (const c of candidates) if (c && existsSync(join(c, 'cases'))) return c;
   return null;
 }
