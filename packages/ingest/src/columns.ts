@@ -544,7 +544,12 @@ export function planColumns(head: HeadColumns, options: IngestOptions, file: str
         ...base, ...short, role: 'extra', roleSource: 'none', reason, unit, siUnit: null,
         factor: 1, offset: 0, canonicalUnit: null, unitSource: unit === null ? 'none' : unitSource, unitAssumed: false,
       });
-      if (!issues.some((i) => i.code === 'duplicate-role' && i.column === label(c))) {
+      if (header === '') {
+        issues.push({
+          code: 'unnamed-column', severity: 'info', line: headerLine, column: label(c),
+          message: `Column ${c + 1} has no header (a trailing delimiter?); its values, if any, are kept unconverted in recording.extra as "${label(c)}".`,
+        });
+      } else if (!issues.some((i) => i.code === 'duplicate-role' && i.column === label(c))) {
         const hint = unit ? rolesOfUnit(unit) : [];
         const setPoint = reason.includes('set-point');
         issues.push({
@@ -555,7 +560,7 @@ export function planColumns(head: HeadColumns, options: IngestOptions, file: str
           message:
             `Column "${label(c)}" is not a measured channel (${reason}); its values are kept unconverted in recording.extra if numeric.` +
             (hint.length && !setPoint ? ` Its unit suggests ${hint.join(' or ')}${taken.has(hint[0]!) ? ' (already given by another column)' : ''}: map ${hint[0]} to it if this is the one.` : ''),
-          ...(setPoint ? {} : { fix: [{ option: 'map' as const, entries: [[hint[0] ?? 'ROLE', label(c)]] as [string, string][] }] }),
+          ...(setPoint ? {} : { fix: [hint.length ? { option: 'map' as const, entries: [[hint[0]!, label(c)]] as [string, string][] } : { option: 'map' as const }] }),
         });
       }
       continue;
