@@ -45,13 +45,15 @@ function splitSuffix(text: string): { name: string; unit: string } | null {
     const b = tokens[n - 1]!;
     if (/^[A-Za-zµμ°]/.test(a) && /^[A-Za-z]/.test(b)) {
       const per = `${a}/${b}`;
-      if (isUnitToken(per) || isAnyUnit(per)) return { name: nameOf(2), unit: per };
       const dot = `${a}·${b}`;
+      if (lookupUnit(per).length > 0) return { name: nameOf(2), unit: per };
       if (lookupUnit(dot).length > 0) return { name: nameOf(2), unit: dot };
+      if (isUnitToken(per) || isAnyUnit(per)) return { name: nameOf(2), unit: per };
     }
   }
   const last = tokens[n - 1]!;
-  if (isUnitToken(last)) return { name: nameOf(1), unit: last };
+  // A number is a channel index (`Kanal 1`), never a unit suffix.
+  if (!/^\d/.test(last) && isUnitToken(last)) return { name: nameOf(1), unit: last };
   return null;
 }
 
