@@ -718,7 +718,7 @@ class BodyReader {
         issues.push({
           code: empty ? 'empty-column' : 'non-numeric-column',
           severity: empty ? 'info' : 'warning',
-          column: col.header,
+          column: col.header || `column ${c + 1}`,
           message: `Column "${col.header || `column ${c + 1}`}" ${empty ? 'is empty' : 'holds no numbers'}; it is not kept in recording.extra.`,
         });
         return;
