@@ -1,3 +1,5 @@
+import type { IngestFix } from './types.js';
+
 /** Codes carried by {@link IngestError}. Stable; listed in the package README. */
 export type IngestErrorCode =
   | 'empty-file'
@@ -8,7 +10,11 @@ export type IngestErrorCode =
   | 'no-time-column'
   | 'time-not-increasing'
   | 'unknown-unit'
+  | 'conflicting-units'
+  | 'duplicate-column'
+  | 'ambiguous-role'
   | 'missing-counts-per-revolution'
+  | 'missing-pwm-max'
   | 'line-too-long'
   | 'bad-option'
   | 'file-unreadable';
@@ -27,17 +33,23 @@ export class IngestError extends Error {
   readonly file: string;
   readonly line?: number;
   readonly column?: string;
+  /**
+   * The options that would settle it, with concrete values where known (e.g. the `map` entries
+   * that pick one motor). The message says the same in plain words; a command line adds its flags.
+   */
+  readonly fix?: IngestFix[];
 
   constructor(
     code: IngestErrorCode,
     file: string,
     message: string,
-    where: { line?: number; column?: string; cause?: unknown } = {},
+    where: { line?: number; column?: string; cause?: unknown; fix?: IngestFix[] } = {},
   ) {
     super(`${file}: ${message}`, where.cause !== undefined ? { cause: where.cause } : undefined);
     this.code = code;
     this.file = file;
     if (where.line !== undefined) this.line = where.line;
     if (where.column !== undefined) this.column = where.column;
+    if (where.fix !== undefined) this.fix = where.fix;
   }
 }

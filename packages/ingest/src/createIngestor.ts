@@ -11,6 +11,7 @@ import { settleDialect } from './settleDialect.js';
 import type { SettledHead } from './settleDialect.js';
 import type {
   ColumnMeta,
+  DerivedCommandVoltage,
   DerivedChannel,
   Dialect,
   DropReason,
@@ -19,6 +20,7 @@ import type {
   IngestOptions,
   IngestResult,
   Recording,
+  RecordingMeta,
   SignalRole,
 } from './types.js';
 
@@ -47,9 +49,11 @@ interface ResolvedOptions {
   file: string;
   engine: 'auto' | 'papaparse';
   maxDroppedListed: number;
-  minRows: number;
+  /** null when not given: 3 for a series, 2 for a table. */
+  minRows: number | null;
   maxLineLength: number;
   deriveSpeed: boolean;
+  driveGain: number;
 }
 
 function checkOptions(options: IngestOptions): ResolvedOptions {
@@ -64,14 +68,18 @@ function checkOptions(options: IngestOptions): ResolvedOptions {
   if (options.countsPerRevolution !== undefined && !(Number.isFinite(options.countsPerRevolution) && options.countsPerRevolution > 0)) bad(`options.countsPerRevolution must be > 0 (got ${options.countsPerRevolution})`);
   const maxDroppedListed = options.maxDroppedListed ?? 10000;
   if (!(Number.isInteger(maxDroppedListed) && maxDroppedListed >= 0)) bad(`options.maxDroppedListed must be an integer ≥ 0 (got ${maxDroppedListed})`);
-  const minRows = options.minRows ?? 3;
-  if (!(Number.isInteger(minRows) && minRows >= 3)) bad(`options.minRows must be an integer ≥ 3 (got ${minRows})`);
+  const minRows = options.minRows ?? null;
+  if (minRows !== null && !(Number.isInteger(minRows) && minRows >= 2)) bad(`options.minRows must be an integer ≥ 2 (got ${minRows})`);
+  const driveGain = options.driveGain ?? 1;
+  if (!(typeof driveGain === 'number' && Number.isFinite(driveGain) && driveGain !== 0)) bad(`options.driveGain must be a finite number other than 0 (got ${String(options.driveGain)})`);
+  if (options.supplyVoltage !== undefined && !(typeof options.supplyVoltage === 'number' && Number.isFinite(options.supplyVoltage) && options.supplyVoltage > 0)) bad(`options.supplyVoltage must be a voltage > 0 (got ${String(options.supplyVoltage)})`);
+  if (options.pwmMax !== undefined && !(typeof options.pwmMax === 'number' && Number.isFinite(options.pwmMax) && options.pwmMax > 0)) bad(`options.pwmMax must be a count > 0 (got ${String(options.pwmMax)})`);
   const maxLineLength = options.maxLineLength ?? 1 << 20;
   if (!(Number.isInteger(maxLineLength) && maxLineLength >= 64)) bad(`options.maxLineLength must be an integer ≥ 64 (got ${maxLineLength})`);
   for (const [key, value] of Object.entries(options.units ?? {})) {
     if (typeof value !== 'string') bad(`options.units[${JSON.stringify(key)}] must be a string (got ${typeof value})`);
   }
-  return { file, engine: options.engine ?? 'auto', maxDroppedListed, minRows, maxLineLength, deriveSpeed: options.deriveSpeed ?? true };
+  return { file, engine: options.engine ?? 'auto', maxDroppedListed, minRows, maxLineLength, deriveSpeed: options.deriveSpeed ?? true, driveGain };
 }
 
 /**
@@ -245,8 +253,16 @@ class BodyReader {
   private readonly roleOffset: Float64Array;
   private readonly roleMin: Float64Array;
   private readonly roleMax: Float64Array;
+  /** Slot of the time column among the role columns; −1 for a table (no time column). */
   private readonly timeSlot: number;
+  private readonly layout: 'series' | 'table';
   private readonly extraCol: Int32Array;
+  /** Spread (SD) columns: stored converted, NaN for blank or bad cells (the row is kept). */
+  private readonly spreadCol: Int32Array;
+  private readonly spreadFactor: Float64Array;
+  private spreadBuffers: Float64Array[];
+  private readonly spreadBad: Float64Array;
+  private readonly spreadFirstBad: Float64Array;
   private roleBuffers: Float64Array[];
   private extraBuffers: Float64Array[];
   private readonly extraBad: Float64Array;
@@ -285,8 +301,11 @@ class BodyReader {
   private quoted: boolean;
   private readonly quoteErrors: number[] = [];
 
+  private readonly supplyVoltage: number | undefined;
+
   constructor(head: SettledHead, options: IngestOptions, opts: ResolvedOptions, encoding: Dialect['encoding']) {
     this.file = opts.file;
+    this.supplyVoltage = options.supplyVoltage;
     this.opts = opts;
     this.dialect = head.dialect;
     this.encoding = encoding;
@@ -295,25 +314,39 @@ class BodyReader {
     this.decimal = head.dialect.decimalSeparator === ',' ? COMMA : DOT;
     this.line = head.bodyFirstLine;
     this.quoted = head.dialect.quoted;
-    const plan = planColumns(head.headers, options, opts.file, head.dialect.headerLine);
+    const plan = planColumns(
+      {
+        headers: head.headers, headerLine: head.dialect.headerLine, unitsRow: head.unitsRow, unitsLine: head.dialect.unitsLine,
+        shortNames: head.shortNames, sampleRows: head.sampleRows, decimal: this.decimal,
+      },
+      options,
+      opts.file,
+    );
     this.columns = plan.columns;
+    this.layout = plan.layout;
     this.issues = [...head.issues, ...plan.issues];
     this.nCols = this.columns.length;
 
-    const roleCols = this.columns.filter((c) => c.role !== 'extra');
+    const roleCols = this.columns.filter((c) => c.role !== 'extra' && c.role !== 'spread');
     const extraCols = this.columns.filter((c) => c.role === 'extra');
+    const spreadCols = this.columns.filter((c) => c.role === 'spread');
     this.roleCol = Int32Array.from(roleCols, (c) => c.index);
     this.roleFactor = Float64Array.from(roleCols, (c) => c.factor);
     this.roleOffset = Float64Array.from(roleCols, (c) => c.offset);
-    this.roleMin = Float64Array.from(roleCols, (c) => ROLE_LIMITS[c.role as SignalRole | 'time'].min);
-    this.roleMax = Float64Array.from(roleCols, (c) => ROLE_LIMITS[c.role as SignalRole | 'time'].max);
+    this.roleMin = Float64Array.from(roleCols, (c) => ROLE_LIMITS[c.role as SignalRole | 'time'].min * (c.role === 'commandVoltage' ? Math.abs(opts.driveGain) : 1));
+    this.roleMax = Float64Array.from(roleCols, (c) => ROLE_LIMITS[c.role as SignalRole | 'time'].max * (c.role === 'commandVoltage' ? Math.abs(opts.driveGain) : 1));
     this.extraCol = Int32Array.from(extraCols, (c) => c.index);
     this.timeSlot = roleCols.findIndex((c) => c.role === 'time');
+    this.spreadCol = Int32Array.from(spreadCols, (c) => c.index);
+    this.spreadFactor = Float64Array.from(spreadCols, (c) => c.factor);
 
     const hint = options.sizeHint;
     this.capacity = hint !== undefined && hint > 0 ? Math.ceil((hint / Math.max(head.meanLineLength, 2)) * 1.02) + 16 : 4096;
     this.roleBuffers = roleCols.map(() => new Float64Array(this.capacity));
     this.extraBuffers = extraCols.map(() => new Float64Array(this.capacity));
+    this.spreadBuffers = spreadCols.map(() => new Float64Array(this.capacity));
+    this.spreadBad = new Float64Array(spreadCols.length);
+    this.spreadFirstBad = new Float64Array(spreadCols.length);
     this.extraBad = new Float64Array(extraCols.length);
     this.extraFirstBad = new Float64Array(extraCols.length);
     this.extraText = new Uint8Array(extraCols.length);
@@ -545,8 +578,8 @@ class BodyReader {
       }
       conv[k] = s;
     }
-    const t = conv[this.timeSlot]!;
-    if (this.kept > 0 && !(t > this.lastTime)) {
+    const t = this.timeSlot >= 0 ? conv[this.timeSlot]! : this.kept;
+    if (this.timeSlot >= 0 && this.kept > 0 && !(t > this.lastTime)) {
       const timeHeader = this.columns[this.roleCol[this.timeSlot]!]!.header;
       if (t === this.lastTime) {
         this.drop(line, 'duplicate-time', timeHeader, `time ${t} s repeats line ${this.lastKeptLine}`);
@@ -572,6 +605,12 @@ class BodyReader {
       }
       this.extraBuffers[e]![n] = v;
     }
+    const nSpread = this.spreadCol.length;
+    for (let e = 0; e < nSpread; e++) {
+      const v = vals[this.spreadCol[e]!]!;
+      if (v !== v && this.spreadBad[e]!++ === 0) this.spreadFirstBad[e] = line;
+      this.spreadBuffers[e]![n] = v * this.spreadFactor[e]!;
+    }
     this.kept = n + 1;
     this.lastTime = t;
     this.lastKeptLine = line;
@@ -586,6 +625,7 @@ class BodyReader {
     };
     this.roleBuffers = this.roleBuffers.map(grow);
     this.extraBuffers = this.extraBuffers.map(grow);
+    this.spreadBuffers = this.spreadBuffers.map(grow);
     this.capacity = capacity;
   }
 
@@ -597,13 +637,14 @@ class BodyReader {
     if (this.rowsRead === 0) {
       throw new IngestError('no-data-rows', file, `the file has a header (line ${this.dialect.headerLine}) but no data rows`, { line: this.dialect.headerLine });
     }
-    if (this.kept < this.opts.minRows) {
+    const minRows = this.opts.minRows ?? (this.layout === 'table' ? 2 : 3);
+    if (this.kept < minRows) {
       const why = Object.entries(this.droppedByReason).map(([r, n]) => `${n} ${r}`).join(', ');
       const firstDrop = this.dropped[0];
       throw new IngestError(
         'too-few-rows',
         file,
-        `only ${this.kept} of ${this.rowsRead} data rows are usable (at least ${this.opts.minRows} needed)` +
+        `only ${this.kept} of ${this.rowsRead} data rows are usable (at least ${minRows} needed${this.layout === 'table' ? ' for a table of operating points' : ''})` +
           (why ? `; dropped: ${why}` : '') +
           (firstDrop ? `; first at line ${firstDrop.line}${firstDrop.column ? ` column "${firstDrop.column}"` : ''}: ${firstDrop.detail}` : ''),
         firstDrop ? { line: firstDrop.line, ...(firstDrop.column ? { column: firstDrop.column } : {}) } : {},
@@ -615,6 +656,8 @@ class BodyReader {
     this.roleBuffers = [];
     const extraBuffers = this.extraBuffers.map(trim);
     this.extraBuffers = [];
+    const spreadBuffers = this.spreadBuffers.map(trim);
+    this.spreadBuffers = [];
 
     // Issues gathered while scanning.
     if (this.droppedCount > 0) {
@@ -637,7 +680,8 @@ class BodyReader {
       issues.push({
         code: 'dropped-list-truncated',
         severity: 'info',
-        message: `${this.droppedCount} rows were dropped; the first ${this.dropped.length} are listed (options.maxDroppedListed).`,
+        message: `${this.droppedCount} rows were dropped; the first ${this.dropped.length} are listed (raise the listing limit to see more).`,
+        fix: [{ option: 'maxDroppedListed' }],
       });
     }
     if (this.blankCount) {
@@ -653,11 +697,16 @@ class BodyReader {
       issues.push({ code: 'quote-error', severity: 'warning', line: this.quoteErrors[0]!, message: `papaparse found malformed quotes at lines ${listLines(this.quoteErrors, this.quoteErrors.length)}; check those rows.` });
     }
 
-    const time = roleBuffers[this.timeSlot]!;
+    let time: Float64Array;
+    if (this.timeSlot >= 0) time = roleBuffers[this.timeSlot]!;
+    else {
+      time = new Float64Array(n);
+      for (let k = 0; k < n; k++) time[k] = k;
+    }
     const channels: Recording['channels'] = {};
     this.roleCol.forEach((c, k) => {
       const role = this.columns[c]!.role;
-      if (role !== 'time' && role !== 'extra') channels[role] = roleBuffers[k]!;
+      if (role !== 'time' && role !== 'extra' && role !== 'spread') channels[role] = roleBuffers[k]!;
     });
     const extra: Recording['extra'] = [];
     this.extraCol.forEach((c, e) => {
@@ -669,7 +718,7 @@ class BodyReader {
         issues.push({
           code: empty ? 'empty-column' : 'non-numeric-column',
           severity: empty ? 'info' : 'warning',
-          column: col.header,
+          column: col.header || `column ${c + 1}`,
           message: `Column "${col.header || `column ${c + 1}`}" ${empty ? 'is empty' : 'holds no numbers'}; it is not kept in recording.extra.`,
         });
         return;
@@ -683,18 +732,42 @@ class BodyReader {
           message: `Column "${col.header}" (kept in extra) has ${bad} blank or non-numeric cells, stored as NaN; the first is at line ${this.extraFirstBad[e]}. Rows are not dropped for cells of unrecognised columns.`,
         });
       }
-      extra.push({ name: col.header || `column ${c + 1}`, values: extraBuffers[e]! });
+      extra.push({ name: col.header || `column ${c + 1}`, values: extraBuffers[e]!, reason: col.reason ?? 'not a measured channel' });
+    });
+    const spread: Recording['spread'] = {};
+    this.spreadCol.forEach((c, e) => {
+      const col = this.columns[c]!;
+      const of = col.spreadOf!;
+      if (spread[of]) {
+        issues.push({ code: 'duplicate-role', severity: 'warning', column: col.header, message: `Column "${col.header}" is a second spread of ${of}; the first is kept and this one is left out.` });
+        col.ignored = `a second spread of ${of}`;
+        return;
+      }
+      spread[of] = spreadBuffers[e]!;
+      const bad = this.spreadBad[e]!;
+      if (bad > 0) {
+        issues.push({
+          code: 'spread-blank', severity: 'info', line: this.spreadFirstBad[e]!, column: col.header,
+          message: `Column "${col.header}" (spread of ${of}) has ${bad} blank or non-numeric cells, stored as NaN (the rows are kept); the first is at line ${this.spreadFirstBad[e]}.`,
+        });
+      }
     });
     if (Object.keys(channels).length === 0) {
-      issues.push({ code: 'no-channels', severity: 'warning', message: 'Only a time column was recognised; name the channels (e.g. "voltage [V]") or use options.map.' });
+      issues.push({ code: 'no-channels', severity: 'warning', message: 'Only a time column was recognised; name the channels (e.g. "voltage [V]") or map the roles to columns.', fix: [{ option: 'map' }] });
     }
 
-    const { timeBase, issues: timeIssues } = checkTimeBase(time);
-    issues.push(...timeIssues);
+    let timeBase: RecordingMeta['timeBase'] = null;
+    if (this.layout === 'series') {
+      const checked = checkTimeBase(time);
+      timeBase = checked.timeBase;
+      issues.push(...checked.issues);
+    }
 
     const derived: DerivedChannel[] = [];
+    const commandFromDuty = this.deriveCommand(channels, issues);
+    if (commandFromDuty) derived.push(commandFromDuty);
     const position = channels.position;
-    if (this.opts.deriveSpeed && position && !channels.speed) {
+    if (this.opts.deriveSpeed && position && !channels.speed && timeBase) {
       const positionColumn = this.columns.find((c) => c.role === 'position')!;
       const quantum = positionColumn.canonicalUnit === 'counts' ? positionColumn.factor : undefined;
       const d = deriveSpeed(time, position, timeBase.sampleInterval, quantum);
@@ -717,7 +790,9 @@ class BodyReader {
     };
     const recording: Recording = {
       time,
+      layout: this.layout,
       channels,
+      spread,
       extra,
       meta: {
         source,
@@ -725,6 +800,7 @@ class BodyReader {
         columns: this.columns,
         rowsRead: this.rowsRead,
         rowsKept: n,
+        driveGain: this.opts.driveGain,
         rowsDropped: this.dropped,
         rowsDroppedCount: this.droppedCount,
         droppedByReason: this.droppedByReason,
@@ -734,5 +810,37 @@ class BodyReader {
       },
     };
     return { recording, issues };
+  }
+
+  /**
+   * commandVoltage = duty · supply, when a duty is logged and no command column is: with the
+   * logged supply channel sample by sample, else with the supply voltage option; without either an
+   * issue says what is missing.
+   */
+  private deriveCommand(channels: Recording['channels'], issues: IngestIssue[]): DerivedCommandVoltage | null {
+    const duty = channels.duty;
+    if (!duty || channels.commandVoltage) return null;
+    const dutyColumn = this.columns.find((c) => c.role === 'duty')!;
+    const supplyChannel = channels.supplyVoltage;
+    const supplyOption = this.supplyVoltage;
+    if (!supplyChannel && supplyOption === undefined) {
+      issues.push({
+        code: 'duty-needs-supply', severity: 'warning', column: dutyColumn.header,
+        message: `Column "${dutyColumn.header}" is a PWM duty, but no supply voltage is logged or given, so it cannot be turned into a voltage; give the supply voltage of the bridge.`,
+        fix: [{ option: 'supplyVoltage' }],
+      });
+      return null;
+    }
+    const n = duty.length;
+    const command = new Float64Array(n);
+    if (supplyChannel) for (let k = 0; k < n; k++) command[k] = duty[k]! * supplyChannel[k]!;
+    else for (let k = 0; k < n; k++) command[k] = duty[k]! * supplyOption!;
+    channels.commandVoltage = command;
+    const supplyColumn = supplyChannel ? this.columns.find((c) => c.role === 'supplyVoltage')! : undefined;
+    const description = supplyColumn
+      ? `duty "${dutyColumn.header}" times the logged supply "${supplyColumn.header}", sample by sample`
+      : `duty "${dutyColumn.header}" times the given supply of ${supplyOption} V`;
+    issues.push({ code: 'derived-command', severity: 'info', column: dutyColumn.header, message: `The command voltage was computed as the ${description}.` });
+    return { role: 'commandVoltage', from: 'duty', method: 'duty-times-supply', supplySource: supplyColumn ? 'channel' : 'option', supplyVoltage: supplyColumn ? null : supplyOption!, description };
   }
 }

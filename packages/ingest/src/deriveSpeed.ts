@@ -1,4 +1,4 @@
-import type { DerivedChannel } from './types.js';
+import type { DerivedSpeed } from './types.js';
 
 /**
  * Derives speed from position by central differences on the actual time stamps.
@@ -28,7 +28,7 @@ export function deriveSpeed(
   position: Float64Array,
   sampleInterval: number,
   quantum?: number,
-): { speed: Float64Array; derived: DerivedChannel } {
+): { speed: Float64Array; derived: DerivedSpeed } {
   const n = time.length;
   const speed = new Float64Array(n);
   if (n >= 2) {
@@ -39,7 +39,7 @@ export function deriveSpeed(
     speed[k] = (position[k + 1]! - position[k - 1]!) / (time[k + 1]! - time[k - 1]!);
   }
   let step = quantum ?? 0;
-  let source: DerivedChannel['quantisationStepSource'] = quantum !== undefined ? 'counts-per-revolution' : 'none';
+  let source: DerivedSpeed['quantisationStepSource'] = quantum !== undefined ? 'counts-per-revolution' : 'none';
   if (quantum === undefined) {
     let smallest = Number.POSITIVE_INFINITY;
     for (let k = 1; k < n; k++) {

@@ -1,6 +1,4 @@
-import { guessExperimentKind } from './guessExperimentKind.js';
-import type { ExperimentGuess } from './guessExperimentKind.js';
-import type { ChannelRole, DropReason, IngestIssue, IngestResult, SignalRole } from './types.js';
+import type { ChannelRole, DropReason, IngestIssue, IngestResult, RecordingLayout, SignalRole, UnitSource } from './types.js';
 import { CHANNEL_ROLES, SI_UNITS } from './types.js';
 
 /** min / max / mean of a channel in SI (`null` when no finite value). */
@@ -13,12 +11,28 @@ export interface ChannelSummary {
   derived: boolean;
 }
 
+/** Words for where a unit came from, as `inspect` prints them after the unit (`deg/s (suffix)`). */
+export const UNIT_SOURCE_WORDS: Readonly<Record<UnitSource, string>> = {
+  'header-brackets': 'brackets',
+  'header-parens': 'parentheses',
+  'header-slash': 'slash',
+  'header-suffix': 'suffix',
+  'units-row': 'units row',
+  option: 'given',
+  name: 'from the name',
+  default: 'assumed',
+  none: '',
+};
+
 /**
  * The plain, JSON-able description printed by `motorprint inspect`. Field names and meanings are
- * stable within `schema: 'motorprint.inspect/1'`; fields may be added, never renamed.
+ * stable within `schema: 'motorprint.inspect/2'`; fields may be added, never renamed. (Version 2:
+ * `layout`, unit provenance, the voltage roles and spreads; `sampling` and `timeSpan` are null for
+ * a table; the experiment kind is no longer part of it — the command line adds it from the
+ * estimator's classifier.)
  */
 export interface RecordingDescription {
-  schema: 'motorprint.inspect/1';
+  schema: 'motorprint.inspect/2';
   file: string;
   bytes: number;
   sha256: string;
@@ -30,13 +44,25 @@ export interface RecordingDescription {
     encoding: string;
     commentLines: number;
     headerLine: number;
+    unitsLine: number | null;
+    shortNamesLine: number | null;
     quoted: boolean;
     bodyParser: string;
   };
+  /** `series` (samples in time) or `table` (one row per operating point; no sampling, no time span). */
+  layout: RecordingLayout;
+  /** Drive gain applied to a command column [V/V]. */
+  driveGain: number;
   columns: {
     header: string;
-    role: ChannelRole | 'extra';
+    /** Short name from a short-name row, when the file has one. */
+    shortName?: string;
+    role: ChannelRole | 'spread' | 'extra';
+    /** For a spread column: the channel it belongs to. */
+    spreadOf?: SignalRole;
     unit: string | null;
+    /** Where the unit came from (see {@link UnitSource}). */
+    unitSource: UnitSource;
     siUnit: string | null;
     factor: number;
     offset: number;
@@ -50,12 +76,14 @@ export interface RecordingDescription {
     droppedByReason: Partial<Record<DropReason, number>>;
     droppedRows: { line: number; reason: DropReason; column?: string; detail: string }[];
   };
-  sampling: { sampleRate: number; sampleInterval: number; jitterStd: number; jitterMax: number; gaps: number; maxInterval: number };
-  timeSpan: { start: number; end: number; duration: number };
+  sampling: { sampleRate: number; sampleInterval: number; jitterStd: number; jitterMax: number; gaps: number; maxInterval: number } | null;
+  timeSpan: { start: number; end: number; duration: number } | null;
   channels: Partial<Record<SignalRole, ChannelSummary>>;
-  extra: { name: string; min: number | null; max: number | null; mean: number | null; nonFinite: number }[];
-  derived: { role: string; from: string; method: string; quantisationStep: number; speedNoiseSigma: number }[];
-  kind: ExperimentGuess;
+  /** Summaries of the spread (SD) columns, in the channel's SI unit. */
+  spread: Partial<Record<SignalRole, ChannelSummary>>;
+  extra: { name: string; reason: string; min: number | null; max: number | null; mean: number | null; nonFinite: number }[];
+  /** Channels computed from others: `quantisationStep` and `speedNoiseSigma` for speed from position; `supplyVoltage` (null when logged) for a command from a duty. */
+  derived: { role: string; from: string; method: string; description: string; quantisationStep?: number; speedNoiseSigma?: number; supplyVoltage?: number | null }[];
   issues: IngestIssue[];
 }
 
@@ -82,8 +110,9 @@ function summarise(x: Float64Array): { min: number | null; max: number | null; m
 
 /**
  * Describes an ingest result as plain JSON-able data for people and the CLI: file, hash, dialect,
- * columns, rows, sampling, time span, per-channel min / max / mean in SI, the experiment-kind
- * guess with its reason, and the issues.
+ * columns (with where each unit came from), rows, sampling, time span (none for a table),
+ * per-channel min / max / mean in SI, and the issues. The experiment kind is not part of it: that
+ * is the estimator's to say.
  *
  * @param result - from `ingestText`, `readRecording` or `createIngestor().finish()`
  * @returns a {@link RecordingDescription}
@@ -93,17 +122,25 @@ function summarise(x: Float64Array): { min: number | null; max: number | null; m
 export function describeRecording(result: IngestResult): RecordingDescription {
   const { recording } = result;
   const meta = recording.meta;
-  const derivedRoles = new Set(meta.derived.map((d) => d.role));
+  const derivedRoles = new Set<string>(meta.derived.map((d) => d.role));
   const channels: Partial<Record<SignalRole, ChannelSummary>> = {};
+  const spread: Partial<Record<SignalRole, ChannelSummary>> = {};
   for (const role of CHANNEL_ROLES) {
     if (role === 'time') continue;
     const x = recording.channels[role];
-    if (!x) continue;
-    const s = summarise(x);
-    channels[role] = { unit: SI_UNITS[role], min: s.min, max: s.max, mean: s.mean, derived: derivedRoles.has(role as 'speed') };
+    if (x) {
+      const s = summarise(x);
+      channels[role] = { unit: SI_UNITS[role], min: s.min, max: s.max, mean: s.mean, derived: derivedRoles.has(role) };
+    }
+    const sd = recording.spread[role];
+    if (sd) {
+      const s = summarise(sd);
+      spread[role] = { unit: SI_UNITS[role], min: s.min, max: s.max, mean: s.mean, derived: false };
+    }
   }
+  const tb = meta.timeBase;
   return {
-    schema: 'motorprint.inspect/1',
+    schema: 'motorprint.inspect/2',
     file: meta.source.file,
     bytes: meta.source.bytes,
     sha256: meta.source.sha256,
@@ -115,20 +152,29 @@ export function describeRecording(result: IngestResult): RecordingDescription {
       encoding: meta.dialect.encoding,
       commentLines: meta.dialect.commentLines,
       headerLine: meta.dialect.headerLine,
+      unitsLine: meta.dialect.unitsLine,
+      shortNamesLine: meta.dialect.shortNamesLine,
       quoted: meta.dialect.quoted,
       bodyParser: meta.dialect.bodyParser,
     },
+    layout: recording.layout,
+    driveGain: meta.driveGain,
     columns: meta.columns.map((c) => {
       const out: RecordingDescription['columns'][number] = {
         header: c.header,
         role: c.role,
         unit: c.unit ?? (c.unitAssumed ? c.canonicalUnit : null),
+        unitSource: c.unitSource,
         siUnit: c.siUnit,
         factor: c.factor,
         offset: c.offset,
         assumed: c.unitAssumed,
       };
+      if (c.shortName !== undefined) out.shortName = c.shortName;
+      if (c.spreadOf !== undefined) out.spreadOf = c.spreadOf;
       if (c.unitAssumedReason) out.note = c.unitAssumedReason;
+      if (c.role === 'extra' && c.reason) out.note = c.reason;
+      if (c.role === 'commandVoltage' && meta.driveGain !== 1) out.note = `times the drive gain ${meta.driveGain}`;
       if (c.ignored) out.note = `not kept: ${c.ignored}`;
       return out;
     }),
@@ -139,19 +185,18 @@ export function describeRecording(result: IngestResult): RecordingDescription {
       droppedByReason: { ...meta.droppedByReason },
       droppedRows: meta.rowsDropped.map((r) => ({ ...r })),
     },
-    sampling: {
-      sampleRate: meta.timeBase.sampleRate,
-      sampleInterval: meta.timeBase.sampleInterval,
-      jitterStd: meta.timeBase.jitterStd,
-      jitterMax: meta.timeBase.jitterMax,
-      gaps: meta.timeBase.gaps,
-      maxInterval: meta.timeBase.maxInterval,
-    },
-    timeSpan: { start: meta.timeBase.start, end: meta.timeBase.end, duration: meta.timeBase.duration },
+    sampling: tb
+      ? { sampleRate: tb.sampleRate, sampleInterval: tb.sampleInterval, jitterStd: tb.jitterStd, jitterMax: tb.jitterMax, gaps: tb.gaps, maxInterval: tb.maxInterval }
+      : null,
+    timeSpan: tb ? { start: tb.start, end: tb.end, duration: tb.duration } : null,
     channels,
-    extra: recording.extra.map((e) => ({ name: e.name, ...summarise(e.values) })),
-    derived: meta.derived.map((d) => ({ role: d.role, from: d.from, method: d.method, quantisationStep: d.quantisationStep, speedNoiseSigma: d.speedNoiseSigma })),
-    kind: guessExperimentKind(recording),
-    issues: meta.issues.map((i) => ({ ...i })),
+    spread,
+    extra: recording.extra.map((e) => ({ name: e.name, reason: e.reason, ...summarise(e.values) })),
+    derived: meta.derived.map((d) =>
+      d.role === 'speed'
+        ? { role: d.role, from: d.from, method: d.method, description: d.description, quantisationStep: d.quantisationStep, speedNoiseSigma: d.speedNoiseSigma }
+        : { role: d.role, from: d.from, method: d.method, description: d.description, supplyVoltage: d.supplyVoltage },
+    ),
+    issues: meta.issues.map((i) => ({ ...i, ...(i.fix ? { fix: i.fix.map((f) => ({ ...f })) } : {}) })),
   };
 }

@@ -10,7 +10,11 @@ export type {
   ChannelRole,
   SignalRole,
   Recording,
+  RecordingLayout,
+  ExtraColumn,
   RecordingMeta,
+  IngestFix,
+  IngestOptionName,
   IngestIssue,
   IngestOptions,
   IngestResult,
@@ -21,6 +25,8 @@ export type {
   DropReason,
   TimeBase,
   DerivedChannel,
+  DerivedSpeed,
+  DerivedCommandVoltage,
 } from './types.js';
 export { CHANNEL_ROLES, SI_UNITS } from './types.js';
 export { IngestError } from './IngestError.js';
@@ -29,12 +35,10 @@ export { createIngestor } from './createIngestor.js';
 export type { Ingestor } from './createIngestor.js';
 export { ingestText } from './ingestText.js';
 export { readRecording } from './readRecording.js';
-export { guessExperimentKind } from './guessExperimentKind.js';
-export type { ExperimentKind, ExperimentGuess } from './guessExperimentKind.js';
-export { describeRecording } from './describeRecording.js';
+export { describeRecording, UNIT_SOURCE_WORDS } from './describeRecording.js';
 export type { RecordingDescription, ChannelSummary } from './describeRecording.js';
-export { UNIT_TABLE, EXACT_FACTORS, resolveUnit, lookupUnit, normaliseUnitText, mathjsConversion } from './units.js';
-export type { UnitDefinition, ResolvedUnit, UnitProblem } from './units.js';
+export { UNIT_TABLE, EXACT_FACTORS, resolveUnit, lookupUnit, normaliseUnitText, mathjsConversion, isUnitToken, quantityOf } from './units.js';
+export type { UnitDefinition, ResolvedUnit, UnitProblem, UnitQuantity } from './units.js';
 export { splitHeader, detectRole, ROLE_LIMITS } from './columns.js';
 export type { HeaderParts, RoleGuess } from './columns.js';
 export { checkTimeBase } from './checkTimeBase.js';

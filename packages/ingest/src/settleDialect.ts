@@ -1,6 +1,7 @@
 import Papa from 'papaparse';
 import { IngestError } from './IngestError.js';
 import { COMMA, DOT, parseCellReference } from './parseCell.js';
+import { isUnitToken } from './units.js';
 import type { Dialect, IngestIssue, IngestOptions } from './types.js';
 
 /** What the head of a file settles before the body is read. */
@@ -8,6 +9,12 @@ export interface SettledHead {
   dialect: Omit<Dialect, 'encoding' | 'bodyParser'>;
   /** Header cells as papaparse split them (untrimmed). */
   headers: string[];
+  /** Cells of a units row directly under the header, or null. */
+  unitsRow: string[] | null;
+  /** Cells of a short-name row under the units row, or null. */
+  shortNames: string[] | null;
+  /** Cells of the first body rows (up to 50). */
+  sampleRows: string[][];
   /** The line break the body is split on: `\n` (CRLF is read as `\n` plus a trimmed `\r`) or `\r`. */
   newline: '\n' | '\r';
   /** Index in the head text where the body starts (after the header's line break). */
@@ -133,19 +140,29 @@ export function settleDialect(text: string, final: boolean, options: IngestOptio
     break;
   }
   const headerLine = lineNo;
-  const bodyStart = pos;
+  let bodyStart = pos;
+  let bodyFirstLine = headerLine + 1;
+  // The two lines under the header, whole, for a units row and a short-name row.
+  const under1 = readLine(bodyStart);
+  if (!under1 && !final) return null;
+  const under2 = under1 ? readLine(under1.next) : null;
+  if (under1 && !under2 && !final && under1.next < text.length) return null;
 
   // Sample body lines for delimiter and decimal detection.
-  const sample: string[] = [];
-  let sampleChars = 0;
-  for (let p = bodyStart; sample.length < SAMPLE_LINES; ) {
-    const r = readLine(p);
-    if (!r) break;
-    p = r.next;
-    if (r.line.trim() === '' || isComment(r.line)) continue;
-    sample.push(r.line);
-    sampleChars += r.line.length + 1;
-  }
+  const takeSample = (from: number): { lines: string[]; chars: number } => {
+    const lines: string[] = [];
+    let chars = 0;
+    for (let p = from; lines.length < SAMPLE_LINES; ) {
+      const r = readLine(p);
+      if (!r) break;
+      p = r.next;
+      if (r.line.trim() === '' || isComment(r.line)) continue;
+      lines.push(r.line);
+      chars += r.line.length + 1;
+    }
+    return { lines, chars };
+  };
+  let { lines: sample, chars: sampleChars } = takeSample(bodyStart);
 
   let delimiter: Dialect['delimiter'];
   if (options.delimiter) delimiter = options.delimiter;
@@ -154,6 +171,31 @@ export function settleDialect(text: string, final: boolean, options: IngestOptio
 
   const headers = splitRow(header, delimiter);
   const issues: IngestIssue[] = [];
+
+  // A units row directly under the names row (DAQ exports), and maybe a short-name row under it.
+  let unitsRow: string[] | null = null;
+  let shortNames: string[] | null = null;
+  let unitsLine: number | null = null;
+  let shortNamesLine: number | null = null;
+  if (under1 && under1.line.trim() !== '' && !isComment(under1.line)) {
+    const cells = splitRow(under1.line, delimiter);
+    if (cells.length <= headers.length && isUnitsRow(cells)) {
+      unitsRow = cells;
+      unitsLine = headerLine + 1;
+      bodyStart = under1.next;
+      bodyFirstLine = headerLine + 2;
+      if (under2 && under2.line.trim() !== '' && !isComment(under2.line)) {
+        const names = splitRow(under2.line, delimiter);
+        if (names.length <= headers.length && isNamesRow(names)) {
+          shortNames = names;
+          shortNamesLine = headerLine + 2;
+          bodyStart = under2.next;
+          bodyFirstLine = headerLine + 3;
+        }
+      }
+      ({ lines: sample, chars: sampleChars } = takeSample(bodyStart));
+    }
+  }
   if (sepLine && sepDelimiter !== delimiter) {
     issues.push({ code: 'sep-line-ignored', severity: 'warning', message: `The "sep=${sepDelimiter}" line names a delimiter that is not used (${JSON.stringify(delimiter)} is).` });
   }
@@ -174,7 +216,8 @@ export function settleDialect(text: string, final: boolean, options: IngestOptio
       issues.push({
         code: 'mixed-decimal',
         severity: 'warning',
-        message: `The first rows mix decimal commas (${commaCells} cells) and points (${dotCells} cells); "${decimalSeparator}" is used (pass options.decimalSeparator to choose).`,
+        message: `The first rows mix decimal commas (${commaCells} cells) and points (${dotCells} cells); "${decimalSeparator}" is used (give the decimal separator to choose).`,
+        fix: [{ option: 'decimalSeparator' }],
       });
     }
   }
@@ -195,15 +238,45 @@ export function settleDialect(text: string, final: boolean, options: IngestOptio
       comments,
       sepLine,
       headerLine,
+      unitsLine,
+      shortNamesLine,
       quoted: header.includes('"'),
     },
     headers,
+    unitsRow,
+    shortNames,
+    sampleRows: sample.map((line) => splitRow(line, delimiter)),
     newline,
     bodyStart,
-    bodyFirstLine: headerLine + 1,
+    bodyFirstLine,
     meanLineLength: sample.length ? sampleChars / sample.length : header.length + 1,
     issues,
   };
+}
+
+/** A cell with surrounding brackets removed, `-` read as blank. */
+function bare(cell: string): string {
+  const t = cell.trim().replace(/^\[(.*)\]$/, '$1').replace(/^\((.*)\)$/, '$1').trim();
+  return t === '-' || t === '—' ? '' : t;
+}
+
+/**
+ * A units row: no cell is a number, and at least half of the non-blank cells (and at least one)
+ * read as bench units (`ms`, `rad/s`, `A`, `%`…).
+ */
+function isUnitsRow(cells: readonly string[]): boolean {
+  const filled = cells.map(bare).filter((c) => c !== '');
+  if (filled.length === 0) return false;
+  if (filled.some((c) => Number.isFinite(parseCellReference(c, DOT)) || Number.isFinite(parseCellReference(c, COMMA)))) return false;
+  const units = filled.filter((c) => isUnitToken(c)).length;
+  return units >= 1 && 2 * units >= filled.length;
+}
+
+/** A short-name row: every non-blank cell is text that is neither a number nor a unit. */
+function isNamesRow(cells: readonly string[]): boolean {
+  const filled = cells.map((c) => c.trim()).filter((c) => c !== '');
+  if (filled.length === 0) return false;
+  return filled.every((c) => !Number.isFinite(parseCellReference(c, DOT)) && !Number.isFinite(parseCellReference(c, COMMA)) && !isUnitToken(c));
 }
 
 function stripCr(line: string): string {

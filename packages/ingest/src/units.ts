@@ -16,12 +16,25 @@ export interface UnitDefinition {
   aliases: readonly string[];
   /** Spellings also matched without regard to case (only unambiguous words). */
   caseInsensitive?: readonly string[];
-  /** True for encoder counts: the factor needs `countsPerRevolution`. */
+  /** True for counts: the factor needs `countsPerRevolution` (encoder) or `pwmMax` (duty). */
   perCount?: boolean;
+  /** A factor fixed by definition (duty fractions and percent), used instead of mathjs. */
+  fixed?: number;
 }
 
-/** The mathjs expression of each role's SI target. */
-const SI_MATHJS: Readonly<Record<ChannelRole, string>> = {
+/**
+ * The quantity a unit is looked up for: the voltage-like roles share the voltage units.
+ * Every {@link ChannelRole} maps to one.
+ */
+export type UnitQuantity = Exclude<ChannelRole, 'supplyVoltage' | 'commandVoltage'>;
+
+/** The unit quantity of a role (`supplyVoltage` and `commandVoltage` are voltages). */
+export function quantityOf(role: ChannelRole): UnitQuantity {
+  return role === 'supplyVoltage' || role === 'commandVoltage' ? 'voltage' : role;
+}
+
+/** The mathjs expression of each quantity's SI target (duty is dimensionless and not converted by mathjs). */
+const SI_MATHJS: Readonly<Record<Exclude<UnitQuantity, 'duty'>, string>> = {
   time: 's',
   voltage: 'V',
   current: 'A',
@@ -44,8 +57,8 @@ export const EXACT_FACTORS: Readonly<Record<string, number>> = {
   'lbf·in': 0.1129848290276167,
 };
 
-/** Unit alias table, per role. Every alias is unit-tested. */
-export const UNIT_TABLE: Readonly<Record<ChannelRole, readonly UnitDefinition[]>> = {
+/** Unit alias table, per quantity. Every alias is unit-tested. */
+export const UNIT_TABLE: Readonly<Record<UnitQuantity, readonly UnitDefinition[]>> = {
   time: [
     { canonical: 's', mathjs: 's', aliases: ['s', 'sec', 'secs'], caseInsensitive: ['second', 'seconds', 'sec', 'secs'] },
     { canonical: 'ms', mathjs: 'ms', aliases: ['ms', 'msec'], caseInsensitive: ['millisecond', 'milliseconds', 'msec'] },
@@ -59,6 +72,11 @@ export const UNIT_TABLE: Readonly<Record<ChannelRole, readonly UnitDefinition[]>
     { canonical: 'mV', mathjs: 'mV', aliases: ['mV'], caseInsensitive: ['millivolt', 'millivolts'] },
     { canonical: 'uV', mathjs: 'uV', aliases: ['uV', 'µV', 'μV'] },
     { canonical: 'kV', mathjs: 'kV', aliases: ['kV'] },
+  ],
+  duty: [
+    { canonical: 'fraction', mathjs: '', fixed: 1, aliases: ['1', 'fraction', 'frac', 'p.u.', 'pu'], caseInsensitive: ['fraction', 'frac', 'p.u.', 'pu'] },
+    { canonical: '%', mathjs: '', fixed: 0.01, aliases: ['%', 'percent', 'pct'], caseInsensitive: ['percent', 'pct'] },
+    { canonical: 'PWM counts', mathjs: '', aliases: ['counts', 'count', 'cnt', 'cts', 'ticks', 'lsb'], caseInsensitive: ['counts', 'count', 'cnt', 'cts', 'ticks', 'lsb'], perCount: true },
   ],
   current: [
     { canonical: 'A', mathjs: 'A', aliases: ['A'], caseInsensitive: ['amp', 'amps', 'ampere', 'amperes'] },
@@ -114,7 +132,7 @@ export function normaliseUnitText(text: string): string {
 }
 
 interface AliasHit {
-  role: ChannelRole;
+  role: UnitQuantity;
   def: UnitDefinition;
 }
 
@@ -129,7 +147,7 @@ function index(): { exact: Map<string, AliasHit[]>; folded: Map<string, AliasHit
     if (list) list.push(hit);
     else map.set(key, [hit]);
   };
-  for (const role of Object.keys(UNIT_TABLE) as ChannelRole[]) {
+  for (const role of Object.keys(UNIT_TABLE) as UnitQuantity[]) {
     for (const def of UNIT_TABLE[role]) {
       for (const alias of def.aliases) add(exact, normaliseUnitText(alias), { role, def });
       for (const alias of def.caseInsensitive ?? []) add(folded, normaliseUnitText(alias).toLowerCase(), { role, def });
@@ -192,30 +210,36 @@ export interface ResolvedUnit {
 /** Why a unit could not be used for a role. */
 export interface UnitProblem {
   problem: 'unknown' | 'mismatch';
-  /** Roles the unit does belong to (for `mismatch`). */
-  otherRoles: ChannelRole[];
+  /** Quantities the unit does belong to (for `mismatch`). */
+  otherRoles: UnitQuantity[];
 }
 
 /**
  * Resolves a written unit for a role to a factor and offset to SI. Tries the alias table, then
  * mathjs's own parser (so `ks` or `cV` also work), and checks the dimension against the role.
  *
- * @param role - the column's role
+ * @param role - the column's role (voltage-like roles take voltage units)
  * @param text - the unit as written, e.g. `r/min`
- * @param countsPerRevolution - needed for counts; `undefined` gives `perCount: true` with factor NaN
+ * @param countsPer - counts per revolution (encoder counts) or the PWM full-scale count (duty in
+ *   counts); `undefined` gives `perCount: true` with factor NaN
  * @returns the conversion, or the reason it cannot be used
  * @example
  * resolveUnit('speed', 'r/min') // => { canonical: 'rpm', factor: 0.10471975511965977, offset: 0, perCount: false }
  */
-export function resolveUnit(role: ChannelRole, text: string, countsPerRevolution?: number): ResolvedUnit | UnitProblem {
+export function resolveUnit(role: ChannelRole, text: string, countsPer?: number): ResolvedUnit | UnitProblem {
+  const quantity = quantityOf(role);
   const hits = lookupUnit(text);
-  const hit = hits.find((h) => h.role === role);
+  const hit = hits.find((h) => h.role === quantity);
   if (hit) {
     const def = hit.def;
-    const si = SI_MATHJS[role];
+    if (def.fixed !== undefined) return { canonical: def.canonical, factor: def.fixed, offset: 0, perCount: false };
+    if (quantity === 'duty') {
+      return { canonical: def.canonical, factor: countsPer === undefined ? Number.NaN : 1 / countsPer, offset: 0, perCount: true };
+    }
+    const si = SI_MATHJS[quantity];
     if (def.perCount) {
       const perRev = mathjsConversion(def.mathjs, si).factor;
-      const factor = countsPerRevolution === undefined ? Number.NaN : perRev / countsPerRevolution;
+      const factor = countsPer === undefined ? Number.NaN : perRev / countsPer;
       return { canonical: def.canonical, factor, offset: 0, perCount: true };
     }
     const exact = EXACT_FACTORS[def.canonical];
@@ -224,25 +248,50 @@ export function resolveUnit(role: ChannelRole, text: string, countsPerRevolution
   }
   if (hits.length > 0) return { problem: 'mismatch', otherRoles: [...new Set(hits.map((h) => h.role))] };
   // Not in the table: let mathjs try (e.g. 'ks', 'cV'); check the dimension.
+  const others = mathjsQuantities(text);
+  if (others === null) return { problem: 'unknown', otherRoles: [] };
+  // A valid unit of another dimension (e.g. m for a position) is a mismatch, not an unknown unit.
+  if (quantity === 'duty' || !others.includes(quantity)) return { problem: 'mismatch', otherRoles: others };
+  const { factor, offset } = mathjsConversion(text.trim(), SI_MATHJS[quantity]);
+  return { canonical: text.trim(), factor, offset, perCount: false };
+}
+
+/** The quantities mathjs says a unit expression measures, or null when mathjs cannot read it as a unit. */
+function mathjsQuantities(text: string): UnitQuantity[] | null {
   const m = math();
   let parsed: Unit;
   try {
     parsed = m.unit(text.trim()) as Unit;
   } catch {
-    return { problem: 'unknown', otherRoles: [] };
+    return null;
   }
-  if (parsed.value !== null) return { problem: 'unknown', otherRoles: [] };
-  const others: ChannelRole[] = [];
-  for (const r of Object.keys(SI_MATHJS) as ChannelRole[]) {
+  if (parsed.value !== null) return null;
+  const others: UnitQuantity[] = [];
+  for (const r of Object.keys(SI_MATHJS) as (keyof typeof SI_MATHJS)[]) {
     if (parsed.equalBase(m.unit(SI_MATHJS[r]))) others.push(r);
   }
-  // A valid unit of another dimension (e.g. m for a position) is a mismatch, not an unknown unit.
-  if (!others.includes(role)) return { problem: 'mismatch', otherRoles: others };
-  const { factor, offset } = mathjsConversion(text.trim(), SI_MATHJS[role]);
-  return { canonical: text.trim(), factor, offset, perCount: false };
+  return others;
 }
 
-/** Roles a written unit could belong to (used to hint at a mapping for unrecognised columns). */
-export function rolesOfUnit(text: string): ChannelRole[] {
+/** Quantities a written unit could belong to (used to hint at a mapping for unrecognised columns). */
+export function rolesOfUnit(text: string): UnitQuantity[] {
   return [...new Set(lookupUnit(text).map((h) => h.role))];
+}
+
+/**
+ * True when a token reads as a unit of one of the bench quantities: an alias in the table, or
+ * (for tokens with a `/`, or at least two letters) a mathjs unit whose dimension is one of them.
+ * Used to tell a unit suffix (`_mA`, `_rad_s`) or a units row from a name.
+ *
+ * @example
+ * isUnitToken('deg/s') // => true
+ * isUnitToken('in')    // => false (a length, not a bench quantity)
+ */
+export function isUnitToken(text: string): boolean {
+  const t = text.trim();
+  if (t === '') return false;
+  if (lookupUnit(t).length > 0) return true;
+  if (!/^[A-Za-zµμ°%]/.test(t) || !(t.includes('/') || /[A-Za-zµμ]{2}/.test(t))) return false;
+  const q = mathjsQuantities(t);
+  return q !== null && q.length > 0;
 }

@@ -14,7 +14,7 @@
  * @packageDocumentation
  */
 export {
-  readRecording, ingestText, createIngestor, describeRecording, guessExperimentKind, IngestError,
+  readRecording, ingestText, createIngestor, describeRecording, IngestError,
 } from '@motorprint/ingest';
 export type {
   Recording, RecordingMeta, IngestIssue, IngestOptions, IngestResult, RecordingDescription,

@@ -9,6 +9,7 @@ import {
 import { fitMotor, type FitMotorOptions, type MotorConstantName, type MotorExperimentKind, type MotorFit } from '@motorprint/estimate';
 import type { IngestResult } from '@motorprint/ingest';
 import { keyValuePairs, numberOption, parseSubcommandArgs } from '../args.js';
+import { inputVoltage } from '../inputVoltage.js';
 import { INGEST_OPTION_HELP, INGEST_OPTIONS, ingestOptionsFrom, readInput } from '../readInputs.js';
 import { paintFor, type Paint } from '../style.js';
 import { formatNumber, formatTable } from '../table.js';
@@ -114,7 +115,7 @@ function formatEvidence(evidence: Record<string, number | string>): string {
     .join('; ');
 }
 
-function formatFit(fit: MotorFit, diagnosis: FitDiagnosis, validation: ValidationResult[], paint: Paint): string {
+function formatFit(fit: MotorFit, diagnosis: FitDiagnosis, validation: ValidationResult[], paint: Paint, voltageNotes: Map<string, string>): string {
   const out: string[] = [];
   const entries = Object.entries(diagnosis.parameters);
   const rows = entries
@@ -141,6 +142,8 @@ function formatFit(fit: MotorFit, diagnosis: FitDiagnosis, validation: Validatio
   out.push(paint.bold('Recordings'));
   for (const r of fit.recordings) {
     out.push(`  ${r.name}: ${r.kind} (${r.kindSource === 'declared' ? 'declared' : `guessed: ${r.kindReason}`}), ${r.samples} samples`);
+    const voltageNote = voltageNotes.get(r.name);
+    if (voltageNote) out.push(`    voltage: ${paint.warn(voltageNote)}`);
     out.push(`    input: ${r.input.method} — ${r.input.reason}`);
     for (const c of r.channels) {
       const stats = diagnosis.residuals.find((x) => x.recording === r.name && x.channel === c.channel)?.stats;
@@ -240,15 +243,22 @@ async function run(args: string[], io: CliIo): Promise<number> {
   const inputs: { file: string; result: IngestResult }[] = [];
   for (const file of positionals) {
     const result = await readInput(io.cwd, file, ingestOptions);
+    refuseTable(file, result);
     const meta = result.recording.meta;
     const dropped = meta.rowsDroppedCount;
     io.stderr(`read ${file}: ${result.recording.time.length} rows${dropped > 0 ? paint.warn(`, ${dropped} dropped (run "motorprint inspect ${file}" for the list)`) : ''}\n`);
     inputs.push({ file, result });
   }
   io.stderr(`fitting ${inputs.length} recording(s)…\n`);
+  const voltageNotes = new Map<string, string>();
   const fitInputs = inputs.map(({ file, result }) => {
     const kind = kinds.get(file);
-    return kind === undefined ? { recording: result.recording, name: file } : { recording: result.recording, name: file, kind };
+    const input = inputVoltage(result.recording);
+    if (input.note) {
+      voltageNotes.set(file, input.note);
+      io.stderr(`${file}: ${input.note}\n`);
+    }
+    return kind === undefined ? { recording: input.recording, name: file } : { recording: input.recording, name: file, kind };
   });
   let fit = fitMotor(fitInputs, options);
   if (!fit.converged) {
@@ -273,7 +283,8 @@ async function run(args: string[], io: CliIo): Promise<number> {
   const validation: ValidationResult[] = [];
   for (const file of values.check ?? []) {
     const held = await readInput(io.cwd, file, ingestOptions);
-    validation.push(checkOnRecording(fit, file, held));
+    refuseTable(file, held);
+    validation.push(checkOnRecording(fit, file, { ...held, recording: inputVoltage(held.recording).recording }));
   }
   const setOptions: BuildParameterSetOptions = {
     recordings: inputs.map((x) => x.result.recording),
@@ -292,8 +303,9 @@ async function run(args: string[], io: CliIo): Promise<number> {
   if (copperK !== undefined) setOptions.copperConstant = copperK;
   const set = buildParameterSet(fit, setOptions);
   const doc = fitDocument(set, diagnosis, validation, selection);
+  if (voltageNotes.size > 0) doc.voltageInputs = [...voltageNotes].map(([file, note]) => ({ file, note }));
   if (values.json) io.stdout(`${JSON.stringify(doc, null, 2)}\n`);
-  else io.stdout(`${formatSelection(selection, paint)}${formatFit(fit, diagnosis, validation, paint)}\n${formatResistanceAtReference(set)}`);
+  else io.stdout(`${formatSelection(selection, paint)}${formatFit(fit, diagnosis, validation, paint, voltageNotes)}\n${formatResistanceAtReference(set)}`);
   if (values.out !== undefined) {
     const text = outFormat === 'md' ? formatParameterSetMarkdown(set) : outFormat === 'csv' ? formatParameterSetCsv(set) : `${JSON.stringify(doc, null, 2)}\n`;
     await writeOut(io, values.out, text);
@@ -306,6 +318,18 @@ async function run(args: string[], io: CliIo): Promise<number> {
     io.stderr(`wrote the report to ${values.report}\n`);
   }
   return EXIT.ok;
+}
+
+/**
+ * A table of operating points (no time column) is read by ingest but not fitted here yet: say so
+ * plainly instead of letting the estimator refuse a time base that is only a row order.
+ */
+function refuseTable(file: string, result: IngestResult): void {
+  if (result.recording.layout !== 'table') return;
+  throw Object.assign(
+    new Error(`${file} is a table of operating points (one row per point, no time column); fit does not take such tables yet. "motorprint inspect ${file}" shows what was read.`),
+    { code: 'table-not-fitted' },
+  );
 }
 
 /** Every option as typed, for the provenance record. */

@@ -1,18 +1,23 @@
-import { describeRecording, IngestError, type RecordingDescription } from '@motorprint/ingest';
+import { classifyRecording } from '@motorprint/estimate';
+import { describeRecording, IngestError, UNIT_SOURCE_WORDS, type Recording, type RecordingDescription } from '@motorprint/ingest';
 import { parseSubcommandArgs } from '../args.js';
-import { INGEST_OPTION_HELP, INGEST_OPTIONS, ingestOptionsFrom, readInput } from '../readInputs.js';
-import { describeFailure } from '../describeFailure.js';
+import { cliRole, INGEST_OPTION_HELP, INGEST_OPTIONS, ingestOptionsFrom, readInput } from '../readInputs.js';
+import { describeFailure, withFlags } from '../describeFailure.js';
+import { inputVoltage } from '../inputVoltage.js';
 import { paintFor, type Paint } from '../style.js';
 import { formatNumber, formatTable } from '../table.js';
 import { EXIT, type CliIo, type Subcommand } from '../types.js';
 import { UsageError } from '../UsageError.js';
 
 const HELP = `motorprint inspect FILE... [--json] [--map ROLE=COLUMN] [--unit COLUMN=UNIT] [--counts-per-rev N]
+                   [--drive-gain K] [--supply-voltage V] [--pwm-max N]
 
 Shows what motorprint understood of each bench recording before anything is fitted: the CSV
-dialect, each column's role and unit (and the SI unit it was converted to), rows read and rows
-dropped with their line numbers and reasons, the sample rate and its jitter, the time span, a
-min / max / mean of every channel in SI, and a guess of the experiment kind with its reason.
+dialect, each column's role and unit and where the unit was read (brackets, suffix, units row,
+given, assumed…), rows read and rows dropped with their line numbers and reasons, the sample rate
+and its jitter and the time span (or, for a table of operating points without time, the number of
+points), a min / max / mean of every channel in SI, and the experiment kind the estimator's
+classifier sees, with its reason (unknown when it cannot tell).
 
 Options:
 ${INGEST_OPTION_HELP}
@@ -21,6 +26,26 @@ ${INGEST_OPTION_HELP}
 Exit codes: 0 every file read, 1 a file could not be read (the message names file, line and
 column), 2 command-line mistake.`;
 
+/** What inspect shows for one file: the ingest description plus the experiment kind. */
+export type InspectedFile = RecordingDescription & { kind: { kind: string; reason: string } };
+
+/**
+ * The experiment kind inspect shows: `steady-state-table` for a table of operating points;
+ * otherwise the estimator's classifier on the recording's input voltage (terminal, else command,
+ * else supply), and `unknown` with the reason when it cannot tell.
+ */
+export function experimentKindOf(recording: Recording): { kind: string; reason: string } {
+  if (recording.layout === 'table') return { kind: 'steady-state-table', reason: 'a table of operating points (one row per point, no time column)' };
+  const input = inputVoltage(recording);
+  if (input.source === 'none') return { kind: 'unknown', reason: 'no voltage channel (terminal, command or supply) to tell the kind from' };
+  try {
+    const g = classifyRecording(input.recording);
+    return { kind: g.kind, reason: input.source === 'terminal' ? g.reason : `${g.reason} (from the ${input.source} voltage: no terminal voltage logged)` };
+  } catch (err) {
+    return { kind: 'unknown', reason: `the kind could not be told (${(err as Error).message.replace(/^\w+: /, '')})` };
+  }
+}
+
 interface FileFailure {
   file: string;
   error: { code: string; message: string; line?: number; column?: string };
@@ -28,7 +53,7 @@ interface FileFailure {
 
 function failureOf(file: string, err: unknown): FileFailure {
   if (err instanceof IngestError) {
-    const e: FileFailure['error'] = { code: err.code, message: err.message };
+    const e: FileFailure['error'] = { code: err.code, message: `${err.message}${withFlags(err.fix)}` };
     if (err.line !== undefined) e.line = err.line;
     if (err.column !== undefined) e.column = err.column;
     return { file, error: e };
@@ -50,8 +75,19 @@ function percent(x: number): string {
   return `${formatNumber(x * 100, 2)} %`;
 }
 
+function unitRead(c: RecordingDescription['columns'][number]): string {
+  if (c.unit === null) return '—';
+  const words = UNIT_SOURCE_WORDS[c.unitSource];
+  return words ? `${c.unit} (${words})` : c.unit;
+}
+
+function roleText(c: RecordingDescription['columns'][number]): string {
+  if (c.role === 'spread') return `sd of ${cliRole(c.spreadOf ?? '?')}`;
+  return cliRole(c.role);
+}
+
 /** Human-readable block for one file. */
-export function formatDescription(d: RecordingDescription, paint: Paint): string {
+export function formatDescription(d: InspectedFile, paint: Paint): string {
   const out: string[] = [];
   out.push(paint.bold(d.file));
   out.push(`  sha256 ${d.sha256}, ${d.bytes} bytes`);
@@ -59,9 +95,11 @@ export function formatDescription(d: RecordingDescription, paint: Paint): string
   out.push(
     `  dialect: ${delim}-separated, decimal ${d.dialect.decimalSeparator === ',' ? 'comma' : 'point'}, ` +
       `${d.dialect.lineEnding} line ends${d.dialect.bom ? ', UTF-8 BOM' : ''}${d.dialect.quoted ? ', quoted fields' : ''}, ` +
-      `${d.dialect.commentLines} comment line(s), header on line ${d.dialect.headerLine}`,
+      `${d.dialect.commentLines} comment line(s), header on line ${d.dialect.headerLine}` +
+      `${d.dialect.unitsLine !== null ? `, units row on line ${d.dialect.unitsLine}` : ''}` +
+      `${d.dialect.shortNamesLine !== null ? `, short names on line ${d.dialect.shortNamesLine}` : ''}`,
   );
-  out.push(`  experiment kind (guess): ${paint.bold(d.kind.kind)} — ${d.kind.reason}`);
+  out.push(`  experiment kind: ${paint.bold(d.kind.kind)} — ${d.kind.reason}`);
   out.push(
     `  rows: ${d.rows.read} read, ${d.rows.kept} kept, ` +
       `${d.rows.dropped > 0 ? paint.warn(`${d.rows.dropped} dropped`) : '0 dropped'}`,
@@ -73,32 +111,39 @@ export function formatDescription(d: RecordingDescription, paint: Paint): string
     out.push(`    … and ${d.rows.dropped - d.rows.droppedRows.length} more dropped rows (counted, not listed)`);
   }
   const s = d.sampling;
-  out.push(
-    `  sampling: ${formatNumber(s.sampleRate)} Hz (interval ${formatSeconds(s.sampleInterval)}), ` +
-      `jitter σ ${percent(s.jitterStd)}, max ${percent(s.jitterMax)} of the interval` +
-      `${s.gaps > 0 ? paint.warn(`, ${s.gaps} gap(s), longest ${formatSeconds(s.maxInterval)}`) : ''}`,
-  );
-  out.push(`  time span: ${formatNumber(d.timeSpan.start)} s to ${formatNumber(d.timeSpan.end)} s (${formatSeconds(d.timeSpan.duration)})`);
+  const span = d.timeSpan;
+  if (s === null || span === null) {
+    out.push(`  layout: table of ${d.rows.kept} operating points (one row per point, no time column; row order as written)`);
+  } else {
+    out.push(
+      `  sampling: ${formatNumber(s.sampleRate)} Hz (interval ${formatSeconds(s.sampleInterval)}), ` +
+        `jitter σ ${percent(s.jitterStd)}, max ${percent(s.jitterMax)} of the interval` +
+        `${s.gaps > 0 ? paint.warn(`, ${s.gaps} gap(s), longest ${formatSeconds(s.maxInterval)}`) : ''}`,
+    );
+    out.push(`  time span: ${formatNumber(span.start)} s to ${formatNumber(span.end)} s (${formatSeconds(span.duration)})`);
+  }
+  const fmt = (v: number | null | undefined) => (v === null || v === undefined ? '—' : formatNumber(v));
   const rows: string[][] = d.columns.map((c) => {
-    const summary = c.role !== 'extra' && c.role !== 'time' ? d.channels[c.role] : undefined;
+    const summary =
+      c.role === 'spread' ? (c.spreadOf ? d.spread[c.spreadOf] : undefined) : c.role !== 'extra' && c.role !== 'time' ? d.channels[c.role] : undefined;
     const extra = c.role === 'extra' ? d.extra.find((e) => e.name === c.header) : undefined;
     const stats = summary ?? extra;
-    const fmt = (v: number | null | undefined) => (v === null || v === undefined ? '—' : formatNumber(v));
+    const isTime = c.role === 'time' && span !== null;
     return [
       c.header,
-      c.role,
-      `${c.unit ?? '—'}${c.assumed ? ' (assumed)' : ''}`,
+      roleText(c),
+      unitRead(c),
       c.siUnit ?? '—',
-      c.role === 'time' ? formatNumber(d.timeSpan.start) : fmt(stats?.min),
-      c.role === 'time' ? formatNumber(d.timeSpan.end) : fmt(stats?.max),
-      c.role === 'time' ? '' : fmt(stats?.mean),
+      isTime ? formatNumber(span.start) : fmt(stats?.min),
+      isTime ? formatNumber(span.end) : fmt(stats?.max),
+      isTime ? '' : fmt(stats?.mean),
     ];
   });
   for (const derived of d.derived) {
     const summary = d.channels[derived.role as keyof typeof d.channels];
     rows.push([
-      `(${derived.role} from ${derived.from})`, derived.role, 'derived', summary?.unit ?? '—',
-      formatNumber(summary?.min ?? Number.NaN), formatNumber(summary?.max ?? Number.NaN), formatNumber(summary?.mean ?? Number.NaN),
+      `(${cliRole(derived.role)} from ${derived.from})`, cliRole(derived.role), 'derived', summary?.unit ?? '—',
+      fmt(summary?.min), fmt(summary?.max), fmt(summary?.mean),
     ]);
   }
   out.push(
@@ -108,10 +153,14 @@ export function formatDescription(d: RecordingDescription, paint: Paint): string
       .join('\n'),
   );
   for (const derived of d.derived) {
-    out.push(
-      `  ${derived.role} derived from ${derived.from}: ${derived.method}; quantisation step ${formatNumber(derived.quantisationStep)}, ` +
-        `implied speed noise σ ≈ ${formatNumber(derived.speedNoiseSigma)} rad/s`,
-    );
+    if (derived.quantisationStep !== undefined && derived.speedNoiseSigma !== undefined) {
+      out.push(
+        `  ${derived.role} derived from ${derived.from}: ${derived.method}; quantisation step ${formatNumber(derived.quantisationStep)}, ` +
+          `implied speed noise σ ≈ ${formatNumber(derived.speedNoiseSigma)} rad/s`,
+      );
+    } else {
+      out.push(`  ${cliRole(derived.role)} derived from ${derived.from}: ${derived.description}`);
+    }
   }
   if (d.issues.length > 0) {
     out.push('  notes:');
@@ -120,7 +169,7 @@ export function formatDescription(d: RecordingDescription, paint: Paint): string
         .filter(Boolean)
         .join(', ');
       const tag = issue.severity === 'warning' ? paint.warn('warning') : paint.dim('info');
-      out.push(`    ${tag} ${issue.code}${where ? ` (${where})` : ''}: ${issue.message}`);
+      out.push(`    ${tag} ${issue.code}${where ? ` (${where})` : ''}: ${issue.message}${withFlags(issue.fix)}`);
     }
   }
   return out.join('\n');
@@ -134,12 +183,12 @@ async function run(args: string[], io: CliIo): Promise<number> {
   if (positionals.length === 0) throw new UsageError('give at least one CSV file to inspect', 'inspect');
   const options = ingestOptionsFrom('inspect', values);
   const paint = paintFor(io);
-  const results: (RecordingDescription | FileFailure)[] = [];
+  const results: (InspectedFile | FileFailure)[] = [];
   let failed = 0;
   for (const file of positionals) {
     try {
       const result = await readInput(io.cwd, file, options);
-      results.push(describeRecording(result));
+      results.push({ ...describeRecording(result), kind: experimentKindOf(result.recording) });
     } catch (err) {
       failed++;
       results.push(failureOf(file, err));
@@ -148,7 +197,7 @@ async function run(args: string[], io: CliIo): Promise<number> {
   if (values.json) {
     io.stdout(`${JSON.stringify({ schema: 'motorprint.inspect-list/1', files: results }, null, 2)}\n`);
   } else {
-    const blocks = results.filter((r): r is RecordingDescription => !('error' in r)).map((d) => formatDescription(d, paint));
+    const blocks = results.filter((r): r is InspectedFile => !('error' in r)).map((d) => formatDescription(d, paint));
     if (blocks.length > 0) io.stdout(`${blocks.join('\n\n')}\n`);
   }
   for (const r of results) {

@@ -31,7 +31,7 @@ describe('column roles come from header names', () => {
     ['position', 'position'], ['pos', 'position'], ['enc', 'position'], ['encoder', 'position'], ['θ', 'position'], ['angle', 'position'],
     ['torque', 'torque'], ['τ', 'torque'], ['load torque', 'torque'],
     ['temp', 'temperature'], ['Temperature', 'temperature'], ['winding temp', 'temperature'],
-    ['speed_ref', null], ['speed setpoint', null], ['I_cmd', null], ['reference position', null], ['pwm duty', null],
+    ['speed_ref', null], ['speed setpoint', null], ['I_cmd', null], ['reference position', null], ['w_est', null], ['speed error', null],
     ['T', null], ['notes', null], ['', null], ['voltage current', null],
   ])('%j → %s', (name, role) => {
     expect(detectRole(name).role).toBe(role);
@@ -42,13 +42,13 @@ describe('column roles come from header names', () => {
     const r = ingestText(csv, { countsPerRevolution: 4096 });
     const cols = r.recording.meta.columns.map((c) => [c.header, c.role, c.canonicalUnit, c.unitSource]);
     expect(cols).toEqual([
-      ['time [ms]', 'time', 'ms', 'header'],
-      ['Voltage (mV)', 'voltage', 'mV', 'header'],
-      ['I [A]', 'current', 'A', 'header'],
-      ['speed [rpm]', 'speed', 'rpm', 'header'],
-      ['position [counts]', 'position', 'counts', 'header'],
-      ['torque [oz-in]', 'torque', 'ozf·in', 'header'],
-      ['temp [°C]', 'temperature', '°C', 'header'],
+      ['time [ms]', 'time', 'ms', 'header-brackets'],
+      ['Voltage (mV)', 'voltage', 'mV', 'header-parens'],
+      ['I [A]', 'current', 'A', 'header-brackets'],
+      ['speed [rpm]', 'speed', 'rpm', 'header-brackets'],
+      ['position [counts]', 'position', 'counts', 'header-brackets'],
+      ['torque [oz-in]', 'torque', 'ozf·in', 'header-brackets'],
+      ['temp [°C]', 'temperature', '°C', 'header-brackets'],
     ]);
     expect(r.recording.channels.voltage![2]).toBe(2);
     expect(r.recording.channels.speed![1]).toBe(2 * Math.PI);
@@ -88,7 +88,7 @@ describe('column roles come from header names', () => {
   });
 
   it('rejects a map entry that names no column, listing the header', () => {
-    expect(() => ingestText('time,v\n0,0\n1,1\n2,2\n', { map: { current: 'Ia' } })).toThrowError(/options.map.current names "Ia", but the header has "time", "v"/);
+    expect(() => ingestText('time,v\n0,0\n1,1\n2,2\n', { map: { current: 'Ia' } })).toThrowError(/the map gives current the column "Ia", but the header \(line 1\) has "time", "v"/);
   });
 
   it('takes a unit per column from options.units (by header, name or role) and says when it overrides the header', () => {
@@ -111,15 +111,16 @@ describe('column roles come from header names', () => {
   });
 
   it('keeps unrecognised numeric columns in extra and reports each one', () => {
-    const r = ingestText('time [s],voltage [V],pwm duty,ch7 [V]\n0,0,0.1,5\n1,1,0.2,5\n2,2,0.3,5\n');
-    expect(r.recording.extra.map((e) => [e.name, Array.from(e.values)])).toEqual([
-      ['pwm duty', [0.1, 0.2, 0.3]],
-      ['ch7 [V]', [5, 5, 5]],
+    const r = ingestText('time [s],voltage [V],speed setpoint [rpm],ch7 [V]\n0,0,0.1,5\n1,1,0.2,5\n2,2,0.3,5\n');
+    expect(r.recording.extra.map((e) => [e.name, Array.from(e.values), e.reason])).toEqual([
+      ['speed setpoint [rpm]', [0.1, 0.2, 0.3], 'the name marks a speed set-point (command), not a measurement'],
+      ['ch7 [V]', [5, 5, 5], 'the name matches no known quantity'],
     ]);
+    expect(r.issues.find((i) => i.code === 'set-point-column')).toMatchObject({ column: 'speed setpoint [rpm]', severity: 'info' });
     const issues = r.issues.filter((i) => i.code === 'unrecognised-column');
-    expect(issues.map((i) => i.column)).toEqual(['pwm duty', 'ch7 [V]']);
-    expect(issues[0]!.message).toContain('command or reference');
-    expect(issues[1]!.message).toContain('unit suggests');
+    expect(issues.map((i) => i.column)).toEqual(['ch7 [V]']);
+    expect(issues[0]!.message).toContain('unit suggests voltage');
+    expect(issues[0]!.fix).toEqual([{ option: 'map', entries: [['voltage', 'ch7 [V]']] }]);
   });
 
   it('treats __proto__, constructor and toString as ordinary header names', () => {
@@ -135,8 +136,7 @@ describe('column roles come from header names', () => {
     expect(Array.from(u.recording.channels.voltage!)).toEqual([0.001, 0.002, 0.003]);
   });
 
-  it('keeps duplicate header names apart', () => {
-    const r = ingestText('time [s],x,x\n0,1,2\n1,1,2\n2,1,2\n');
-    expect(r.recording.extra.map((e) => [e.name, e.values[0]])).toEqual([['x', 1], ['x', 2]]);
+  it('refuses two columns with the same name, naming both and their positions', () => {
+    expect(() => ingestText('time [s],x,x\n0,1,2\n1,1,2\n2,1,2\n')).toThrowError(/columns 2 \("x"\) and 3 \("x"\) of the header on line 1 have the same name/);
   });
 });

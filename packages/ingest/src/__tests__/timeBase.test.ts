@@ -1,6 +1,7 @@
 import { expectClose } from '@motorprint/testkit';
 import { describe, expect, it } from 'vitest';
 import { checkTimeBase, createIngestor, deriveSpeed, ingestText } from '../index.js';
+import type { DerivedSpeed } from '../index.js';
 
 // All recordings in this file are invented for the tests.
 
@@ -85,8 +86,8 @@ describe('speed is derived from position when only position is logged', () => {
     expectClose(r.recording.channels.speed![25]!, 8 * Math.PI, { rel: 1e-12 }, 'speed');
     expect(r.recording.meta.derived).toHaveLength(1);
     expect(r.recording.meta.derived[0]).toMatchObject({ role: 'speed', from: 'position', quantisationStepSource: 'counts-per-revolution' });
-    expectClose(r.recording.meta.derived[0]!.quantisationStep, (2 * Math.PI) / 2000, { rel: 1e-15 }, 'Δθ');
-    expectClose(r.recording.meta.derived[0]!.speedNoiseSigma, (2 * Math.PI) / 2000 / (2 * Math.sqrt(6) * 1e-3), { rel: 1e-9 }, 'σ_ω');
+    expectClose((r.recording.meta.derived[0] as DerivedSpeed).quantisationStep, (2 * Math.PI) / 2000, { rel: 1e-15 }, 'Δθ');
+    expectClose((r.recording.meta.derived[0] as DerivedSpeed).speedNoiseSigma, (2 * Math.PI) / 2000 / (2 * Math.sqrt(6) * 1e-3), { rel: 1e-9 }, 'σ_ω');
     expect(r.issues.some((i) => i.code === 'derived-speed')).toBe(true);
     expect(ingestText(rows.join('\n'), { countsPerRevolution: 2000, deriveSpeed: false }).recording.channels.speed).toBeUndefined();
   });
@@ -94,7 +95,7 @@ describe('speed is derived from position when only position is logged', () => {
   it('estimates the quantum from the data when the position is not in counts', () => {
     const r = ingestText('time [s],angle [deg]\n0,0\n1,0.5\n2,1.5\n3,3\n');
     expect(r.recording.meta.derived[0]).toMatchObject({ quantisationStepSource: 'smallest-step-in-data' });
-    expectClose(r.recording.meta.derived[0]!.quantisationStep, (0.5 * Math.PI) / 180, { rel: 1e-15 }, 'Δθ');
+    expectClose((r.recording.meta.derived[0] as DerivedSpeed).quantisationStep, (0.5 * Math.PI) / 180, { rel: 1e-15 }, 'Δθ');
   });
 });
 

@@ -1,7 +1,7 @@
 import { expectClose } from '@motorprint/testkit';
 import { describe, expect, it } from 'vitest';
 import { EXACT_FACTORS, ingestText, IngestError, mathjsConversion, normaliseUnitText, resolveUnit, UNIT_TABLE } from '../index.js';
-import type { ChannelRole } from '../index.js';
+import type { UnitQuantity } from '../index.js';
 
 const CPR = 4096;
 
@@ -48,10 +48,15 @@ const EXPECTED: Record<string, { factor: number; offset?: number }> = {
   '°C': { factor: 1, offset: 0 },
   K: { factor: 1, offset: -273.15 },
   '°F': { factor: 5 / 9, offset: -160 / 9 },
+  // Duty as a fraction of full scale (derived here): 1 % = 0.01; a PWM count is 1 / full-scale
+  // count, and the tests pass CPR as the full scale.
+  fraction: { factor: 1 },
+  '%': { factor: 0.01 },
+  'PWM counts': { factor: 1 / CPR },
 };
 
 describe('every unit alias converts to SI through mathjs with the right factor', () => {
-  const roles = Object.keys(UNIT_TABLE) as ChannelRole[];
+  const roles = Object.keys(UNIT_TABLE) as UnitQuantity[];
   for (const role of roles) {
     for (const def of UNIT_TABLE[role]) {
       const spellings = [...def.aliases, ...(def.caseInsensitive ?? []), ...(def.caseInsensitive ?? []).map((a) => a.toUpperCase())];
@@ -150,7 +155,8 @@ describe('unit conversion in a file', () => {
       ingestText(csv);
     } catch (e) {
       expect(e).toMatchObject({ code: 'missing-counts-per-revolution', column: 'position [counts]', line: 1 });
-      expect((e as Error).message).toContain('countsPerRevolution');
+      expect((e as Error).message).toContain("give the encoder's counts per mechanical revolution");
+      expect((e as IngestError).fix).toEqual([{ option: 'countsPerRevolution' }]);
     }
   });
 

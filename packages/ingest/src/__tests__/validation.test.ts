@@ -58,7 +58,7 @@ describe('fatal input problems are IngestErrors with code, line and column', () 
   });
 
   it('no time column', () => {
-    expectFailure('voltage [V],current [A]\n1,2\n1,2\n1,2\n', 'no-time-column', { line: 1 }, 'no time column among "voltage [V]", "current [A]"');
+    expectFailure('voltage [V],note\n1,2\n1,2\n1,2\n', 'no-time-column', { line: 1 }, 'no time column among "voltage [V]", "note", and fewer than two of voltage, current, speed, torque');
   });
 
   it('fewer than 3 usable rows, with the reasons', () => {
@@ -95,7 +95,7 @@ describe('fatal input problems are IngestErrors with code, line and column', () 
   it('bad options', () => {
     expectFailure('time,v\n0,0\n1,1\n2,2\n', 'bad-option', {}, 'countsPerRevolution must be > 0', { countsPerRevolution: -1 });
     expectFailure('time,v\n0,0\n1,1\n2,2\n', 'bad-option', {}, "decimalSeparator ',' needs a ';' or tab delimiter", { delimiter: ',', decimalSeparator: ',' });
-    expectFailure('time,v\n0,0\n1,1\n2,2\n', 'bad-option', {}, 'minRows must be an integer ≥ 3', { minRows: 1 });
+    expectFailure('time,v\n0,0\n1,1\n2,2\n', 'bad-option', {}, 'minRows must be an integer ≥ 2', { minRows: 1 });
   });
 
   it('using an ingestor after finish or after an error', () => {
