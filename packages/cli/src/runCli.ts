@@ -36,7 +36,8 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
   const [name, ...rest] = argv;
   if (name === undefined || name === '--help' || name === '-h' || name === 'help') {
     const topic = name === 'help' ? rest[0] : undefined;
-    const sub = topic === undefined ? undefined : SUBCOMMANDS.find((c) => c.name === topic);
+    const entry = topic === undefined ? undefined : SUBCOMMANDS.find((c) => c.name === topic);
+    const sub = entry ? await entry.load() : undefined;
     io.stdout(`${sub ? `${sub.help}\n\n${CAUTIONS}` : overallHelp()}\n`);
     return name === undefined ? EXIT.usage : EXIT.ok;
   }
@@ -44,14 +45,16 @@ export async function runCli(argv: string[], io: CliIo): Promise<number> {
     io.stdout(`motorprint ${TOOL_VERSION}\n`);
     return EXIT.ok;
   }
-  const sub = SUBCOMMANDS.find((c) => c.name === name);
-  if (!sub) {
+  const entry = SUBCOMMANDS.find((c) => c.name === name);
+  if (!entry) {
     io.stderr(
       `${paint.error('error:')} unknown subcommand "${name}". Known: ${SUBCOMMANDS.map((c) => c.name).join(', ')}.\n` +
         `Run "motorprint --help" for the list.\n`,
     );
     return EXIT.usage;
   }
+  // Only the chosen subcommand's module (and the libraries it needs) is loaded.
+  const sub = await entry.load();
   if (rest.includes('--help') || rest.includes('-h')) {
     io.stdout(`${sub.help}\n\n${CAUTIONS}\n`);
     return EXIT.ok;

@@ -13,6 +13,10 @@ export interface CliIo {
   env: Record<string, string | undefined>;
   /** Whether stdout is a terminal (colour only then). */
   isTty: boolean;
+  /** Whether stderr is a terminal: long jobs then show a progress line there. @default false */
+  stderrIsTty?: boolean;
+  /** Width of the stderr terminal [characters], when known. @default 80 */
+  stderrColumns?: number;
 }
 
 /** Process exit codes of the `motorprint` command. */

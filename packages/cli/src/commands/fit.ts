@@ -11,6 +11,7 @@ import type { IngestResult } from '@motorprint/ingest';
 import { keyValuePairs, numberOption, parseSubcommandArgs } from '../args.js';
 import { inputVoltage } from '../inputVoltage.js';
 import { INGEST_OPTION_HELP, INGEST_OPTIONS, ingestOptionsFrom, readInput } from '../readInputs.js';
+import { createProgress, type Progress } from '../progress.js';
 import { paintFor, type Paint } from '../style.js';
 import { formatNumber, formatTable } from '../table.js';
 import { EXIT, TOOL_VERSION, type CliIo, type Subcommand } from '../types.js';
@@ -192,7 +193,19 @@ function formatFit(fit: MotorFit, diagnosis: FitDiagnosis, validation: Validatio
   return out.join('\n');
 }
 
+/** Shares of the whole job at the start of each stage, for the progress line (from timings at 1e5–1e6 samples). */
+const STAGE = { read: 0, fit: 0.15, check: 0.55, refit: 0.85, heldOut: 0.9, write: 0.95 } as const;
+
 async function run(args: string[], io: CliIo): Promise<number> {
+  const progress = createProgress(io, 'motorprint fit');
+  try {
+    return await fitJob(args, progress.io, progress);
+  } finally {
+    progress.done();
+  }
+}
+
+async function fitJob(args: string[], io: CliIo, progress: Progress): Promise<number> {
   const { values, positionals } = parseSubcommandArgs('fit', args, {
     kind: { type: 'string', multiple: true },
     fix: { type: 'string', multiple: true },
@@ -241,7 +254,8 @@ async function run(args: string[], io: CliIo): Promise<number> {
   const paint = paintFor(io);
 
   const inputs: { file: string; result: IngestResult }[] = [];
-  for (const file of positionals) {
+  for (const [i, file] of positionals.entries()) {
+    progress.update(`reading ${basename(file)}`, STAGE.read + ((STAGE.fit - STAGE.read) * i) / positionals.length);
     const result = await readInput(io.cwd, file, ingestOptions);
     refuseTable(file, result);
     const meta = result.recording.meta;
@@ -251,6 +265,7 @@ async function run(args: string[], io: CliIo): Promise<number> {
   }
   io.stderr(`fitting ${inputs.length} recording(s)…\n`);
   const voltageNotes = new Map<string, string>();
+  progress.update(`fitting ${inputs.length} recording${inputs.length === 1 ? '' : 's'}`, STAGE.fit);
   const fitInputs = inputs.map(({ file, result }) => {
     const kind = kinds.get(file);
     const input = inputVoltage(result.recording);
@@ -269,6 +284,7 @@ async function run(args: string[], io: CliIo): Promise<number> {
     return EXIT.dataProblem;
   }
   io.stderr('checking the fit (intervals, residuals, findings)…\n');
+  progress.update('checking the fit', STAGE.check);
   let diagnosis = diagnoseFit(fit, fitInputs, { fitOptions: options, refitCoulomb: coulombChoice === 'auto' });
   let selection: ModelSelection | null = null;
   const refit = diagnosis.coulombRefit;
@@ -276,12 +292,14 @@ async function run(args: string[], io: CliIo): Promise<number> {
     // The data support the model with Coulomb friction: report that model's constants (the
     // diagnosis already fitted it), and say so.
     io.stderr('the data support Coulomb friction; reporting that model…\n');
+    progress.update('checking the Coulomb-friction fit', STAGE.refit);
     selection = { chosen: 'viscous + Coulomb friction', over: 'viscous friction only', comparison: refit.comparison, triggeredBy: refit.triggeredBy };
     fit = refit.fit;
     diagnosis = { ...diagnoseFit(fit, fitInputs, { fitOptions: { ...options, coulomb: true }, refitCoulomb: false }), coulombRefit: refit };
   }
   const validation: ValidationResult[] = [];
-  for (const file of values.check ?? []) {
+  for (const [i, file] of (values.check ?? []).entries()) {
+    progress.update(`checking on ${basename(file)}`, STAGE.heldOut + ((STAGE.write - STAGE.heldOut) * i) / (values.check ?? []).length);
     const held = await readInput(io.cwd, file, ingestOptions);
     refuseTable(file, held);
     validation.push(checkOnRecording(fit, file, { ...held, recording: inputVoltage(held.recording).recording }));
@@ -301,6 +319,7 @@ async function run(args: string[], io: CliIo): Promise<number> {
   if (windingTemp !== undefined) setOptions.windingTemperature = windingTemp;
   if (referenceTemp !== undefined) setOptions.referenceTemperature = referenceTemp;
   if (copperK !== undefined) setOptions.copperConstant = copperK;
+  progress.update('writing the parameter set', STAGE.write);
   const set = buildParameterSet(fit, setOptions);
   const doc = fitDocument(set, diagnosis, validation, selection);
   if (voltageNotes.size > 0) doc.voltageInputs = [...voltageNotes].map(([file, note]) => ({ file, note }));
@@ -313,6 +332,7 @@ async function run(args: string[], io: CliIo): Promise<number> {
   }
   if (values.report !== undefined) {
     io.stderr('writing the report…\n');
+    progress.update('writing the report', STAGE.write);
     const html = renderHtmlReport({ parameterSet: set, fit, recordings: inputs.map((x) => x.result.recording), diagnosis, title: reportTitle(set) });
     await writeOut(io, values.report, html);
     io.stderr(`wrote the report to ${values.report}\n`);
