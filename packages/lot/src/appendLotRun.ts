@@ -1,34 +1,11 @@
 import { createHash } from 'node:crypto';
-import initSqlJs, { type Database, type SqlValue } from 'sql.js';
-import { LotError } from './LotError.js';
+import initSqlJs, { type SqlValue } from 'sql.js';
+import { openLotStore } from './openLotStore.js';
 import { LOT_STORE_SCHEMA_ID, LOT_STORE_TABLES } from './storeSchema.js';
 import type { LotRunRecord } from './types.js';
 
 function finite(x: number | null | undefined): number | null {
   return x !== null && x !== undefined && Number.isFinite(x) ? x : null;
-}
-
-function openStore(SQL: initSqlJs.SqlJsStatic, existing: Uint8Array | null, file: string): Database {
-  if (existing === null || existing.length === 0) return new SQL.Database();
-  let db: Database;
-  try {
-    db = new SQL.Database(existing);
-    const tables = db.exec("SELECT name FROM sqlite_master WHERE type = 'table'")[0]?.values.map((r) => String(r[0])) ?? [];
-    if (tables.length === 0) return db;
-    if (!tables.includes('store_info')) {
-      db.close();
-      throw new LotError('store-invalid', file, `is a SQLite file but not a motorprint lot store (its tables: ${tables.join(', ')}); give another --db file`);
-    }
-    const schema = db.exec("SELECT value FROM store_info WHERE key = 'schema'")[0]?.values[0]?.[0];
-    if (schema !== LOT_STORE_SCHEMA_ID) {
-      db.close();
-      throw new LotError('store-invalid', file, `is a lot store of schema ${JSON.stringify(schema ?? null)}, not ${LOT_STORE_SCHEMA_ID}; give another --db file`);
-    }
-    return db;
-  } catch (error) {
-    if (error instanceof LotError) throw error;
-    throw new LotError('store-invalid', file, `is not a SQLite database (${(error as Error).message}); give another --db file`, { cause: error });
-  }
 }
 
 /**
@@ -48,7 +25,7 @@ function openStore(SQL: initSqlJs.SqlJsStatic, existing: Uint8Array | null, file
  */
 export async function appendLotRun(existing: Uint8Array | null, record: LotRunRecord, file: string): Promise<{ bytes: Uint8Array; lotRunId: number }> {
   const SQL = await initSqlJs();
-  const db = openStore(SQL, existing, file);
+  const db = openLotStore(SQL, existing, file);
   try {
     db.exec('PRAGMA foreign_keys = ON;');
     db.exec('BEGIN;');

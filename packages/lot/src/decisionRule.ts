@@ -33,7 +33,7 @@ export function decisionRule(): DecisionRule {
       'A motor passes only when every checked key passes; it fails when any key fails; otherwise it is undecided. ' +
       'A motor whose recordings cannot be read or whose fit does not converge is an error, never a pass.',
     guardBand:
-      'Guard band = the expanded uncertainty U at 95 % (the distance from the estimate to the end of its 95 % interval) on each side: ' +
+      'equal to the expanded uncertainty U at 95 % (the distance from the estimate to the end of its 95 % interval) on each side: ' +
       'the estimate must lie at least U inside a limit to pass (guarded acceptance) and at least U outside it to fail (guarded rejection).',
     references: [
       'JCGM 106:2012, The role of measurement uncertainty in conformity assessment, §8 (clause number from memory)',

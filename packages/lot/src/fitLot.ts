@@ -53,7 +53,7 @@ export async function fitLot(plans: readonly MotorPlan[], options: FitLotOptions
   plans.forEach((plan, i) => {
     if (plan.problem !== null) {
       finish(i, { serial: plan.serial, status: 'error', reason: plan.problem, values: {}, inputs: [], model: '', findings: [],
-        notes: plan.ignored.map((x) => `ignored ${x.file}: ${x.reason}`), parameterSet: null, threadId: 0 });
+        ignoredFiles: plan.ignored.map((x) => ({ ...x })), parameterSet: null, threadId: 0 });
     } else toFit.push(i);
   });
   if (toFit.length === 0) return out;
@@ -69,7 +69,7 @@ export async function fitLot(plans: readonly MotorPlan[], options: FitLotOptions
         outcome = (await pool.run(task)) as MotorOutcome;
       } catch (error) {
         outcome = { serial: plan.serial, status: 'error', reason: `the worker fitting this motor failed: ${(error as Error).message}`, values: {},
-          inputs: [], model: '', findings: [], notes: [], parameterSet: null, threadId: 0 };
+          inputs: [], model: '', findings: [], ignoredFiles: plan.ignored.map((x) => ({ ...x })), parameterSet: null, threadId: 0 };
       }
       finish(i, outcome);
     }));

@@ -5,7 +5,7 @@
  */
 import { diagnoseFit } from '@motorprint/diagnose';
 import { fitMotor, type MotorRecordingInput } from '@motorprint/estimate';
-import { readRecording, type IngestResult } from '@motorprint/ingest';
+import { readRecording, type IngestOptions, type IngestResult } from '@motorprint/ingest';
 import { buildParameterSet, type ParameterSet } from '@motorprint/report';
 import type { MotorInput, MotorOutcome, MotorPlan, MotorValue } from './types.js';
 
@@ -19,6 +19,8 @@ export interface FitMotorFolderOptions {
   date: string;
   /** Identification fields written into the parameter set besides the serial (e.g. `lot`). */
   identification?: Record<string, string>;
+  /** Reader options for every recording (column roles, units, encoder counts per revolution). @default {} */
+  ingest?: IngestOptions;
 }
 
 function valuesOf(set: ParameterSet): Record<string, MotorValue> {
@@ -37,7 +39,7 @@ function valuesOf(set: ParameterSet): Record<string, MotorValue> {
 function failure(plan: MotorPlan, reason: string, inputs: MotorInput[]): MotorOutcome {
   return {
     serial: plan.serial, status: 'error', reason, values: {}, inputs, model: '', findings: [],
-    notes: plan.ignored.map((i) => `ignored ${i.file}: ${i.reason}`), parameterSet: null, threadId: 0,
+    ignoredFiles: plan.ignored.map((i) => ({ ...i })), parameterSet: null, threadId: 0,
   };
 }
 
@@ -61,7 +63,7 @@ export async function fitMotorFolder(plan: MotorPlan, options: FitMotorFolderOpt
   const inputs: MotorInput[] = [];
   for (const run of plan.runs) {
     try {
-      const result = await readRecording(run.path, { fileName: run.file });
+      const result = await readRecording(run.path, { ...(options.ingest ?? {}), fileName: run.file });
       read.push({ run, result });
       const meta = result.recording.meta;
       inputs.push({ file: run.file, kind: run.kind ?? 'guessed at fit', kindSource: run.kind === null ? 'guessed' : 'declared', sha256: meta.source.sha256, rows: result.recording.time.length, rowsDropped: meta.rowsDroppedCount });
@@ -99,7 +101,7 @@ export async function fitMotorFolder(plan: MotorPlan, options: FitMotorFolderOpt
     return {
       serial: plan.serial, status: 'fitted', reason: '', values: valuesOf(set), inputs, model,
       findings: diagnosis.findings.map((f) => `${f.code} (${f.severity})`),
-      notes: plan.ignored.map((i) => `ignored ${i.file}: ${i.reason}`), parameterSet: set, threadId: 0,
+      ignoredFiles: plan.ignored.map((i) => ({ ...i })), parameterSet: set, threadId: 0,
     };
   } catch (error) {
     return failure(plan, `the fit failed: ${(error as Error).message}`, inputs);

@@ -36,3 +36,4 @@ export { LOT_STORE_SCHEMA_ID, LOT_STORE_TABLES } from './storeSchema.js';
 export { renderLotReport } from './renderLotReport.js';
 export type { LotReportInput } from './renderLotReport.js';
 export { svgLotDistribution } from './svgLotDistribution.js';
+export { checkLotStore } from './checkLotStore.js';

@@ -1,7 +1,10 @@
 import type { KeyJudgement, MotorValue, SpecLimit } from './types.js';
 
+/** Six significant digits, exponent form outside 1e-3…1e6 (as the command line prints numbers). */
 function fmt(x: number): string {
-  return String(Number(x.toPrecision(6)));
+  const a = Math.abs(x);
+  if (a === 0 || (a >= 1e-3 && a < 1e6)) return String(Number(x.toPrecision(6)));
+  return x.toExponential(5).replace(/\.?0+e/, 'e');
 }
 
 /**
@@ -33,16 +36,16 @@ export function judgeKey(limit: SpecLimit, value: MotorValue | undefined): KeyJu
   const { lower, upper } = limit;
   const u = limit.unit;
   if (upper !== null && lo > upper) {
-    return { ...base, guardBand, verdict: 'fail', reason: `whole interval above the upper limit ${fmt(upper)} ${u} (lower end ${fmt(lo)})` };
+    return { ...base, guardBand, verdict: 'fail', reason: `whole interval above the upper limit ${fmt(upper)} ${u}` };
   }
   if (lower !== null && hi < lower) {
-    return { ...base, guardBand, verdict: 'fail', reason: `whole interval below the lower limit ${fmt(lower)} ${u} (upper end ${fmt(hi)})` };
+    return { ...base, guardBand, verdict: 'fail', reason: `whole interval below the lower limit ${fmt(lower)} ${u}` };
   }
   const straddles: string[] = [];
   if (lower !== null && lo < lower) straddles.push(`the lower limit ${fmt(lower)} ${u}`);
   if (upper !== null && hi > upper) straddles.push(`the upper limit ${fmt(upper)} ${u}`);
   if (straddles.length > 0) {
-    return { ...base, guardBand, verdict: 'undecided', reason: `interval ${fmt(lo)} … ${fmt(hi)} ${u} straddles ${straddles.join(' and ')}` };
+    return { ...base, guardBand, verdict: 'undecided', reason: `interval straddles ${straddles.join(' and ')}` };
   }
   return { ...base, guardBand, verdict: 'pass', reason: 'whole interval inside the limits' };
 }

@@ -28,7 +28,8 @@ td .ci { display: block; color: var(--muted); font-size: 10.5px; font-weight: 40
 td.note { color: var(--muted); font-size: 12px; }
 .rule { border-left: 3px solid var(--pass); padding: 4px 12px; margin: 8px 0; }
 figure { margin: 8px 0 16px; break-inside: avoid; page-break-inside: avoid; }
-figure svg { width: 100%; height: auto; display: block; }
+figure svg { width: 100%; max-width: 860px; height: auto; display: block; }
+td.serial { white-space: nowrap; font-weight: 600; }
 figcaption { color: var(--muted); font-size: 12px; margin-top: 2px; }
 .cautions { border: 1.5px solid var(--ink); padding: 8px 14px; margin-top: 10px; }
 .cautions ul { margin: 4px 0; padding-left: 20px; }

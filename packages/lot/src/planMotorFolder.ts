@@ -77,7 +77,7 @@ export function planMotorFolder(serial: string, folder: string, entries: readonl
       if (isCsv(e)) plan.runs.push({ path: `${folder}${sep}${e.name}`, file: shown(e.name), kind: null });
       else plan.ignored.push({ file: shown(e.name), reason: e.isFile ? 'not a .csv file' : 'a folder (recordings sit directly in the motor folder)' });
     }
-    if (plan.runs.length === 0) plan.problem = `${folder}: no recordings (.csv files) in the motor folder`;
+    if (plan.runs.length === 0) plan.problem = `${serial}: no recordings (.csv files) in the motor folder`;
     return plan;
   }
   const tableName = shown(RUNS_TABLE);

@@ -76,7 +76,7 @@ export function renderLotReport(input: LotReportInput): string {
       const ci = k.ci95 === null ? 'no interval' : `${formatNumber(k.ci95[0], 6)} … ${formatNumber(k.ci95[1], 6)}`;
       return `<td class="num k-${k.verdict}" title="${h(k.reason)}">${formatNumber(k.value, 6)}${k.verdict === 'pass' ? '' : ` ${k.verdict}`}<span class="ci">${h(ci)}</span></td>`;
     }).join('');
-    return `<tr><td><strong>${h(m.serial)}</strong></td><td><span class="verdict ${m.verdict}">${m.verdict}</span></td>${cells}<td class="note">${h(m.reason)}</td></tr>`;
+    return `<tr><td class="serial">${h(m.serial)}</td><td><span class="verdict ${m.verdict}">${m.verdict}</span></td>${cells}<td class="note">${m.verdict === 'pass' ? '' : h(m.reason)}</td></tr>`;
   }).join('');
 
   const plots = spec.limits.map((l) => {
@@ -90,7 +90,7 @@ export function renderLotReport(input: LotReportInput): string {
   const stats = j.statistics.map((s) => statsRow(s, spec.limits.find((l) => l.key === s.key)!)).join('');
   const errors = j.motors.filter((m) => m.verdict === 'error');
   const remarks = j.motors.flatMap((m) => [
-    ...m.outcome.notes.map((n) => `<li><strong>${h(m.serial)}</strong>: ${h(n)}</li>`),
+    ...m.outcome.ignoredFiles.map((x) => `<li><strong>${h(m.serial)}</strong>: not fitted ${h(x.file)} (${h(x.reason)})</li>`),
     ...(m.outcome.findings.length > 0 ? [`<li><strong>${h(m.serial)}</strong>: findings of the fit — ${h(m.outcome.findings.join(', '))}</li>`] : []),
   ]);
   const inputs = j.motors.flatMap((m) => m.outcome.inputs.map((f) =>

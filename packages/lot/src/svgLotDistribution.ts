@@ -25,12 +25,12 @@ function marker(kind: 'pass' | 'fail' | 'undecided', x: number, y: number): stri
  *
  * @param limit - the spec limit
  * @param motors - judged motors; those without a value of the key are left out (the caption should say so)
- * @param width - width [px] @default 640
+ * @param width - width [px] @default 860
  * @returns the `<svg>` text, or null when no motor has a value
  * @example
  * svgLotDistribution(limitR, judgement.motors)?.startsWith('<svg'); // => true
  */
-export function svgLotDistribution(limit: SpecLimit, motors: readonly MotorJudgement[], width = 640): string | null {
+export function svgLotDistribution(limit: SpecLimit, motors: readonly MotorJudgement[], width = 860): string | null {
   const rows = motors.flatMap((m) => {
     const k = m.keys.find((x) => x.key === limit.key);
     return k !== undefined && k.value !== null && Number.isFinite(k.value) ? [{ serial: m.serial, k, value: k.value }] : [];
@@ -44,11 +44,11 @@ export function svgLotDistribution(limit: SpecLimit, motors: readonly MotorJudge
   const ticks = niceTicks(lo - pad, hi + pad, 6);
   const x0 = Math.min(lo - pad, ticks.ticks[0] ?? lo - pad);
   const x1 = Math.max(hi + pad, ticks.ticks[ticks.ticks.length - 1] ?? hi + pad);
-  const labelWidth = 86, mr = 16, mt = 30, rowH = 16, axisH = 52;
+  const labelWidth = 86, mr = 30, mt = 44, rowH = 16, axisH = 66;
   const pw = width - labelWidth - mr;
   const height = mt + rows.length * rowH + axisH;
   const X = (v: number) => labelWidth + ((v - x0) / (x1 - x0)) * pw;
-  const top = mt - 6, bottom = mt + rows.length * rowH + 2;
+  const top = mt - 4, bottom = mt + rows.length * rowH + 2;
   const parts: string[] = [];
   parts.push(`<svg class="lot-distribution" xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${height}" width="${width}" height="${height}" role="img" aria-label="${h(`${limit.key}: values of the lot with the specification limits`)}">`);
   parts.push(`<text x="${labelWidth}" y="16" font-size="12" font-weight="600" fill="${INK}">${h(`${limit.key} [${limit.unit}] — ${limit.label}`)}</text>`);
@@ -58,7 +58,7 @@ export function svgLotDistribution(limit: SpecLimit, motors: readonly MotorJudge
   for (const [v, name] of [[limit.lower, 'LSL'], [limit.upper, 'USL']] as const) {
     if (v === null) continue;
     parts.push(`<line class="limit" x1="${X(v).toFixed(1)}" x2="${X(v).toFixed(1)}" y1="${top}" y2="${bottom}" stroke="${INK}" stroke-width="1.5"/>`);
-    parts.push(`<text x="${X(v).toFixed(1)}" y="${top - 2}" font-size="10" text-anchor="middle" fill="${INK}">${name} ${h(formatNumber(v, 5))}</text>`);
+    parts.push(`<text x="${X(v).toFixed(1)}" y="${top - 4}" font-size="10" text-anchor="middle" fill="${INK}">${name} ${h(formatNumber(v, 5))}</text>`);
   }
   if (limit.nominal !== null) {
     parts.push(`<line class="nominal" x1="${X(limit.nominal).toFixed(1)}" x2="${X(limit.nominal).toFixed(1)}" y1="${top}" y2="${bottom}" stroke="${MUTED}" stroke-dasharray="5 3"/>`);
@@ -82,14 +82,14 @@ export function svgLotDistribution(limit: SpecLimit, motors: readonly MotorJudge
     parts.push(`<text x="${X(t).toFixed(1)}" y="${ay + 15}" font-size="10" text-anchor="middle" fill="${INK}">${h(formatNumber(t, 5))}</text>`);
   }
   // Legend.
-  const ly = height - 10;
+  const ly = height - 22;
   let lx = labelWidth;
   for (const kind of ['pass', 'fail', 'undecided'] as const) {
     parts.push(marker(kind, lx + 5, ly - 4));
     parts.push(`<text x="${lx + 14}" y="${ly}" font-size="10" fill="${INK}">${kind}</text>`);
     lx += 78;
   }
-  parts.push(`<text x="${lx}" y="${ly}" font-size="10" fill="${MUTED}">bar: 95 % interval · shaded: between the limits${limit.nominal !== null ? ' · dashed: nominal' : ''}</text>`);
+  parts.push(`<text x="${labelWidth}" y="${ly + 15}" font-size="10" fill="${MUTED}">bar: 95 % interval · shaded: between the limits${limit.nominal !== null ? ' · dashed: nominal' : ''}</text>`);
   parts.push('</svg>');
   return parts.join('');
 }

@@ -108,8 +108,8 @@ export interface MotorOutcome {
   model: string;
   /** Finding codes of the diagnosis with their severities, e.g. `coulomb-friction (warning)`. */
   findings: string[];
-  /** Ignored files and other remarks. */
-  notes: string[];
+  /** Files of the motor folder that were not fitted, each with the reason (from the plan). */
+  ignoredFiles: { file: string; reason: string }[];
   /** The full parameter set, or null on error. */
   parameterSet: ParameterSet | null;
   /** Worker thread that fitted it (0 when not fitted on a worker). */
