@@ -60,6 +60,9 @@ export async function fitLot(plans: readonly MotorPlan[], options: FitLotOptions
   const threads = Math.min(jobs, toFit.length);
   const { filename, execArgv } = workerEntry();
   const pool = new Tinypool({ filename, minThreads: threads, maxThreads: threads, execArgv, idleTimeout: 0 });
+  // A worker that dies between tasks is replaced by the pool; its error must not end the process.
+  // (An error during a task reaches that task's promise and becomes the motor's error.)
+  pool.on('error', () => {});
   try {
     await Promise.all(toFit.map(async (i) => {
       const plan = plans[i]!;

@@ -25,7 +25,8 @@ function describe(x: unknown): string {
  *
  * Format: `{ "name": "…", "ratedVoltage": 24, "limits": { "<key>": { "nominal": x, "tolerancePercent": p } | { "min": a, "max": b } } }`
  * where a key is a motor constant (`R`, `L`, `Kt`, `Ke`, `J`, `b`, `Tc`, SI units) or a derived-figure
- * key (docs/derived-figures.md). `min` or `max` alone gives a one-sided limit. A limit may carry
+ * key (docs/derived-figures.md). `min` or `max` alone gives a one-sided limit. Limits from a nominal
+ * and a percentage are rounded to 12 significant digits. A limit may carry
  * `"unit"`, which must then be the key's unit exactly (a guard against a value typed in other units).
  *
  * @param text - the file's text
@@ -100,8 +101,9 @@ export function parseLotSpec(text: string, file: string): LotSpec {
       if (!(tolerance > 0)) return bad(`${path}.tolerancePercent`, `"tolerancePercent" must be > 0 (got ${tolerance})`);
       if (nominal === 0) return bad(`${path}.nominal`, 'a percentage of a nominal 0 gives no width; use min and max');
       const half = (Math.abs(nominal) * tolerance) / 100;
-      lower = nominal - half;
-      upper = nominal + half;
+      // Rounded to 12 significant digits so that 1.9 ± 5 % gives 1.995, not 1.9949999999999999.
+      lower = Number((nominal - half).toPrecision(12));
+      upper = Number((nominal + half).toPrecision(12));
     } else if (byRange) {
       lower = min ?? null;
       upper = max ?? null;
