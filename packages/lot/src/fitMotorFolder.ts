@@ -1,15 +1,15 @@
 /**
- * The one place where the lot calls the per-motor fit pipeline (read → fit → diagnose → optional
- * Coulomb model → parameter set), through today's public API. Kept in this file alone so the
- * pipeline can be swapped for a one-call API later without touching the rest of the lot package.
+ * The one place where the lot calls the per-motor fit pipeline (fit → diagnose → optional Coulomb
+ * model → parameter set), through today's public API. Kept in this file alone so the pipeline can
+ * be swapped for a one-call API later without touching the rest of the lot package. It runs on the
+ * worker threads, so it imports only what fitting needs (not the CSV reader).
  */
 import { diagnoseFit } from '@motorprint/diagnose';
 import { fitMotor, type MotorRecordingInput } from '@motorprint/estimate';
-import { readRecording, type IngestOptions, type IngestResult } from '@motorprint/ingest';
 import { buildParameterSet, type ParameterSet } from '@motorprint/report';
-import type { MotorInput, MotorOutcome, MotorPlan, MotorValue } from './types.js';
+import type { MotorInput, MotorOutcome, MotorRecording, MotorValue } from './types.js';
 
-/** What {@link fitMotorFolder} needs besides the plan. */
+/** What {@link fitMotorFolder} needs besides the recordings. */
 export interface FitMotorFolderOptions {
   /** Voltage for the derived figures [V] (the spec's), or null for the largest step voltage seen. */
   ratedVoltage: number | null;
@@ -17,10 +17,8 @@ export interface FitMotorFolderOptions {
   tool: { name: string; version: string };
   /** Date of the lot run (ISO 8601) for the provenance; the library reads no clock. */
   date: string;
-  /** Identification fields written into the parameter set besides the serial (e.g. `lot`). */
+  /** Identification fields written into the parameter set besides the serial (e.g. `lot`). @default {} */
   identification?: Record<string, string>;
-  /** Reader options for every recording (column roles, units, encoder counts per revolution). @default {} */
-  ingest?: IngestOptions;
 }
 
 function valuesOf(set: ParameterSet): Record<string, MotorValue> {
@@ -36,48 +34,34 @@ function valuesOf(set: ParameterSet): Record<string, MotorValue> {
   return out;
 }
 
-function failure(plan: MotorPlan, reason: string, inputs: MotorInput[]): MotorOutcome {
-  return {
-    serial: plan.serial, status: 'error', reason, values: {}, inputs, model: '', findings: [],
-    ignoredFiles: plan.ignored.map((i) => ({ ...i })), parameterSet: null, threadId: 0,
-  };
-}
-
 /**
- * Fits one motor of a lot from its folder plan: reads each recording, fits the lumped model to all
- * of them jointly, diagnoses the fit, reports the Coulomb-friction model when the diagnosis's
- * model comparison supports it (as `motorprint fit --coulomb auto` does), and builds the parameter
- * set with the derived figures at the spec's rated voltage. Never throws for bad data: a file that
- * cannot be read, a fit that fails or does not converge gives `status: 'error'` with the reason.
+ * Fits one motor of a lot from its recordings: the lumped model fitted to all of them jointly, the
+ * fit diagnosed, the Coulomb-friction model reported when the diagnosis's model comparison supports
+ * it (as `motorprint fit --coulomb auto` does), and the parameter set built with the derived
+ * figures at the spec's rated voltage. Never throws for bad data: a fit that fails or does not
+ * converge gives `status: 'error'` with the reason.
  *
- * @param plan - from `planMotorFolder`
- * @param options - rated voltage, tool, date
- * @returns the outcome (plain data)
+ * @param serial - the motor's serial
+ * @param recordings - its recordings in SI (from `readMotorRecordings`), with declared kinds or null
+ * @param inputs - the input records of those files (kinds are filled in from the fit)
+ * @param options - rated voltage, tool, date, identification
+ * @returns the outcome (plain data; `ignoredFiles` empty and `threadId` 0 — the caller fills them in)
  * @example
- * const outcome = await fitMotorFolder(plan, { ratedVoltage: 24, tool: { name: 'motorprint', version: '0.1.0' }, date: '2025-03-01T10:00:00Z' });
- * outcome.values.R; // => { value: 1.9004, ci95: [1.8994, 1.9014], unit: 'Ω', note: '' }
+ * const outcome = fitMotorFolder('T24-2501', read.recordings, read.inputs, { ratedVoltage: 24, tool: { name: 'motorprint', version: '0.1.0' }, date: '2025-03-01T10:00:00Z' });
+ * outcome.values.R; // => { value: 1.9022, ci95: [1.9011, 1.9034], unit: 'Ω', note: '' }
  */
-export async function fitMotorFolder(plan: MotorPlan, options: FitMotorFolderOptions): Promise<MotorOutcome> {
-  if (plan.problem !== null) return failure(plan, plan.problem, []);
-  const read: { run: MotorPlan['runs'][number]; result: IngestResult }[] = [];
-  const inputs: MotorInput[] = [];
-  for (const run of plan.runs) {
-    try {
-      const result = await readRecording(run.path, { ...(options.ingest ?? {}), fileName: run.file });
-      read.push({ run, result });
-      const meta = result.recording.meta;
-      inputs.push({ file: run.file, kind: run.kind ?? 'guessed at fit', kindSource: run.kind === null ? 'guessed' : 'declared', sha256: meta.source.sha256, rows: result.recording.time.length, rowsDropped: meta.rowsDroppedCount });
-    } catch (error) {
-      return failure(plan, (error as Error).message, inputs);
-    }
-  }
-  const fitInputs: MotorRecordingInput[] = read.map(({ run, result }) =>
-    run.kind === null ? { recording: result.recording, name: run.file } : { recording: result.recording, name: run.file, kind: run.kind });
+export function fitMotorFolder(serial: string, recordings: readonly MotorRecording[], inputs: readonly MotorInput[], options: FitMotorFolderOptions): MotorOutcome {
+  const used = inputs.map((x) => ({ ...x }));
+  const failure = (reason: string): MotorOutcome => ({
+    serial, status: 'error', reason, values: {}, inputs: used, model: '', findings: [], ignoredFiles: [], parameterSet: null, threadId: 0,
+  });
+  const fitInputs: MotorRecordingInput[] = recordings.map((r) =>
+    r.kind === null ? { recording: r.recording, name: r.file } : { recording: r.recording, name: r.file, kind: r.kind });
   try {
     let fit = fitMotor(fitInputs);
-    fit.recordings.forEach((r, i) => { const input = inputs[i]; if (input !== undefined) input.kind = r.kind; });
+    fit.recordings.forEach((r, i) => { const input = used[i]; if (input !== undefined) input.kind = r.kind; });
     if (!fit.converged) {
-      return failure(plan, `the fit did not converge (${fit.stopReason}) after ${fit.iterations} steps; check the recordings and declare their kinds in runs.csv`, inputs);
+      return failure(`the fit did not converge (${fit.stopReason}) after ${fit.iterations} steps; check the recordings and declare their kinds in runs.csv`);
     }
     let diagnosis = diagnoseFit(fit, fitInputs, { fitOptions: {}, refitCoulomb: true });
     let model = fit.variant.description;
@@ -88,22 +72,21 @@ export async function fitMotorFolder(plan: MotorPlan, options: FitMotorFolderOpt
       model = `${fit.variant.description} (chosen over viscous friction only: the model comparison supports it)`;
     }
     const set = buildParameterSet(fit, {
-      recordings: read.map((x) => x.result.recording),
+      recordings: recordings.map((r) => r.recording),
       diagnosis,
-      identification: { ...(options.identification ?? {}), serial: plan.serial },
+      identification: { ...(options.identification ?? {}), serial },
       ...(options.ratedVoltage !== null ? { ratedVoltage: options.ratedVoltage } : {}),
       provenance: {
         tool: options.tool, date: options.date,
-        inputs: inputs.map((x) => ({ file: x.file, sha256: x.sha256 })),
-        options: { lot: true, ratedVoltage: options.ratedVoltage, kinds: plan.runs.map((r) => r.kind ?? 'guessed') },
+        inputs: used.map((x) => ({ file: x.file, sha256: x.sha256 })),
+        options: { lot: true, ratedVoltage: options.ratedVoltage, kinds: recordings.map((r) => r.kind ?? 'guessed') },
       },
     });
     return {
-      serial: plan.serial, status: 'fitted', reason: '', values: valuesOf(set), inputs, model,
-      findings: diagnosis.findings.map((f) => `${f.code} (${f.severity})`),
-      ignoredFiles: plan.ignored.map((i) => ({ ...i })), parameterSet: set, threadId: 0,
+      serial, status: 'fitted', reason: '', values: valuesOf(set), inputs: used, model,
+      findings: diagnosis.findings.map((f) => `${f.code} (${f.severity})`), ignoredFiles: [], parameterSet: set, threadId: 0,
     };
   } catch (error) {
-    return failure(plan, `the fit failed: ${(error as Error).message}`, inputs);
+    return failure(`the fit failed: ${(error as Error).message}`);
   }
 }

@@ -10,7 +10,7 @@
  */
 export type {
   DecisionRule, KeyJudgement, KeyOutlier, KeyStatistics, LotJudgement, LotRunRecord, LotSpec, MotorInput, MotorJudgement,
-  MotorOutcome, MotorPlan, MotorValue, MotorVerdict, PlannedRun, RunKind, SpecLimit, Verdict, VerdictCounts,
+  MotorOutcome, MotorPlan, MotorRecording, MotorValue, MotorVerdict, PlannedRun, RunKind, SpecLimit, Verdict, VerdictCounts,
 } from './types.js';
 export { LotError } from './LotError.js';
 export type { LotErrorCode } from './LotError.js';
@@ -22,6 +22,7 @@ export { parseLotSpec } from './parseLotSpec.js';
 export { planMotorFolder, RUNS_TABLE } from './planMotorFolder.js';
 export type { FolderEntry } from './planMotorFolder.js';
 export { fitMotorFolder } from './fitMotorFolder.js';
+export { readMotorRecordings } from './readMotorRecordings.js';
 export type { FitMotorFolderOptions } from './fitMotorFolder.js';
 export { fitLot } from './fitLot.js';
 export type { FitLotOptions } from './fitLot.js';

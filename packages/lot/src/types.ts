@@ -3,6 +3,7 @@
  * fit of one motor hands back, verdicts, lot statistics and what the store records. Everything here
  * is JSON-able (no typed arrays), so it crosses worker threads and goes into the store as it is.
  */
+import type { RecordingData } from '@motorprint/estimate';
 import type { ParameterSet } from '@motorprint/report';
 
 /** Experiment kinds a `runs.csv` may declare (the estimator's vocabulary). */
@@ -62,6 +63,16 @@ export interface MotorPlan {
   ignored: { file: string; reason: string }[];
   /** A problem that stops this motor before any fit (no recordings, a bad `runs.csv`), or null. */
   problem: string | null;
+}
+
+/** One recording of a motor, read and in SI, ready to fit (plain data: crosses to a worker thread). */
+export interface MotorRecording {
+  /** Name as shown (see {@link PlannedRun.file}). */
+  file: string;
+  /** Declared kind, or null to have it guessed. */
+  kind: RunKind | null;
+  /** Time and SI channels. */
+  recording: RecordingData;
 }
 
 /** A constant or derived figure of one fitted motor. */

@@ -2,7 +2,7 @@ import { execFileSync, spawnSync } from 'node:child_process';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { afterAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import initSqlJs from 'sql.js';
 import { appendLotRun } from '../appendLotRun.js';
 import { checkLotStore } from '../checkLotStore.js';
@@ -35,13 +35,18 @@ function record(startedAt: string): LotRunRecord {
 }
 
 const dir = mkdtempSync(join(tmpdir(), 'motorprint-store-'));
+let first: { bytes: Uint8Array; lotRunId: number };
+let second: { bytes: Uint8Array; lotRunId: number };
+beforeAll(async () => {
+  first = await appendLotRun(null, record('2025-03-01T10:00:00Z'), 'lots.sqlite');
+  second = await appendLotRun(first.bytes, record('2025-03-02T10:00:00Z'), 'lots.sqlite');
+  writeFileSync(join(dir, 'lots.sqlite'), second.bytes);
+});
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
 describe('appendLotRun', () => {
   it('creates a store, and a second run adds a new lot run without touching the first', async () => {
-    const first = await appendLotRun(null, record('2025-03-01T10:00:00Z'), 'lots.sqlite');
     expect(first.lotRunId).toBe(1);
-    const second = await appendLotRun(first.bytes, record('2025-03-02T10:00:00Z'), 'lots.sqlite');
     expect(second.lotRunId).toBe(2);
     expect(await checkLotStore(second.bytes, 'lots.sqlite')).toBe(2);
     const SQL = await initSqlJs();
@@ -56,14 +61,13 @@ describe('appendLotRun', () => {
     ]);
     expect(q("SELECT key, value, ci95_low, ci95_high, lower_limit, upper_limit, verdict FROM checked_values WHERE lot_run_id = 2 AND serial = 'T24-9002' ORDER BY key")).toEqual([
       ['J', 1.1e-5, 1.1e-5 * 0.999, 1.1e-5 * 1.001, 9.5e-6, 1.25e-5, 'pass'],
-      ['R', 2.2, 2.2 - 0.001, 2.2 + 0.001, 1.9 - 0.095, 1.9 + 0.095, 'fail'],
+      ['R', 2.2, 2.2 - 0.001, 2.2 + 0.001, 1.805, 1.995, 'fail'], // limits 1.9 ± 5 % as parseLotSpec resolves them (12 significant digits)
     ]);
     expect(q('SELECT count(*) FROM inputs')).toEqual([[6]]); // 3 fitted motors × 1 input × 2 runs
     expect(q("SELECT key, n FROM key_statistics WHERE lot_run_id = 1 ORDER BY key")).toEqual([['J', 3], ['R', 3]]);
     expect(q("SELECT value FROM store_info WHERE key = 'schema'")).toEqual([['motorprint.lot-store/1']]);
     expect(q('SELECT spec_text FROM lot_runs WHERE id = 1')).toEqual([[specText]]);
     db.close();
-    writeFileSync(join(dir, 'lots.sqlite'), second.bytes);
   });
 
   it('refuses bytes that are not SQLite, and a SQLite file that is not a lot store', async () => {
