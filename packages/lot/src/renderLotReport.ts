@@ -109,7 +109,8 @@ export function renderLotReport(input: LotReportInput): string {
 <p class="sub">Following ${h(rule.references.join('; '))}.${spec.ratedVoltage !== null ? ` Derived figures are stated at ${h(formatNumber(spec.ratedVoltage))} V (the spec's rated voltage).` : ''}</p></div></section>
 <section><h2>Verdicts</h2>
 <p>Each cell: the estimate, then its 95 % interval; a key that does not pass is marked. Hover a cell for the reason.</p>
-<table class="verdicts"><thead><tr><th>serial</th><th>verdict</th>${head}<th>reason</th></tr></thead><tbody>${rows}</tbody></table></section>
+<table class="verdicts"><thead><tr><th>serial</th><th>verdict</th>${head}<th>reason</th></tr></thead><tbody>${rows}</tbody></table>
+${c.undecided > 0 ? '<p class="sub">Undecided: the 95 % interval straddles a limit. A motor whose true value lies on the limit comes out undecided whenever its interval covers that value (about 95 % of repeats); longer or repeated runs narrow the interval.</p>' : ''}</section>
 <section><h2>Distribution of each checked key</h2>${plots}</section>
 <section><h2>Lot statistics and capability</h2>
 <table class="capability"><thead><tr><th>key</th><th>unit</th><th>limits</th><th>n</th><th>mean</th><th>SD</th><th>min</th><th>max</th><th>Cp</th><th>Cpk</th><th>outliers (robust z)</th><th>note</th></tr></thead>

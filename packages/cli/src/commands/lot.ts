@@ -118,6 +118,11 @@ function formatLot(spec: LotSpec, j: LotJudgement, paint: Paint): string {
       }
     }
   }
+  if (j.counts.undecided > 0) {
+    out.push('  note: an undecided key\'s 95 % interval straddles a limit. A motor whose true value lies on the limit comes out');
+    out.push('  undecided whenever its interval covers that value (about 95 % of repeats); narrow the interval with longer or');
+    out.push('  repeated runs, or decide by your lab\'s rule for such motors.');
+  }
   out.push('');
   out.push(paint.bold('Lot statistics') + ' (over the fitted motors that have a value)');
   out.push(formatTable(
