@@ -7,8 +7,7 @@
  * Goal: --jobs 2 faster than --jobs 1 on a 2-core machine.
  */
 import { mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { availableParallelism } from 'node:os';
+import { availableParallelism, loadavg, tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { runCli } from '../packages/cli/src/index.js';
@@ -19,30 +18,38 @@ import { formatRecordingCsv, generateRecording } from '../packages/model/src/ind
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 const pad = (s: string | number, w: number): string => String(s).padStart(w);
 
-async function lotWallTime(dir: string, spec: string, jobs: number): Promise<{ seconds: number; code: number }> {
+async function lotWallTime(dir: string, spec: string, jobs: number): Promise<{ seconds: number; cpu: number; code: number }> {
   const sink = () => {};
   const t0 = performance.now();
+  const c0 = process.cpuUsage();
   const code = await runCli(['lot', dir, '--spec', spec, '--jobs', String(jobs), '--json'], { stdout: sink, stderr: sink, cwd: root, env: {}, isTty: false });
-  return { seconds: (performance.now() - t0) / 1000, code };
+  const c = process.cpuUsage(c0);
+  return { seconds: (performance.now() - t0) / 1000, cpu: (c.user + c.system) / 1e6, code };
 }
 
-/** Runs the lot with --jobs 1 and 2, taking turns, and prints min / median / max wall time. */
+const median = (t: number[]) => { const s = [...t].sort((a, b) => a - b); const m = s.length >> 1; return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2; };
+
+/**
+ * Runs the lot with --jobs 1 and 2, taking turns, and prints wall time and the CPU time of the
+ * process (all threads). CPU/wall is the parallelism the run got: about 1 for --jobs 1 and up to 2
+ * for --jobs 2 when the cores are free; well below that, other work on the machine held the cores.
+ */
 async function compareJobs(dir: string, spec: string, reps: number): Promise<void> {
-  const times: Record<number, number[]> = { 1: [], 2: [] };
+  const runs: Record<number, { seconds: number; cpu: number }[]> = { 1: [], 2: [] };
   for (let rep = 0; rep < reps; rep++) {
     for (const jobs of [1, 2]) {
       const r = await lotWallTime(dir, spec, jobs);
       if (r.code === 2) throw new Error(`bench lot: the lot command refused ${dir}`);
-      times[jobs]!.push(r.seconds);
+      runs[jobs]!.push(r);
     }
   }
-  const median = (t: number[]) => { const s = [...t].sort((a, b) => a - b); const m = s.length >> 1; return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2; };
-  console.log(`${pad('--jobs', 7)} ${pad('runs', 5)} ${pad('min', 7)} ${pad('median', 7)} ${pad('max', 7)}`);
+  console.log(`${pad('--jobs', 7)} ${pad('runs', 5)} ${pad('wall min', 9)} ${pad('median', 7)} ${pad('max', 7)} ${pad('CPU median', 11)} ${pad('CPU/wall', 9)}`);
   for (const jobs of [1, 2]) {
-    const t = times[jobs]!;
-    console.log(`${pad(jobs, 7)} ${pad(t.length, 5)} ${pad(Math.min(...t).toFixed(2), 7)} ${pad(median(t).toFixed(2), 7)} ${pad(Math.max(...t).toFixed(2), 7)}`);
+    const w = runs[jobs]!.map((r) => r.seconds), c = runs[jobs]!.map((r) => r.cpu);
+    console.log(`${pad(jobs, 7)} ${pad(w.length, 5)} ${pad(Math.min(...w).toFixed(2), 9)} ${pad(median(w).toFixed(2), 7)} ${pad(Math.max(...w).toFixed(2), 7)} ` +
+      `${pad(median(c).toFixed(2), 11)} ${pad((median(c) / median(w)).toFixed(2), 9)}`);
   }
-  console.log(`median speed-up with --jobs 2: ${(median(times[1]!) / median(times[2]!)).toFixed(2)}×`);
+  console.log(`median speed-up with --jobs 2: ${(median(runs[1]!.map((r) => r.seconds)) / median(runs[2]!.map((r) => r.seconds))).toFixed(2)}×`);
 }
 
 /** Writes a larger INVENTED lot: 16 Tern 24-like motors (constants spread by a few %, Coulomb friction). */
@@ -63,7 +70,7 @@ function writeLargerLot(dir: string): void {
 }
 
 export default async function run(): Promise<void> {
-  console.log(`cores seen by node: ${availableParallelism()}; other work on the machine slows both columns alike only when it leaves the cores free`);
+  console.log(`cores seen by node: ${availableParallelism()}; load average at start ${loadavg().map((x) => x.toFixed(2)).join(', ')} (other work holding the cores shows as CPU/wall well below the job count)`);
   console.log('\n(a) motorprint lot on the invented demo lot (12 motors, 2 short runs each), wall time [s]; runs take turns');
   await compareJobs('fixtures/lot/tern24', 'fixtures/lot/tern24-spec.json', 3);
 
