@@ -10,6 +10,7 @@ import { mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSyn
 import { availableParallelism, loadavg, tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { Worker } from 'node:worker_threads';
 import { runCli } from '../packages/cli/src/index.js';
 import { fitLot, judgeLot, parseLotSpec, planMotorFolder } from '../packages/lot/src/index.js';
 import { writeInventedLot } from '../packages/lot/src/__tests__/inventedLot.js';
@@ -52,6 +53,18 @@ async function compareJobs(dir: string, spec: string, reps: number): Promise<voi
   console.log(`median speed-up with --jobs 2: ${(median(runs[1]!.map((r) => r.seconds)) / median(runs[2]!.map((r) => r.seconds))).toFixed(2)}×`);
 }
 
+/** Wall time [s] of `threads` worker threads each doing the same fixed arithmetic. */
+async function spin(threads: number): Promise<number> {
+  const code = "const { parentPort } = require('node:worker_threads'); let s = 0; for (let i = 0; i < 2e8; i++) s += Math.sqrt(i); parentPort.postMessage(s);";
+  const t0 = performance.now();
+  await Promise.all(Array.from({ length: threads }, () => new Promise<void>((done, fail) => {
+    const w = new Worker(code, { eval: true });
+    w.once('message', () => { void w.terminate(); done(); });
+    w.once('error', fail);
+  })));
+  return (performance.now() - t0) / 1000;
+}
+
 /** Writes a larger INVENTED lot: 16 Tern 24-like motors (constants spread by a few %, Coulomb friction). */
 function writeLargerLot(dir: string): void {
   const noise = { voltage: 0.05, current: 0.02, speed: 0.3 };
@@ -71,6 +84,9 @@ function writeLargerLot(dir: string): void {
 
 export default async function run(): Promise<void> {
   console.log(`cores seen by node: ${availableParallelism()}; load average at start ${loadavg().map((x) => x.toFixed(2)).join(', ')} (other work holding the cores shows as CPU/wall well below the job count)`);
+  const one = [await spin(1), await spin(1)], two = [await spin(2), await spin(2)];
+  console.log(`control: the same arithmetic on 1 thread ${Math.min(...one).toFixed(2)} s, on 2 threads at once ${Math.min(...two).toFixed(2)} s ` +
+    `→ parallel throughput available now ≈ ${(2 * Math.min(...one) / Math.min(...two)).toFixed(2)} cores`);
   console.log('\n(a) motorprint lot on the invented demo lot (12 motors, 2 short runs each), wall time [s]; runs take turns');
   await compareJobs('fixtures/lot/tern24', 'fixtures/lot/tern24-spec.json', 3);
 
