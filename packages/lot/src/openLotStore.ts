@@ -17,17 +17,17 @@ export function openLotStore(SQL: initSqlJs.SqlJsStatic, existing: Uint8Array | 
     if (tables.length === 0) return db;
     if (!tables.includes('store_info')) {
       db.close();
-      throw new LotError('store-invalid', file, `is a SQLite file but not a motorprint lot store (its tables: ${tables.join(', ')}); give another --db file`);
+      throw new LotError('store-invalid', file, `is a SQLite file but not a motorprint lot store (its tables: ${tables.join(', ')}); use another store file`);
     }
     const schema = db.exec("SELECT value FROM store_info WHERE key = 'schema'")[0]?.values[0]?.[0];
     if (schema !== LOT_STORE_SCHEMA_ID) {
       db.close();
-      throw new LotError('store-invalid', file, `is a lot store of schema ${JSON.stringify(schema ?? null)}, not ${LOT_STORE_SCHEMA_ID}; give another --db file`);
+      throw new LotError('store-invalid', file, `is a lot store of schema ${JSON.stringify(schema ?? null)}, not ${LOT_STORE_SCHEMA_ID}; use another store file`);
     }
     return db;
   } catch (error) {
     if (error instanceof LotError) throw error;
-    throw new LotError('store-invalid', file, `is not a SQLite database (${(error as Error).message}); give another --db file`, { cause: error });
+    throw new LotError('store-invalid', file, `is not a SQLite database (${(error as Error).message}); use another store file`, { cause: error });
   }
 }
 

@@ -77,6 +77,7 @@ describe('motorprint lot on the invented demo lot', () => {
       // seeds, see bench/lot.ts); with this fixture's seed it does.
       expect(m.verdict, `${t.serial}: ${m.reason}`).toBe(called === 'on-limit' ? 'undecided' : called);
     }
+    // derived from fixtures/lot/tern24-truth.csv: 8 inside, 3 out (2504, 2507, 2510), 1 on a limit (2509)
     expect(doc.counts).toEqual({ pass: 8, fail: 3, undecided: 1, error: 0 });
     expect(doc.motors.find((m) => m.serial === 'T24-2507')!.reason).toBe('out of spec: Kt, noLoadSpeedRpm');
     expect(new Set(doc.motors.map((m) => m.workerThread)).size).toBe(2);
@@ -158,7 +159,7 @@ describe('motorprint lot refuses what it cannot use before fitting anything', ()
     writeFileSync(join(tmp, 'notes.sqlite'), 'not a database, just text\n'.repeat(40));
     const c = capture(tmp);
     expect(await runCli(['lot', join(repoRoot, LOT), '--spec', join(repoRoot, SPEC), '--db', 'notes.sqlite'], c.io)).toBe(EXIT.usage);
-    expect(c.stderr()).toContain('notes.sqlite: is not a SQLite database');
+    expect(c.stderr()).toMatch(/notes\.sqlite: is not a SQLite database .*give another --db file/);
     expect(existsSync(join(tmp, 'notes.sqlite'))).toBe(true);
   });
 

@@ -270,7 +270,7 @@ async function run(args: string[], io: CliIo): Promise<number> {
     try {
       await checkLotStore(storeBytes, values.db);
     } catch (error) {
-      if (error instanceof LotError) throw new UsageError(error.message, 'lot');
+      if (error instanceof LotError) throw new UsageError(error.message.replace(/use another store file$/, 'give another --db file'), 'lot');
       throw error;
     }
   }

@@ -88,6 +88,7 @@ describe('fitLot on an invented lot', () => {
     }
     expect(judgement.motors.find((m) => m.serial === 'T24-7002')!.reason).toBe('out of spec: R, stallTorque');
     expect(judgement.motors.find((m) => m.serial === 'T24-7003')!.reason).toBe('out of spec: J');
+    // derived here from MOTORS: 7001 and 7005 inside every limit, 7002 and 7003 out, 7004 garbled
     expect(judgement.counts).toEqual({ pass: 2, fail: 2, undecided: 0, error: 1 });
     const declared = outcomes.find((o) => o.serial === 'T24-7005')!;
     expect(declared.inputs.map((i) => [i.kind, i.kindSource])).toEqual([['locked-rotor', 'declared'], ['step', 'declared']]);
@@ -146,14 +147,14 @@ describe('fitLot on an invented lot', () => {
       expect(svgs).toHaveLength(spec.limits.length);
       for (const [i, s] of svgs.entries()) {
         expect(s.marks, `plot ${i}: one marker per fitted motor (the legend's three left out)`).toBe(4);
-        expect(s.width, `plot ${i} is laid out`).toBeGreaterThan(300);
+        expect(s.width, `plot ${i} is laid out`).toBeGreaterThan(300); // px; the plots are drawn 860 px wide (derived here)
       }
       expect(svgs.map((s) => s.limits)).toEqual([2, 2, 2, 2]);
       expect(svgs.map((s) => s.fails)).toEqual([1, 0, 1, 1]); // R and stallTorque of T24-7002, J of T24-7003
       const rows = await page.evaluate<number>(`document.querySelectorAll('table.verdicts tbody tr').length`);
       expect(rows).toBe(MOTORS.length);
       const png = await page.screenshot({ fullPage: true, type: 'png' });
-      expect(png.length).toBeGreaterThan(20_000);
+      expect(png.length).toBeGreaterThan(20_000); // a blank page is a few kB (common practice, no source)
       expect(problems).toEqual([]);
     } finally {
       await context.close();

@@ -79,7 +79,7 @@ describe('appendLotRun', () => {
     other.close();
     const error = await appendLotRun(bytes, record('x'), 'parts.sqlite').catch((e: unknown) => e);
     expect(error).toBeInstanceOf(LotError);
-    expect((error as LotError).message).toBe('parts.sqlite: is a SQLite file but not a motorprint lot store (its tables: parts); give another --db file');
+    expect((error as LotError).message).toBe('parts.sqlite: is a SQLite file but not a motorprint lot store (its tables: parts); use another store file');
     expect(await checkLotStore(null, 'new.sqlite')).toBe(0);
   });
 
