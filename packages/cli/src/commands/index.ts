@@ -28,6 +28,11 @@ export const SUBCOMMANDS: readonly SubcommandEntry[] = [
     load: async () => (await import('./inspect.js')).inspectCommand,
   },
   {
+    name: 'lot',
+    summary: 'judge a lot of motors (one folder each) against a spec, with lot statistics and a SQLite store',
+    load: async () => (await import('./lot.js')).lotCommand,
+  },
+  {
     name: 'show',
     summary: 'print a parameter set written by "fit --out" (text, Markdown, CSV or JSON)',
     load: async () => (await import('./show.js')).showCommand,
