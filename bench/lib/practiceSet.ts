@@ -8,8 +8,8 @@
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { readRecording } from '@motorprint/ingest';
-import { fitMotor, type MotorFit } from '@motorprint/estimate';
-import { diagnoseFit, type FitDiagnosis } from '@motorprint/diagnose';
+import type { MotorFit } from '@motorprint/estimate';
+import { identifyMotor, type FitDiagnosis, type Identification } from '@motorprint/diagnose';
 
 /** Where the practice set lives, or null when it is not beside the project. */
 export function practiceSetDir(): string | null {
@@ -68,27 +68,27 @@ interface Truth {
   identifiable: string[];
   weakly_identifiable: string[];
   tolerance: { abs: Record<string, number> };
+  fixed_in_fit?: string[];
 }
 
 /** What one `motorprint fit` run gives, as the practice harness reads it. */
 export interface PipelineResult {
   fit: MotorFit;
   diagnosis: FitDiagnosis;
+  identification?: Identification;
 }
 
-/** The `motorprint fit` pipeline on one file. */
-export async function fitLikeTheCli(file: string): Promise<PipelineResult> {
+/**
+ * The `motorprint fit` pipeline on one file (`identifyMotor`, the call the command line makes).
+ * Constants the case's truth lists as `fixed_in_fit` (known from another run of the same motor,
+ * e.g. R of a table from the locked-rotor case) are pinned at their true values, as a user would
+ * pin them with `--fix`.
+ */
+export async function fitLikeTheCli(file: string, fix: Record<string, number> = {}): Promise<PipelineResult> {
   const { recording } = await readRecording(file);
-  const inputs = [{ recording, name: file }];
-  let fit = fitMotor(inputs);
-  if (!fit.converged) throw new Error(`fit did not converge (${fit.stopReason})`);
-  let diagnosis = diagnoseFit(fit, inputs, { refitCoulomb: true });
-  const refit = diagnosis.coulombRefit;
-  if (refit !== null && refit.converged && refit.supported === 'viscous + Coulomb') {
-    fit = refit.fit;
-    diagnosis = { ...diagnoseFit(fit, inputs, { fitOptions: { coulomb: true }, refitCoulomb: false }), coulombRefit: refit };
-  }
-  return { fit, diagnosis };
+  const id = identifyMotor([{ recording, name: file }], { fit: Object.keys(fix).length > 0 ? { fix } : {} });
+  if (!id.fit.converged) throw new Error(`fit did not converge (${id.fit.stopReason})`);
+  return { fit: id.fit, diagnosis: id.diagnosis, identification: id };
 }
 
 function lookup(d: FitDiagnosis, fit: MotorFit, key: string): { value: number | null; ci: [number, number] | null } {
@@ -99,14 +99,21 @@ function lookup(d: FitDiagnosis, fit: MotorFit, key: string): { value: number | 
 }
 
 /** Scores one case. */
-export async function scoreCase(dir: string, id: string, run: (file: string) => Promise<PipelineResult> = fitLikeTheCli): Promise<CaseScore> {
+export async function scoreCase(dir: string, id: string, run: (file: string, fix: Record<string, number>) => Promise<PipelineResult> = fitLikeTheCli): Promise<CaseScore> {
   const truth = JSON.parse(readFileSync(join(dir, 'cases', id, 'truth.json'), 'utf8')) as Truth;
+  const fix: Record<string, number> = {};
+  for (const entry of truth.fixed_in_fit ?? []) {
+    const tk = entry.split(' ')[0]!;
+    const key = KEY_OF[tk];
+    const v = truth.true_parameters[tk];
+    if (key !== undefined && v !== undefined && ['R', 'L', 'Kt', 'Ke', 'J', 'b'].includes(key)) fix[key] = v;
+  }
   const effects = Object.entries(truth.effects).filter(([, on]) => on).map(([e]) => e);
   const score: CaseScore = { id, experiment: truth.experiment, effects, status: 'ok', constants: [], findings: [], falseFindings: [], effectsNamed: [], seconds: 0 };
   const t0 = performance.now();
   let result: PipelineResult | null = null;
   try {
-    result = await run(join(dir, 'cases', id, 'data.csv'));
+    result = await run(join(dir, 'cases', id, 'data.csv'), fix);
   } catch (err) {
     score.status = (err instanceof Error ? `${err.constructor.name}: ${err.message}` : String(err)).slice(0, 160);
   }
@@ -117,7 +124,8 @@ export async function scoreCase(dir: string, id: string, run: (file: string) => 
     const t = truth.true_parameters[tk] ?? (tk === 'R_plus_Rs_ohm' ? (truth.true_parameters.R_ohm ?? NaN) + (truth.true_parameters.Rs_ohm ?? NaN)
       : tk === 'b_over_J_per_s' ? (truth.true_parameters.b_Nm_s_per_rad ?? NaN) / (truth.true_parameters.J_kg_m2 ?? NaN) : NaN);
     const tol = truth.tolerance.abs[tk] ?? Math.abs(t) * 0.005;
-    const got = result === null ? { value: null, ci: null } : lookup(result.diagnosis, result.fit, key);
+    // With the heating model the simulator's R is the resistance at 20 °C.
+    const got = result === null ? { value: null, ci: null } : lookup(result.diagnosis, result.fit, key === 'R' && effects.includes('thermal') && result.diagnosis.parameters.R20 ? 'R20' : key);
     score.constants.push({
       key, truth: t, value: got.value, ci: got.ci, tolerance: tol, strength,
       errorInTolerances: got.value === null ? null : Math.abs(got.value - t) / tol,

@@ -11,10 +11,8 @@ const MOTION_KINDS = new Set(['step', 'prbs', 'multisine', 'loaded', 'steady-sta
  * ## Method
  * V = R·i + L·di/dt + Ke·ω and J·dω/dt = Kt·i − b·ω − Tc·sgn(ω). Rules, in order:
  * - R needs a current channel on a recording that is driven (not a coast-down);
- * - L needs current sampled faster than the electrical time constant: when τe = L/R is known
- *   (`electricalTimeConstant`) and τe < 2·dt on every such recording, L is not informed
- *   (the current settles between samples); a speed-only log never informs L at a sample
- *   interval longer than τe;
+ * - L needs current on a driven recording (how finely the sampling resolves τe = L/R is left to
+ *   the covariance: the exact discretisation can pin L down even when τe is shorter than dt);
  * - without a current or torque channel Kt, J and b enter the speed only as Kt/J and b/J (and
  *   R·J, so R too): J and Kt are not informed apart, and neither is R;
  * - with Kt and Ke both named (not imposed equal), Kt apart from J needs a torque channel;
@@ -78,13 +76,8 @@ export function assessIdentifiability(
             : 'no driven recording logs current; speed sees L only through the electrical time constant τe = L/R, far below the mechanical one';
           return no(why, 'a locked-rotor step with current sampled at least 10× faster than L/R');
         }
-        if (tauE !== undefined) {
-          const fastest = Math.min(...withCurrent.map((r) => r.sampleInterval));
-          if (tauE < 2 * fastest) {
-            return no(`τe = L/R ≈ ${fmt(tauE)} s is shorter than 2·dt = ${fmt(2 * fastest)} s: the current settles between samples`,
-              `a locked-rotor step with current sampled at ≥ ${fmt(10 / tauE)} Hz (10 samples per τe)`);
-          }
-        }
+        // How well the current pins L down at a given sample interval is the information
+        // matrix's call (the exact discretisation can pin L even when τe < dt), not a rule here.
         break;
       }
       case 'Kt':

@@ -1,4 +1,4 @@
-import { fitMotor } from '@motorprint/estimate';
+import { fitMotor, measuredChannel } from '@motorprint/estimate';
 import type { MotorFit, MotorRecordingInput } from '@motorprint/estimate';
 import { compareNestedModels } from './compareNestedModels.js';
 import { detectResidualCoulomb } from './detectResidualCoulomb.js';
@@ -102,8 +102,11 @@ export function diagnoseFit(fit: MotorFit, recordings: MotorRecordingInput[], op
     const voltage = rec.channels.voltage;
     const speed = rec.channels.speed;
     const speedSigma = rep.channels.find((c) => c.channel === 'speed')?.sigma ?? NaN;
+    const hasAngle = rep.channels.some((c) => c.channel === 'angle');
     for (const ch of rep.channels) {
-      const measured = rec.channels[ch.channel];
+      // An encoder speed is judged by its angle residuals (its own quantisation noise is not white).
+      if (hasAngle && ch.channel === 'speed') continue;
+      const measured = measuredChannel(rec, ch.channel);
       const res = ch.residuals;
       if (!(measured instanceof Float64Array) || res === null || res.length !== measured.length) continue;
       const predicted = new Float64Array(measured.length);
@@ -113,6 +116,7 @@ export function diagnoseFit(fit: MotorFit, recordings: MotorRecordingInput[], op
       const lag = Math.min(options.maxLag ?? Math.min(50, Math.floor(finiteRows / 4)), finiteRows - 1);
       residuals.push({ recording: rep.name, kind: rep.kind, channel: ch.channel, stats: residualStats(measured, predicted, lag) });
       const tag = (f: ReturnType<typeof detectResidualTrend>): void => { if (f) findings.push({ ...f, recording: rep.name, origin: 'fit-residuals' }); };
+      if (ch.channel !== 'current' && ch.channel !== 'speed') continue;
       tag(detectResidualTrend(rec.time, res, ch.channel, rep.kind));
       if (!fit.variant.coulomb && speed instanceof Float64Array && speed.length === res.length && rep.kind !== 'coast-down') {
         tag(detectResidualCoulomb(speed, res, ch.channel, speedSigma));

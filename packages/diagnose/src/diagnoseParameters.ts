@@ -7,6 +7,13 @@ import type { ParameterDiagnosis, RecordingDescription } from './types.js';
 
 const CONSTANTS = ['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc'] as const;
 const UNITS: Record<string, string> = { R: 'Ω', L: 'H', Kt: 'N·m/A', Ke: 'V·s/rad', J: 'kg·m²', b: 'N·m·s/rad', Tc: 'N·m' };
+const WOULD_INFORM: Record<string, string> = {
+  R: 'a locked-rotor step, or any driven run that logs current',
+  L: 'a locked-rotor step or PRBS with current sampled several times faster than L/R',
+  J: 'a free-run step, PRBS or multisine with current and speed',
+  b: 'a steady-state sweep, or a longer free-run step',
+  Tc: 'a coast-down or a steady-state sweep down to low speed',
+};
 
 /** What `diagnoseParameters` returns (internal to the package). */
 export interface ParameterPart {
@@ -61,58 +68,44 @@ export function diagnoseParameters(fit: MotorFit, descriptions: RecordingDescrip
   const verdictOf = (c: string): (typeof verdicts)[number] | undefined => verdicts.find((v) => v.name === (tied && c === 'Ke' ? 'Kt' : c));
 
   const parameters: Record<string, ParameterDiagnosis> = {};
-  for (const c of CONSTANTS) {
+  const keys = [...new Set([...CONSTANTS, ...Object.keys(fit.parameters), ...fit.notInformed.map((u) => u.name)])];
+  for (const c of keys) {
     const est = fit.parameters[c];
     const missing = fit.notInformed.find((u) => u.name === c);
     if (est === undefined) {
-      if (missing) parameters[c] = { value: null, unit: UNITS[c]!, fixed: false, standardError: null, ci95: null, identifiable: false, reason: missing.reason, wouldInform: missing.wouldInform };
+      if (missing) parameters[c] = { value: null, unit: UNITS[c] ?? '', fixed: false, standardError: null, ci95: null, identifiable: false, reason: missing.reason, wouldInform: missing.wouldInform };
       continue;
     }
     if (est.fixed === true) {
       parameters[c] = { value: est.value, unit: est.unit, fixed: true, standardError: null, ci95: null, identifiable: true };
       continue;
     }
-    const j = thetaIndex(c);
     const v = verdictOf(c);
-    const se = summary !== null && j >= 0 ? summary.standardErrors[j]! : NaN;
-    const ok = summary !== null && j >= 0 && summary.identifiable[j] === true && Number.isFinite(se) && Number.isFinite(t);
     const out: ParameterDiagnosis = { value: est.value, unit: est.unit, fixed: false, standardError: null, ci95: null, identifiable: false };
-    if (missing) { out.reason = missing.reason; out.wouldInform = missing.wouldInform; } else if (v !== undefined && !v.identifiable) {
-      out.reason = v.reason; out.wouldInform = v.wouldInform;
-    } else if (!ok) {
-      out.reason = summary === null ? 'no covariance at the optimum (too few rows, or the fit did not produce a normal matrix)'
-        : `the covariance is rank-deficient along a direction that involves ${c}`;
-      out.wouldInform = 'a recording with richer excitation (PRBS or multisine), or pin the correlated constants';
-    } else if (c === 'Tc') {
-      const th = fit.theta[j]!;
-      const scale = th !== 0 ? est.value / th : est.standardError !== undefined ? est.standardError / se : NaN;
-      if (Number.isFinite(scale) && scale !== 0) {
-        const s = Math.abs(scale) * se;
-        out.identifiable = true; out.standardError = s; out.ci95 = [est.value - t * s, est.value + t * s];
-      } else {
-        out.reason = 'the scale of the fitted Tc could not be recovered from the fit';
-      }
-    } else {
+    // The estimator states each constant's standard error and interval from the information at
+    // its optimum; a relative standard error above 50 % is not a measurement of the constant.
+    const se = est.standardError;
+    const ci = est.interval95;
+    const rse = se !== undefined && est.value !== 0 ? Math.abs(se / est.value) : NaN;
+    // The information at the optimum decides; the structural rules only explain a constant it
+    // does not pin down.
+    const pinned = se !== undefined && ci !== undefined && Number.isFinite(se) && est.identified !== false && rse <= 0.5;
+    if (missing) { out.reason = missing.reason; out.wouldInform = missing.wouldInform; } else if (pinned) {
       out.identifiable = true;
-      out.standardError = est.value * se;
-      out.ci95 = [est.value * Math.exp(-t * se), est.value * Math.exp(t * se)];
+      out.standardError = se;
+      out.ci95 = ci;
+    } else if (v !== undefined && !v.identifiable) {
+      out.reason = v.reason; out.wouldInform = v.wouldInform;
+    } else if (se === undefined || ci === undefined || !Number.isFinite(se)) {
+      out.reason = summary === null ? 'no covariance at the optimum (too few rows, or the fit did not produce a normal matrix)'
+        : `the information at the optimum has no direction for ${c} alone (it moves only together with other constants)`;
+      out.wouldInform = WOULD_INFORM[c] ?? 'a recording with richer excitation (PRBS or multisine), or pin the correlated constants';
+    } else {
+      out.reason = `the recordings pin it down only to ±${Math.round(100 * rse)} % (relative standard error above 50 %)`;
+      out.wouldInform = WOULD_INFORM[c] ?? 'a longer or richer recording';
+      out.standardError = se; out.ci95 = ci;
     }
     parameters[c] = out;
-  }
-  const kr = fit.parameters['Kt/Ke'];
-  if (kr !== undefined && !tied && summary !== null) {
-    const a = thetaIndex('Kt'), b = thetaIndex('Ke');
-    const out: ParameterDiagnosis = { value: kr.value, unit: kr.unit, fixed: false, standardError: null, ci95: null, identifiable: false };
-    if (a >= 0 && b >= 0 && summary.identifiable[a] && summary.identifiable[b]) {
-      const cv = summary.covariance;
-      const v = cv[a * p + a]! + cv[b * p + b]! - 2 * cv[a * p + b]!;
-      if (v >= 0 && Number.isFinite(v) && Number.isFinite(t)) {
-        const s = Math.sqrt(v);
-        out.identifiable = true; out.standardError = kr.value * s; out.ci95 = [kr.value * Math.exp(-t * s), kr.value * Math.exp(t * s)];
-      }
-    }
-    if (!out.identifiable) { out.reason = 'Kt or Ke has no standard error'; out.wouldInform = 'a loaded run with a torque transducer'; }
-    parameters['Kt/Ke'] = out;
   }
   // Correlation of the fitted constants (one entry for a tied K).
   const corrNames: string[] = [];

@@ -11,7 +11,11 @@ export type {
   IdentifiabilityVerdict, LjungBoxResult, RunsTestResult, ResidualStats, FindingSeverity, Finding, ModelSummary,
   ModelComparison, LinearFit, CovarianceSummary, ParameterDiagnosis, ChannelResidualDiagnosis, FindingOrigin,
   DiagnosisFinding, DiagnosisComparison, CoulombRefit, DiagnoseFitOptions, FitDiagnosis,
+  ModelCandidate, UnsupportedConstant, HeldOutCheck, Identification,
 } from './types.js';
+export { identifyMotor } from './identifyMotor.js';
+export type { IdentifyOptions } from './identifyMotor.js';
+export { checkHeldOut } from './checkHeldOut.js';
 export { diagnoseFit } from './diagnoseFit.js';
 export { detectResidualTrend } from './detectResidualTrend.js';
 export { detectResidualCoulomb } from './detectResidualCoulomb.js';

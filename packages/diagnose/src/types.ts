@@ -230,7 +230,7 @@ export interface ChannelResidualDiagnosis {
   /** Experiment kind the fit used. */
   kind: string;
   /** Channel. */
-  channel: 'current' | 'speed';
+  channel: 'current' | 'speed' | 'angle' | 'voltage';
   /** RMS, NRMSE, fit %, autocorrelation with its band, Ljung–Box, runs test. */
   stats: ResidualStats;
 }
@@ -302,4 +302,62 @@ export interface FitDiagnosis {
   comparisons: DiagnosisComparison[];
   /** The Coulomb re-fit, when one was made. */
   coulombRefit: CoulombRefit | null;
+}
+
+/** One model tried by `identifyMotor`. */
+export interface ModelCandidate {
+  /** The model's extensions of the lumped linear model. */
+  extensions: string[];
+  /** The extension this candidate adds to the model it was compared with (null for the start). */
+  added: string | null;
+  converged: boolean;
+  /** Whitened sum of squares (with the weights of the model it is compared with). */
+  ssr: number;
+  /** Fitted parameters (constants and nuisances). */
+  parameters: number;
+  /** Residual rows. */
+  rows: number;
+  /** Nested comparison with the model it extends: F-test, likelihood ratio, AIC, BIC. */
+  comparison: ModelComparison | null;
+  /** Whether it joined the chosen model. */
+  accepted: boolean;
+  /** Why, in plain words with the numbers. */
+  reason: string;
+  /** The constants it adds, as its fit gave them. */
+  effects: Record<string, { value: number; unit: string; interval95: [number, number] | null }>;
+}
+
+/** An extension the data do not support, with the bound its candidate fit set on each constant. */
+export interface UnsupportedConstant {
+  extension: string;
+  constants: string[];
+  /** Per constant: the upper end of the candidate's 95 % interval [unit], or null. */
+  bounds: Record<string, { upper95: number | null; unit: string }>;
+  reason: string;
+}
+
+/** A held-out recording predicted with the fitted constants pinned. */
+export interface HeldOutCheck {
+  /** Recording name. */
+  name: string;
+  /** Experiment kind used. */
+  kind: string;
+  /** Whether the prediction (only the recording's own nuisances free) converged. */
+  converged: boolean;
+  /** NRMSE and RMS per channel. */
+  channels: { channel: string; rms: number; nrmse: number; samples: number }[];
+}
+
+/** What `identifyMotor` returns. */
+export interface Identification {
+  /** The chosen model's fit. */
+  fit: MotorFit;
+  /** Its diagnosis: intervals, identifiability, residual statistics, findings. */
+  diagnosis: FitDiagnosis;
+  /** The chosen model and every candidate tried. */
+  model: { extensions: string[]; forced: boolean; candidates: ModelCandidate[]; summary: string };
+  /** Effect constants the data do not support (left out of the chosen model). */
+  unsupported: UnsupportedConstant[];
+  /** Held-out checks. */
+  checks: HeldOutCheck[];
 }

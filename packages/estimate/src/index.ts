@@ -36,6 +36,7 @@ export type {
 
 // Motor estimator (R, L, Kt/Ke, J, b, Tc from bench recordings).
 export { fitMotor } from './motor/fitMotor.js';
+export { measuredChannel } from './motor/measuredChannel.js';
 export { checkFitMotorOptions } from './motor/checkFitMotorOptions.js';
 export { classifyRecording } from './motor/classifyRecording.js';
 export { detectVoltageSegments } from './motor/detectVoltageSegments.js';
@@ -49,3 +50,4 @@ export type {
   MotorRecordingInput, NoiseLevel, ParameterEstimate, RecordingData, RecordingReport, StartAttempt, UninformedConstant, VoltageSegment,
 } from './motor/types.js';
 export type { InverseDynamicsInput, InverseDynamicsFit } from './motor/fitInverseDynamics.js';
+export type { ModelExtensions } from './detailed/types.js';

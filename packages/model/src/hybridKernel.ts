@@ -1,3 +1,5 @@
+import type { DetailedParams } from './types.js';
+
 /**
  * Internal kernel of `simulateHybrid`: the detailed motor model advanced piece by piece in closed
  * form. Not exported from the package; `simulateHybridInto` is the public entry.
@@ -429,3 +431,21 @@ export function steadyState(c: HybridConstants, uCmd: number, T: number, out: Fl
   }
   out[0] = i; out[1] = w; out[2] = mode;
 }
+
+/**
+ * Resolves the effect terms of `params` into the kernel's constants (absent terms off).
+ */
+export function hybridConstants(params: DetailedParams): HybridConstants {
+  const Tc = params.Tc ?? 0;
+  const thermal = params.Rth !== undefined && params.Cth !== undefined;
+  const Tref = params.referenceTemperature ?? 20;
+  const ambient = params.ambientTemperature ?? Tref;
+  return {
+    R: params.R, L: params.L, Kt: params.Kt, Ke: params.Ke, J: params.J, b: params.b,
+    Tc, Ts: Math.max(params.Ts ?? Tc, Tc), cd: params.cd ?? 0,
+    Vmax: params.Vmax ?? Infinity, Imax: params.Imax ?? Infinity, Rs: params.Rs ?? 0, load: params.loadTorque ?? 0,
+    thermal, Rth: params.Rth ?? Infinity, Cth: params.Cth ?? Infinity, ambient,
+    k: params.copperConstant ?? 234.5, Tref,
+  };
+}
+

@@ -28,6 +28,7 @@ export { copperResistance } from './copperResistance.js';
 export { simulateDetailed } from './simulateDetailed.js';
 export { simulateHybrid } from './simulateHybrid.js';
 export { simulateHybridInto } from './simulateHybridInto.js';
+export { steadyStateInto } from './steadyStateInto.js';
 export { createRandom } from './createRandom.js';
 export { prbsBits } from './prbsBits.js';
 export { generateRecording } from './generateRecording.js';

@@ -1,25 +1,8 @@
-import { advance, HELD, OPEN, RUN, STUCK, steadyState, resistanceAt } from './hybridKernel.js';
+import { advance, HELD, OPEN, RUN, STUCK, hybridConstants, steadyState, resistanceAt } from './hybridKernel.js';
 import type { HybridConstants, HybridState, PieceScratch } from './hybridKernel.js';
 import type { DetailedParams, HybridPlan, HybridTrace } from './types.js';
 
 const SS = new Float64Array(3);
-
-/**
- * Resolves the effect terms of `params` into the kernel's constants (absent terms off).
- */
-export function hybridConstants(params: DetailedParams): HybridConstants {
-  const Tc = params.Tc ?? 0;
-  const thermal = params.Rth !== undefined && params.Cth !== undefined;
-  const Tref = params.referenceTemperature ?? 20;
-  const ambient = params.ambientTemperature ?? Tref;
-  return {
-    R: params.R, L: params.L, Kt: params.Kt, Ke: params.Ke, J: params.J, b: params.b,
-    Tc, Ts: Math.max(params.Ts ?? Tc, Tc), cd: params.cd ?? 0,
-    Vmax: params.Vmax ?? Infinity, Imax: params.Imax ?? Infinity, Rs: params.Rs ?? 0, load: params.loadTorque ?? 0,
-    thermal, Rth: params.Rth ?? Infinity, Cth: params.Cth ?? Infinity, ambient,
-    k: params.copperConstant ?? 234.5, Tref,
-  };
-}
 
 /**
  * Simulates the detailed motor model piece by piece in closed form and writes the state at each
@@ -116,3 +99,4 @@ export function simulateHybridInto(out: HybridTrace, params: DetailedParams, pla
   out.events = events;
   return out;
 }
+

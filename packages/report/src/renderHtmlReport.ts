@@ -1,4 +1,5 @@
 import { autocorrelationInto } from '@motorprint/diagnose';
+import { measuredChannel } from '@motorprint/estimate';
 import { escapeXml } from './escapeXml.js';
 import { formatNumber } from './formatNumber.js';
 import { operatingCurve } from './operatingCurve.js';
@@ -65,7 +66,7 @@ function tracesSection(input: HtmlReportInput): string {
     out.push(`<p class="sub">Input: ${h(r.input.method)} — ${h(r.input.reason)}.</p>`);
     if (rec === undefined) { out.push('<p class="sub">Recording not passed to the report: traces not drawn.</p>'); return; }
     for (const c of r.channels) {
-      const measured = rec.channels[c.channel];
+      const measured = measuredChannel(rec, c.channel);
       const unit = UNIT[c.channel] ?? '';
       if (measured === undefined || c.residuals === null) {
         out.push(`<p class="sub">${h(c.channel)}: ${c.residuals === null ? 'residuals not kept by the fit' : 'channel missing from the recording'}; not drawn.</p>`);

@@ -18,9 +18,9 @@ function zScores(fit: MotorFit, m: DetailedParams): Record<string, number> {
 
 /** Starting values off by `factor` for every constant the recordings use. */
 function offStart(m: DetailedParams, names: MotorConstantName[], factor: number): Partial<Record<MotorConstantName, number>> {
-  const truth: Record<MotorConstantName, number> = { R: m.R, L: m.L, Kt: m.Kt, Ke: m.Ke, J: m.J, b: m.b, Tc: m.Tc ?? 0 };
+  const truth: Partial<Record<MotorConstantName, number>> = { R: m.R, L: m.L, Kt: m.Kt, Ke: m.Ke, J: m.J, b: m.b, Tc: m.Tc ?? 0 };
   const out: Partial<Record<MotorConstantName, number>> = {};
-  for (const k of names) out[k] = truth[k] * factor;
+  for (const k of names) out[k] = truth[k]! * factor;
   return out;
 }
 

@@ -43,6 +43,7 @@ export function classifyRecording(recording: RecordingData): { kind: MotorExperi
     }
   }
   const sv = estimateNoiseLevel(voltage).sigma;
+  if (opensCircuit(voltage, speed, sv, wmax)) return { kind: 'coast-down', reason: 'the voltage leaves its level and then follows the speed down (open-circuit voltage Ke·ω): a coast-down' };
   const segs = detectVoltageSegments(voltage, sv);
   let q = 0;
   for (const s of segs) for (let k = s.start; k < s.end; k++) q += (voltage[k]! - s.level) * (voltage[k]! - s.level);
@@ -56,4 +57,34 @@ export function classifyRecording(recording: RecordingData): { kind: MotorExperi
     return { kind: 'prbs', reason: `piecewise-constant voltage switching ${segs.length - 1} times` };
   }
   return { kind: 'steady-state', reason: 'constant voltage throughout (one operating point)' };
+}
+
+/**
+ * A coast-down logged without current: the drive voltage holds a level, then (circuit open) the
+ * terminals show Ke·ω, so v/ω stays nearly constant (coefficient of variation below 5 %) while
+ * the speed falls to under half its value at the cut.
+ */
+function opensCircuit(voltage: Float64Array, speed: Float64Array, sv: number, wmax: number): boolean {
+  const n = voltage.length;
+  // The early level from the first 0.5 % of the record (the cut may come early).
+  const head = Math.max(5, Math.floor(n / 200));
+  const sorted = Float64Array.from(voltage.subarray(0, head)).sort();
+  const v0 = sorted[head >> 1]!;
+  let k1 = -1;
+  for (let k = 1; k + 3 < n; k++) {
+    const off = (j: number): boolean => Math.abs(voltage[j]! - v0) > 6 * Math.max(sv, 1e-12);
+    if (off(k) && off(k + 1) && off(k + 2)) { k1 = k; break; }
+  }
+  if (k1 < 4 || k1 > n - 16) return false;
+  let s = 0, q = 0, m = 0;
+  for (let k = k1; k < n; k++) {
+    if (Math.abs(speed[k]!) < 0.1 * wmax) continue;
+    const r = voltage[k]! / speed[k]!;
+    s += r; q += r * r; m++;
+  }
+  if (m < 8) return false;
+  const mean = s / m, sd = Math.sqrt(Math.max(q / m - mean * mean, 0));
+  let tail = 0;
+  for (let k = n - 4; k < n; k++) tail += Math.abs(speed[k]!);
+  return mean > 0 && sd < 0.05 * mean && tail / 4 < 0.5 * Math.abs(speed[k1]!);
 }

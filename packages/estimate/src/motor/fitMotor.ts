@@ -9,10 +9,14 @@ import type { Constants, ParameterLayout, RecordingSlots, ResidualSeries } from 
 import { guessConstants } from './guessConstants.js';
 import { prepareRecording } from './prepareRecording.js';
 import { solveSymmetricSystem } from './solveSymmetricSystem.js';
+import { fitDetailed } from '../detailed/fitDetailed.js';
+import { DETAILED_CONSTANTS as DETAILED_NAMES } from '../detailed/createDetailedProblem.js';
+import type { DetailedConstant } from '../detailed/createDetailedProblem.js';
+import type { ModelExtensions } from '../detailed/types.js';
 import type { PreparedRecording } from './prepareRecording.js';
 import tQuantile from '@stdlib/stats-base-dists-t-quantile';
 import type {
-  ChannelFit, FitMotorOptions, MotorConstantName, MotorExperimentKind, MotorFit, MotorRecordingInput,
+  ChannelFit, FitMotorOptions, MotorConstantName, NoiseLevel, MotorExperimentKind, MotorFit, MotorRecordingInput,
   ParameterEstimate, RecordingReport, StartAttempt, UninformedConstant,
 } from './types.js';
 
@@ -47,9 +51,12 @@ function windowOf(r: PreparedRecording, len: number): PreparedRecording {
   };
 }
 
-const UNITS: Record<MotorConstantName, string> = { R: 'Ω', L: 'H', Kt: 'N·m/A', Ke: 'V·s/rad', J: 'kg·m²', b: 'N·m·s/rad', Tc: 'N·m' };
+/** The lumped model's constants (the streamed linear kernel fits these). */
+type LumpedName = Extract<MotorConstantName, 'R' | 'L' | 'Kt' | 'Ke' | 'J' | 'b' | 'Tc'>;
+
+const UNITS: Record<LumpedName, string> = { R: 'Ω', L: 'H', Kt: 'N·m/A', Ke: 'V·s/rad', J: 'kg·m²', b: 'N·m·s/rad', Tc: 'N·m' };
 const DEFAULTS: Constants = { R: 1, L: 1e-3, Kt: 0.05, Ke: 0.05, J: 1e-5, b: 1e-6, Tc: 0 };
-const WOULD_INFORM: Record<MotorConstantName, string> = {
+const WOULD_INFORM: Record<LumpedName, string> = {
   R: 'a locked-rotor step, or a free-run step / PRBS with current',
   L: 'a locked-rotor step sampled faster than L/R, or a PRBS / multisine with current',
   Kt: 'a free-run step, PRBS, multisine or steady-state sweep with speed (apart from Ke: a loaded run with torque)',
@@ -60,7 +67,7 @@ const WOULD_INFORM: Record<MotorConstantName, string> = {
 };
 
 /** Which constants a recording informs (before the coast-down rule on J). */
-function informs(rec: PreparedRecording): MotorConstantName[] {
+function informs(rec: PreparedRecording): LumpedName[] {
   const hasI = rec.current !== null;
   switch (rec.kind) {
     case 'locked-rotor': return ['R', 'L'];
@@ -75,7 +82,7 @@ function informs(rec: PreparedRecording): MotorConstantName[] {
 }
 
 /** Which constants the model of a recording uses. */
-function uses(kind: MotorExperimentKind, coulomb: boolean): MotorConstantName[] {
+function uses(kind: MotorExperimentKind, coulomb: boolean): LumpedName[] {
   if (kind === 'locked-rotor') return ['R', 'L'];
   if (kind === 'coast-down') return ['J', 'b', 'Tc'];
   return coulomb ? ['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc'] : ['R', 'L', 'Kt', 'Ke', 'J', 'b'];
@@ -124,11 +131,91 @@ export function fitMotor(recordings: MotorRecordingInput[], options?: FitMotorOp
   if (recordings.length === 0) throw new RangeError('fitMotor: recordings must hold at least one recording (got 0)');
   const opts = checkFitMotorOptions(options);
   const recs = recordings.map((item, i) => prepareRecording(item, i, opts.voltage));
+  opts.noise.forEach((e, i) => {
+    const r = recs[i];
+    if (e === null || e === undefined || r === undefined) return;
+    const given = (sigma: number): NoiseLevel => ({ sigma, method: 'given', quantum: null });
+    if (e.current !== undefined && r.currentNoise !== null) r.currentNoise = given(e.current);
+    const sp = r.encoder !== null ? e.angle : e.speed;
+    if (sp !== undefined && r.speedNoise !== null) r.speedNoise = { ...given(sp), quantum: r.speedNoise.quantum };
+    if (e.voltage !== undefined && r.terminalNoise !== null) r.terminalNoise = given(e.voltage);
+  });
+  let fit = fitPrepared(recs, opts);
+  // Re-weight once by the residual noise: the data-only σ of a fast-moving or quantised channel
+  // can be far from the noise the fit leaves (the detailed path does this itself).
+  if (opts.reweight && fit.converged && !needsDetailedModel(recs, { ...opts.extensions, coulomb: fit.variant.coulomb })) {
+    let moved = false;
+    fit.recordings.forEach((rep, i) => {
+      const rec = recs[i]!;
+      for (const ch of rep.channels) {
+        const noise = ch.channel === 'current' ? rec.currentNoise : ch.channel === 'speed' ? rec.speedNoise : null;
+        if (noise === null || !(ch.rms > 0) || ch.samples < 32) continue;
+        if (Math.abs(ch.rms / noise.sigma - 1) > 0.2) {
+          moved = true;
+          const next: NoiseLevel = { sigma: ch.rms, method: 'residuals', quantum: noise.quantum };
+          if (ch.channel === 'current') rec.currentNoise = next; else rec.speedNoise = next;
+        }
+      }
+    });
+    if (moved) {
+      const again = fitPrepared(recs, opts);
+      if (again.converged) fit = again;
+    }
+  }
+  return fit;
+}
+
+/** The fit of prepared recordings (see `fitMotor`). */
+function fitPrepared(recs: PreparedRecording[], opts: ReturnType<typeof checkFitMotorOptions>, engine: 'auto' | 'linear' = 'auto'): MotorFit {
 
   const coulomb = opts.coulomb === 'auto' ? recs.some((r) => r.kind === 'coast-down' || r.kind === 'steady-state') : opts.coulomb;
   const separate = recs.some((r) => r.kind === 'loaded' && r.loadTorque !== 0);
-  const names: MotorConstantName[] = ['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc'];
-  const fixed: Partial<Record<MotorConstantName, number>> = { ...opts.fix };
+  const ext = { ...opts.extensions, coulomb: coulomb || opts.extensions.coulomb === true };
+  if (!separate && engine === 'auto' && needsDetailedModel(recs, ext)) {
+    const fixedD: Partial<Record<DetailedConstant, number>> = { ...opts.fix };
+    const guesses = guessConstants(recs, fixedD as Partial<Constants>);
+    const start: Partial<Record<DetailedConstant, number>> = {};
+    const startSource: Partial<Record<DetailedConstant, string>> = {};
+    for (const [k, g] of Object.entries(guesses)) { start[k as DetailedConstant] = g.value; startSource[k as DetailedConstant] = g.source; }
+    for (const [k, v] of Object.entries(opts.initial)) { start[k as DetailedConstant] = v; startSource[k as DetailedConstant] = 'options.initial'; }
+    // The streamed linear kernel first, where it can take the recordings (a coast-down as its
+    // speed decay, an encoder speed as a speed, a jittered clock as non-uniform samples): its
+    // optimum starts the detailed fit a few steps from its own.
+    if (engine === 'auto' && opts.warmStart === null && !recs.some((r) => r.table || r.source === 'none')) {
+      try {
+        const pre = fitPrepared(recs, { ...opts, extensions: {}, coulomb: false }, 'linear');
+        if (pre.converged) {
+          for (const [k, e] of Object.entries(pre.parameters)) {
+            if (e.fixed || !(DETAILED_NAMES as readonly string[]).includes(k) || !Number.isFinite(e.value)) continue;
+            if (k === 'Tc' && !(e.value > 0)) continue;
+            start[k as DetailedConstant] = e.value;
+            startSource[k as DetailedConstant] = 'the lumped model fitted first by the streamed linear kernel';
+          }
+        }
+      } catch { /* the guesses stand */ }
+    }
+    if (ext.coulomb && !(start.Tc! > 0 && start.Tc! < runningTorque(recs, start.Kt ?? 0.05))) {
+      // 5 % of the torque the rotor runs against (Kt times the smallest running current; common
+      // practice, no source: a start, not a guess). A start above the running torque holds the
+      // rotor still, where no gradient leads back.
+      start.Tc = 0.05 * runningTorque(recs, start.Kt ?? 0.05);
+    }
+    // A warm start: the previous fit's constants (unless `initial` names them) and nuisances by name.
+    let warm: Map<string, number> | null = null;
+    if (opts.warmStart !== null) {
+      const w = opts.warmStart;
+      warm = new Map(w.fittedNames.map((name, j) => [name, w.theta[j]!]));
+      for (const [k, e] of Object.entries(w.parameters)) {
+        if (e.fixed || !(DETAILED_NAMES as readonly string[]).includes(k) || opts.initial[k as MotorConstantName] !== undefined) continue;
+        if (Number.isFinite(e.value) && e.value > 0) { start[k as DetailedConstant] = e.value; startSource[k as DetailedConstant] = 'the previous fit (warm start)'; }
+      }
+      for (const name of [...warm.keys()]) if (/^ln /.test(name)) warm.delete(name);
+    }
+    return fitDetailed(recs, { extensions: ext, fix: fixedD, start, startSource, ambient: opts.ambientTemperature, solver: opts.solver, keepResiduals: opts.keepResiduals, reweight: opts.reweight, warm });
+  }
+  const names: LumpedName[] = ['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc'];
+  const fixed: Partial<Record<LumpedName, number>> = {};
+  for (const c of ['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc'] as const) if (opts.fix[c] !== undefined) fixed[c] = opts.fix[c];
   if (!separate) {
     const k = fixed.Kt ?? fixed.Ke;
     if (k !== undefined) { fixed.Kt = k; fixed.Ke = k; }
@@ -136,8 +223,8 @@ export function fitMotor(recordings: MotorRecordingInput[], options?: FitMotorOp
   if (!coulomb && fixed.Tc === undefined) fixed.Tc = 0;
 
   // Who informs what; who uses what.
-  const informedBy: Record<MotorConstantName, string[]> = { R: [], L: [], Kt: [], Ke: [], J: [], b: [], Tc: [] };
-  const used = new Set<MotorConstantName>();
+  const informedBy: Record<LumpedName, string[]> = { R: [], L: [], Kt: [], Ke: [], J: [], b: [], Tc: [] };
+  const used = new Set<LumpedName>();
   for (const r of recs) {
     for (const c of informs(r)) informedBy[c].push(r.name);
     for (const c of uses(r.kind, coulomb)) used.add(c);
@@ -169,7 +256,7 @@ export function fitMotor(recordings: MotorRecordingInput[], options?: FitMotorOp
   // Layout of θ: constants the model uses and nobody pinned, then nuisance.
   const theta0: number[] = [];
   const thetaNames: string[] = [];
-  const idx = (c: MotorConstantName): number => {
+  const idx = (c: LumpedName): number => {
     if (fixed[c] !== undefined || !used.has(c)) return -1;
     if (c === 'Ke' && !separate) return -2; // filled below
     thetaNames.push(c === 'Tc' ? 'Tc' : `ln ${c === 'Kt' && !separate ? 'K' : c}`);
@@ -506,4 +593,30 @@ function polishJointly(
     jEvals++;
   }
   return { theta, JtJ: Float64Array.from(acc.JtJ), ssr, rows: acc.rows, linear, residuals, jacobianEvaluations: jEvals, functionEvaluations: fEvals };
+}
+
+/**
+ * Whether the fit needs the detailed model's simulator rather than the streamed linear kernel:
+ * any extension (Coulomb friction included), or a recording the linear kernel does not model (a
+ * coast-down, an encoder angle, a jittered clock, a table of steady points, no voltage at all).
+ */
+function needsDetailedModel(recs: PreparedRecording[], ext: ModelExtensions): boolean {
+  // Friction of either sign (reversals, sticking at rest) needs the event-locating simulator.
+  if (ext.coulomb || ext.stiction || ext.drag || ext.voltageLimit || ext.currentLimit || ext.heating) return true;
+  return recs.some((r) => r.kind === 'coast-down' || r.encoder !== null || r.grid !== null || r.table || r.source === 'none');
+}
+
+/** Kt·|i| over the last tenth of the driven recordings that log current (or of a coast-down's plateau); the smallest. */
+function runningTorque(recs: PreparedRecording[], Kt: number): number {
+  let best = Infinity;
+  for (const r of recs) {
+    if (r.current === null || r.kind === 'locked-rotor') continue;
+    const n = r.current.length;
+    const [a, b] = r.kind === 'coast-down' ? [0, Math.max(1, r.first - 1)] : [Math.floor(0.9 * n), n];
+    let s = 0;
+    for (let k = a; k < b; k++) s += r.current[k]!;
+    const i = Math.abs(s / Math.max(b - a, 1));
+    if (i > 0) best = Math.min(best, Kt * i);
+  }
+  return Number.isFinite(best) ? best : 1e-3 * Kt;
 }

@@ -127,6 +127,32 @@ export function guessConstants(recs: PreparedRecording[], fixed: Partial<Constan
         }
       }
     } else if (rec.kind === 'coast-down' && rec.speed !== null) {
+      if (rec.drivenBeforeCut && rec.drive !== null && rec.first > 4) {
+        // The driven plateau before the cut and the open-circuit voltage after it.
+        const k1 = rec.first;
+        const V0 = mean(rec.drive, 0, k1 - 1), w0 = mean(rec.speed, 0, k1 - 1);
+        let sv = 0, sw = 0;
+        for (let k = k1 + 1; k < n; k++) { sv += rec.drive[k]! * rec.speed[k]!; sw += rec.speed[k]! * rec.speed[k]!; }
+        const Ke = sw > 0 ? sv / sw : NaN;
+        if (Number.isFinite(Ke) && Ke > 0) {
+          set('Ke', Ke, `coast-down "${rec.name}": open-circuit voltage = Ke·ω`, true);
+          set('Kt', Ke, `coast-down "${rec.name}": Kt = Ke`, true);
+          if (rec.current !== null) {
+            const i0 = mean(rec.current, 0, k1 - 1);
+            set('R', (V0 - Ke * w0) / i0, `coast-down "${rec.name}": R = (V − Ke·ω)/i on the driven plateau`, true);
+            set('b', (Ke * i0) / w0, `coast-down "${rec.name}": b = Kt·i/ω on the driven plateau`, true);
+          }
+        }
+        // Decay rate from ln ω over the first half of the fall.
+        const X: number[] = [], Y: number[] = [], C: number[] = [];
+        for (let k = k1; k < n; k++) {
+          const w = rec.speed[k]! * rec.direction;
+          if (w > 0.5 * Math.abs(w0)) { X.push(rec.time[k]! - rec.time[k1]!); Y.push(Math.log(w)); C.push(1); }
+        }
+        const ls = linearFit([X, C], Y);
+        if (ls !== null && g.b !== undefined && -ls[0]! > 0) set('J', g.b.value / -ls[0]!, `coast-down "${rec.name}": J = b/(decay rate)`, true);
+        continue;
+      }
       const seg = rec.speed.subarray(rec.first);
       const w = zeroPhaseLowPass(seg, rec.h, 0.05 / rec.h);
       const dw = derivative(w, rec.h);
@@ -134,7 +160,8 @@ export function guessConstants(recs: PreparedRecording[], fixed: Partial<Constan
       const X: number[] = [], Y: number[] = [], C: number[] = [];
       for (let k = 2; k + 2 < w.length; k++) if (Math.abs(w[k]!) > 0.02 * w0) { X.push(w[k]! * rec.direction); C.push(1); Y.push(-dw[k]! * rec.direction); }
       const ls = linearFit([X, C], Y);
-      const J = fixed.J ?? g.J?.value ?? 1e-5;
+      const J = fixed.J ?? g.J?.value ?? 1e-4;
+      if (g.J === undefined && fixed.J === undefined) set('J', J, `coast-down "${rec.name}": a unit for the ratios to J (J is not seen from speed alone)`);
       if (ls !== null) {
         set('b', ls[0]! * J, `coast-down "${rec.name}": dω/dt = −(b/J)·ω − Tc/J`);
         set('Tc', ls[1]! * J, `coast-down "${rec.name}": dω/dt = −(b/J)·ω − Tc/J`);

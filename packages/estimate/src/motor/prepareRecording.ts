@@ -1,4 +1,7 @@
 import { classifyRecording } from './classifyRecording.js';
+import { detectEncoderSpeed } from './detectEncoderSpeed.js';
+import { nominalTimeGrid } from './nominalTimeGrid.js';
+import type { NominalGrid } from './nominalTimeGrid.js';
 import { detectVoltageSegments } from './detectVoltageSegments.js';
 import { estimateNoiseLevel } from './estimateNoiseLevel.js';
 import { rebuildCommand } from './rebuildCommand.js';
@@ -44,6 +47,27 @@ export interface PreparedRecording {
   baseline: boolean;
   /** Torque channel summary of a loaded run (the load level becomes a nuisance with torque rows), else null. */
   torqueStats: ChannelSummary | null;
+  /**
+   * Which logged voltage drives the model: the terminal voltage, the supply (then R stands for
+   * R + Rs), the drive's command (then its limits may show), or none (a speed-only coast-down).
+   */
+  source: 'terminal' | 'supply' | 'command' | 'none';
+  /** The logged drive voltage the input was rebuilt from (terminal, supply or command) [V], or null. */
+  drive: Float64Array | null;
+  /** Terminal voltage rows of the detailed fit (open-circuit voltage after a coast-down's cut) [V], or null. */
+  terminal: Float64Array | null;
+  /** Noise of `terminal`, or null. */
+  terminalNoise: NoiseLevel | null;
+  /** Angle quantum [rad] when the speed was computed from encoder counts (the fit then uses the angle), else null. */
+  encoder: number | null;
+  /** The command's own clock when the sample instants are jittered about it, else null. */
+  grid: NominalGrid | null;
+  /** A coast-down that logs the driven plateau before the circuit opens (voltage or current before the cut). */
+  drivenBeforeCut: boolean;
+  /** The experiment was declared or detected as a table of steady operating points. */
+  table: boolean;
+  /** Per-row SDs of a table [SI] (current, speed, voltage), or null. */
+  spread: { current: Float64Array | null; speed: Float64Array | null; voltage: Float64Array | null } | null;
 }
 
 /** Sufficient statistics of samples that share one level: count, mean, Σ(x − mean)², noise σ. */
@@ -109,7 +133,7 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
   }
   if (rec.channels === null || typeof rec.channels !== 'object') throw new TypeError(`${where}.recording.channels must be an object`);
   const stats = new Map<Float64Array, { maxAbs: number; sum: number }>();
-  const channel = (name: 'voltage' | 'current' | 'speed' | 'torque'): Float64Array | null => {
+  const channel = (name: 'voltage' | 'supplyVoltage' | 'commandVoltage' | 'current' | 'speed' | 'torque'): Float64Array | null => {
     const v = rec.channels[name];
     if (v === undefined) return null;
     if (!(v instanceof Float64Array)) throw new TypeError(`${where}.recording.channels.${name} must be a Float64Array`);
@@ -126,12 +150,18 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
     stats.set(v, { maxAbs, sum });
     return v;
   };
-  const voltage = channel('voltage');
+  const terminalV = channel('voltage');
+  const supplyV = channel('supplyVoltage');
+  const commandV = channel('commandVoltage');
   const current = channel('current');
   const speed = channel('speed');
   const torque = channel('torque');
-  if (voltage === null) throw new TypeError(`${where}.recording.channels.voltage is missing (every experiment needs the terminal voltage)`);
+  // The drive voltage: measured at the terminals when logged; else the drive's command (its limits
+  // may then show); else the supply (R then stands for R + Rs); else none (speed-only coast).
+  const source: PreparedRecording['source'] = terminalV !== null ? 'terminal' : commandV !== null ? 'command' : supplyV !== null ? 'supply' : 'none';
+  const voltage = terminalV ?? commandV ?? supplyV;
   if (current === null && speed === null) throw new TypeError(`${where}.recording.channels needs current or speed (got neither)`);
+  const table = rec.layout === 'table';
   const name = item.name ?? `recording ${index}`;
   if (typeof name !== 'string') throw new TypeError(`${where}.name must be a string`);
 
@@ -144,11 +174,22 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
     kind = item.kind;
     kindSource = 'declared';
     kindReason = 'declared by the caller';
+  } else if (table) {
+    kind = 'steady-state';
+    kindSource = 'guessed';
+    kindReason = 'a table of steady operating points (one row each, no time column)';
+  } else if (voltage === null) {
+    kind = 'coast-down';
+    kindSource = 'guessed';
+    kindReason = 'no voltage logged: only a coast-down (free deceleration) can be fitted from speed alone';
   } else {
-    const g = classifyRecording(rec);
+    const g = classifyRecording({ time, channels: { ...rec.channels, voltage } });
     kind = g.kind;
     kindSource = 'guessed';
     kindReason = g.reason;
+  }
+  if (voltage === null && kind !== 'coast-down') {
+    throw new TypeError(`${where}: a ${kind} recording needs a voltage channel (terminal, supply or command); without one only a coast-down can be fitted`);
   }
   const needs: Record<MotorExperimentKind, ('current' | 'speed' | 'torque')[]> = {
     'locked-rotor': ['current'], step: ['speed'], 'coast-down': ['speed'], 'steady-state': ['current', 'speed'],
@@ -168,17 +209,24 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
     const maxAbs = stats.get(v)!.maxAbs;
     return { ...lvl, sigma: Math.max(lvl.sigma, FLOOR * Math.max(maxAbs, 1)) };
   };
-  const currentNoise = kind === 'coast-down' ? null : noise(current);
-  const speedNoise = kind === 'locked-rotor' ? null : noise(speed);
+  const encoder = speed !== null && kind !== 'locked-rotor' && !table ? detectEncoderSpeed(time, speed) : null;
+  const currentNoise = kind === 'coast-down' && !(voltage !== null && current !== null) ? null : noise(current);
+  let speedNoise = kind === 'locked-rotor' ? null : noise(speed);
+  // Encoder speed: the fit compares angles, whose quantisation error q/√12 is close to white.
+  if (encoder !== null && speedNoise !== null) speedNoise = { sigma: encoder / Math.sqrt(12), method: 'quantisation', quantum: encoder };
+  const grid = table ? null : nominalTimeGrid(time);
 
   let input: Float64Array;
   let handling: InputHandling;
   let segments: VoltageSegment[] | null = null;
   let sines: SineModel | null = null;
   let first = 0;
-  if (kind === 'coast-down') {
-    first = findCoastStart(current, speed!, speedNoise!.sigma);
-    const vs = estimateNoiseLevel(voltage).sigma;
+  if (table) {
+    input = Float64Array.from(voltage!);
+    handling = { method: 'measured', reason: 'steady operating points: each row\'s voltage is the input of its point', stepTime: null, residualRatio: 0, voltageSigma: NaN };
+  } else if (kind === 'coast-down') {
+    first = findCoastStart(current, speed!, speedNoise!.sigma, voltage);
+    const vs = voltage === null ? NaN : estimateNoiseLevel(voltage).sigma;
     input = new Float64Array(n);
     handling = {
       method: 'not-used',
@@ -188,15 +236,22 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
       voltageSigma: vs,
     };
   } else {
-    const rb = rebuildCommand(time, voltage, voltageMode);
-    if (rb.sineBasis !== undefined) sines = sineModel(rb.sineBasis, voltage, rb.voltage);
+    const rb = rebuildCommand(time, voltage!, voltageMode);
+    if (rb.sineBasis !== undefined) sines = sineModel(rb.sineBasis, voltage!, rb.voltage);
     input = rb.voltage;
     handling = rb.handling;
-    segments = rb.segments ?? (kind === 'steady-state' ? detectVoltageSegments(voltage, handling.voltageSigma) : null);
+    segments = rb.segments ?? (kind === 'steady-state' ? detectVoltageSegments(voltage!, handling.voltageSigma) : null);
   }
-  const levels = handling.method === 'segment-means' && hasSegments(segments) ? buildLevels(voltage, segments!, handling.voltageSigma) : null;
+  let levels = handling.method === 'segment-means' && hasSegments(segments) && !table ? buildLevels(voltage!, segments!, handling.voltageSigma) : null;
+  if (kind === 'coast-down' && voltage !== null && first > 8) {
+    // The driven plateau before the cut: one level, its voltage samples as rows (the sample just
+    // before the cut is left out: the cut may fall inside its interval).
+    const plateau = summarise(voltage, 0, first - 1);
+    levels = { classOf: new Int32Array(n), classes: [{ ...plateau, sigma: handling.voltageSigma }], switches: new Int32Array(0) };
+    input.fill(plateau.mean);
+  }
   let baseline = false;
-  if (levels !== null && segments!.length > 1) {
+  if (levels !== null && segments !== null && segments.length > 1) {
     const s0 = segments![0]!;
     const top = Math.max(...segments!.map((s) => Math.abs(s.level)));
     baseline = s0.end - s0.start >= 8 && Math.abs(s0.level) <= 0.02 * top;
@@ -206,11 +261,20 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
   const loadTorque = torqueStats === null ? 0 : torqueStats.mean;
   let direction: 1 | -1 = 1;
   if (speed !== null) direction = stats.get(speed)!.sum >= 0 ? 1 : -1;
+  // A coast-down that shows the driven plateau before the cut (voltage or current there).
+  const drivenBeforeCut = kind === 'coast-down' && voltage !== null && first > 8;
+  const terminal = drivenBeforeCut && source === 'terminal' ? terminalV : null;
+  const spreadOf = (c: 'current' | 'speed' | 'voltage'): Float64Array | null => {
+    const v = rec.spread?.[c];
+    return v instanceof Float64Array && v.length === n ? v : null;
+  };
   return {
     name, kind, kindSource, kindReason, time, timeBase, h, input, handling, segments,
-    current: kind === 'coast-down' ? null : current,
+    current: kind === 'coast-down' && !drivenBeforeCut ? null : current,
     speed: kind === 'locked-rotor' ? null : speed,
     currentNoise, speedNoise, loadTorque, first, direction, levels, sines, baseline, torqueStats,
+    source, drive: voltage, terminal, terminalNoise: terminal === null ? null : noise(terminal), encoder, grid, drivenBeforeCut, table,
+    spread: table ? { current: spreadOf('current'), speed: spreadOf('speed'), voltage: spreadOf('voltage') } : null,
   };
 }
 
@@ -304,19 +368,31 @@ function buildLevels(voltage: Float64Array, segs: VoltageSegment[], sigma: numbe
  * (when the current is clearly above its noise), else where the smoothed speed first falls 6σ
  * below its early plateau. Errs late (a late start only loses samples; an early one would bias).
  */
-function findCoastStart(current: Float64Array | null, speed: Float64Array, sigmaW: number): number {
+function findCoastStart(current: Float64Array | null, speed: Float64Array, sigmaW: number, voltage: Float64Array | null): number {
   const n = speed.length;
-  const head = Math.max(4, Math.floor(n / 20));
+  // The early (driven) level from the first 0.5 % of the record: the cut may come early.
+  const head = Math.max(5, Math.floor(n / 200));
   if (current !== null) {
+    // The current falls to zero at the cut.
     const cs = estimateNoiseLevel(current).sigma;
     let s = 0;
     for (let k = 0; k < head; k++) s += current[k]!;
     const i0 = s / head;
     if (Math.abs(i0) > 4 * cs) {
-      for (let k = head + 5; k < n; k++) {
-        const m5 = (current[k - 4]! + current[k - 3]! + current[k - 2]! + current[k - 1]! + current[k]!) / 5;
-        if (Math.abs(m5) < 0.5 * Math.abs(i0)) return Math.min(k + 1, n - 8);
+      const half = 0.5 * Math.abs(i0);
+      for (let k = 2; k + 2 < n; k++) {
+        if (Math.abs(current[k]!) < half && Math.abs(current[k + 1]!) < half && Math.abs(current[k + 2]!) < half) return Math.min(k, n - 8);
       }
+    }
+  }
+  if (voltage !== null) {
+    // The drive voltage holds its level until the cut; the open-circuit voltage Ke·ω then follows
+    // the speed down: the first sample that leaves the early level by more than 6σ for good.
+    const vs = Math.max(estimateNoiseLevel(voltage).sigma, 1e-12);
+    const sorted = Float64Array.from(voltage.subarray(0, head)).sort();
+    const v0 = sorted[head >> 1]!;
+    for (let k = 1; k + 3 < n; k++) {
+      if (Math.abs(voltage[k]! - v0) > 6 * vs && Math.abs(voltage[k + 1]! - v0) > 6 * vs && Math.abs(voltage[k + 2]! - v0) > 6 * vs) return Math.min(k, n - 8);
     }
   }
   const sorted = Float64Array.from(speed.subarray(0, head)).sort();

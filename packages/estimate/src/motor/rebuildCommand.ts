@@ -110,6 +110,43 @@ export function rebuildCommand(time: Float64Array, voltage: Float64Array, mode: 
   const h = (time[n - 1]! - time[0]!) / (n - 1);
   let sines = fitSines(voltage, h);
   let harmonic = false;
+  // A periodic excitation (the usual multisine design): the period P [samples] shows as
+  // x_k ≈ x_{k+P}; the differences give the noise free of the signal, σ = RMS(x_k − x_{k+P})/√2,
+  // and the input is the significant harmonics of 1/(P·h).
+  const period = sines !== null ? detectPeriod(voltage, h) : null;
+  if (period !== null) {
+    const sigmaP = period.sigma;
+    const K = Math.min(Math.floor(period.samples / 2) - 1, Math.max(1, Math.round(sines!.fmaxPeak * period.samples * h * 1.5)), 400);
+    let cand = fitHarmonics(voltage, h, 1 / (period.samples * h), K, sigmaP, sines!.fmaxPeak, false);
+    // A few samples far off the periodic pattern (more than 6σ; at most 1 %) are left out: they
+    // are replaced by the fit and the harmonics fitted again.
+    let cleaned = voltage;
+    if (cand !== null) {
+      const off: number[] = [];
+      for (let k = 0; k < n; k++) if (Math.abs(voltage[k]! - cand.values[k]!) > 6 * sigmaP) off.push(k);
+      if (off.length > 0 && off.length <= 0.01 * n) {
+        cleaned = Float64Array.from(voltage);
+        for (const k of off) cleaned[k] = cand.values[k]!;
+        cand = fitHarmonics(cleaned, h, 1 / (period.samples * h), K, sigmaP, sines!.fmaxPeak, false);
+      }
+    }
+    if (cand !== null && rmsDiff(cleaned, cand.values) / Math.max(sigmaP, 1e-300) < ACCEPT_RATIO) {
+      const ratio = rmsDiff(cleaned, cand.values) / Math.max(sigmaP, 1e-300);
+      return {
+        voltage: cand.values,
+        handling: {
+          method: 'sine-fit',
+          reason: `periodic input (period ${period.samples} samples): ${cand.frequencies.length} significant harmonic(s) of ${fmt(1 / (period.samples * h))} Hz explain it to ${fmt(ratio)}σ (σ = ${fmt(sigmaP)} V from period-to-period differences)`,
+          frequencies: cand.frequencies,
+          stepTime: null,
+          residualRatio: ratio,
+          voltageSigma: sigmaP,
+        },
+        segments: null,
+        sineBasis: { omega: cand.omega, coefficients: cand.coefficients, gram: cand.gram },
+      };
+    }
+  }
   if (sines !== null && !(rmsDiff(voltage, sines.values) / Math.max(sigma, 1e-300) < ACCEPT_RATIO)) {
     // Periodic excitation over the whole record (the usual multisine design): harmonics of
     // 1/((n − 1)·h) or 1/(n·h) up to the highest significant spectral peak; the spectral peaks of
@@ -311,7 +348,7 @@ function fitSineBasis(v: Float64Array, h: number, freqs: number[], fmaxPeak: num
  * chi-square), then refines f0 by three parabolic steps on the residual sum of squares (the record
  * need not hold a whole number of periods exactly).
  */
-function fitHarmonics(v: Float64Array, h: number, f0: number, K: number, sigma: number, fmaxPeak: number): SineFit | null {
+function fitHarmonics(v: Float64Array, h: number, f0: number, K: number, sigma: number, fmaxPeak: number, refine = true): SineFit | null {
   const n = v.length;
   const all = fitSineBasis(v, h, Array.from({ length: K }, (_, j) => (j + 1) * f0), fmaxPeak);
   if (all === null) return null;
@@ -332,6 +369,7 @@ function fitHarmonics(v: Float64Array, h: number, f0: number, K: number, sigma: 
   };
   let f = f0;
   let best = rssAt(f);
+  if (!refine) return best.fit;
   // Step: a tenth of the frequency change that moves the highest kept harmonic by one bin over the record.
   let step = 0.1 / (keep[keep.length - 1]! * n * h);
   for (let it = 0; it < 3; it++) {
@@ -345,4 +383,56 @@ function fitHarmonics(v: Float64Array, h: number, f0: number, K: number, sigma: 
     step *= 0.3;
   }
   return best.fit;
+}
+
+/**
+ * The period of a periodic input in samples, from candidates P = m/(f·h) ± 2 built from the six
+ * strongest tones f of its Hann-windowed spectrum (m = 1…64: the base frequency may lie below
+ * every tone): the P with the smallest
+ * RMS(x_k − x_{k+P}), accepted when that RMS is below a tenth of the series' SD and at least two
+ * periods fit in the record. σ = RMS/√2 (each difference holds two independent noise samples).
+ */
+function detectPeriod(x: Float64Array, h: number): { samples: number; sigma: number } | null {
+  const n = x.length;
+  if (n < 32) return null;
+  // The strongest tones of a Hann-windowed spectrum (the window keeps side lobes from posing as tones).
+  const { magnitude, length } = fourierMagnitudes(x, 4, 'hann');
+  const tops: { f: number; m: number }[] = [];
+  for (let k = 2; k + 1 < magnitude.length; k++) {
+    const m = magnitude[k]!;
+    if (m >= magnitude[k - 1]! && m > magnitude[k + 1]!) tops.push({ f: k / (length * h), m });
+  }
+  tops.sort((a, b) => b.m - a.m);
+  const peaks = tops.slice(0, 6).map((t) => t.f);
+  if (peaks.length === 0) return null;
+  let m = 0;
+  for (let k = 0; k < n; k++) m += x[k]!;
+  m /= n;
+  let sd = 0;
+  for (let k = 0; k < n; k++) sd += (x[k]! - m) ** 2;
+  sd = Math.sqrt(sd / n);
+  const cands = new Set<number>();
+  for (const f of peaks) {
+    for (let mult = 1; mult <= 64; mult++) {
+      const P = Math.round(mult / (f * h));
+      for (let q = P - 2; q <= P + 2; q++) if (q >= 8 && 2 * q <= n) cands.add(q);
+    }
+  }
+  let best: { samples: number; rms: number } | null = null;
+  for (const q of cands) {
+    {
+      const d = new Float64Array(n - q);
+      for (let k = 0; k + q < n; k++) d[k] = Math.abs(x[k + q]! - x[k]!);
+      // Robust RMS: the central 96 % (a few samples may differ for reasons of their own), over
+      // 0.9346, what a Gaussian keeps after that trim.
+      d.sort();
+      const keep = Math.max(1, Math.floor(0.96 * d.length));
+      let s = 0;
+      for (let k = 0; k < keep; k++) s += d[k]! * d[k]!;
+      const rms = Math.sqrt(s / keep) / 0.9346;
+      if (best === null || rms < best.rms - 1e-12 * sd) best = { samples: q, rms };
+    }
+  }
+  if (best === null || !(best.rms < 0.1 * sd)) return null;
+  return { samples: best.samples, sigma: best.rms / Math.SQRT2 };
 }

@@ -3,9 +3,11 @@
  */
 import type { ExperimentKind } from '@motorprint/model';
 import type { SolverOptions, StopReason } from '../solver/types.js';
+import type { ModelExtensions } from '../detailed/types.js';
 
 /** Names of the measured channels a recording may carry (SI: V, A, rad/s, rad, N·m, °C). */
-export type MotorChannel = 'voltage' | 'current' | 'speed' | 'position' | 'torque' | 'temperature';
+export type MotorChannel =
+  | 'voltage' | 'supplyVoltage' | 'commandVoltage' | 'current' | 'speed' | 'position' | 'torque' | 'temperature';
 
 /**
  * The part of an ingested recording the estimator reads. `Recording` from `@motorprint/ingest`
@@ -14,8 +16,16 @@ export type MotorChannel = 'voltage' | 'current' | 'speed' | 'position' | 'torqu
 export interface RecordingData {
   /** Sample times [s], strictly increasing. */
   time: Float64Array;
-  /** Channels in SI: voltage [V], current [A], speed [rad/s], position [rad], torque [N·m], temperature [°C]. */
+  /**
+   * Channels in SI: voltage [V] (at the motor terminals), supplyVoltage [V] (bus or battery, before
+   * any source resistance), commandVoltage [V] (what the drive was told to apply), current [A],
+   * speed [rad/s], position [rad], torque [N·m], temperature [°C].
+   */
   channels: Partial<Record<MotorChannel, Float64Array>>;
+  /** `table`: one row per steady operating point, `time` is only the row number. @default 'series' */
+  layout?: 'series' | 'table';
+  /** Per-row standard deviations of a table's channels [SI], when the file gives them. */
+  spread?: Partial<Record<MotorChannel, Float64Array>>;
 }
 
 /**
@@ -35,14 +45,14 @@ export interface MotorRecordingInput {
 }
 
 /** Names of the physical constants the estimator can fit. */
-export type MotorConstantName = 'R' | 'L' | 'Kt' | 'Ke' | 'J' | 'b' | 'Tc';
+export type MotorConstantName = 'R' | 'L' | 'Kt' | 'Ke' | 'J' | 'b' | 'Tc' | 'Ts' | 'c' | 'Vmax' | 'Imax' | 'Rth' | 'Cth';
 
 /** A noise level estimated from the data (see `estimateNoiseLevel`). */
 export interface NoiseLevel {
   /** Standard deviation of the white measurement noise, in the channel's unit. */
   sigma: number;
   /** Which estimator gave it. */
-  method: 'second-difference' | 'quantisation' | 'settled-segment' | 'constant' | 'exact';
+  method: 'second-difference' | 'quantisation' | 'settled-segment' | 'constant' | 'exact' | 'residuals' | 'given';
   /** Quantisation step seen in the data when the quantisation fallback was used, else null. */
   quantum: number | null;
 }
@@ -96,6 +106,12 @@ export interface ParameterEstimate {
   interval95?: [number, number];
   /** Names of the recordings that inform it. */
   informedBy?: string[];
+  /**
+   * False when the information at the optimum does not pin the constant down (relative standard
+   * error above 50 %, or a direction the covariance drops): the value is then not a measurement.
+   * Absent means identified.
+   */
+  identified?: boolean;
 }
 
 /** A constant that the given recordings do not inform. */
@@ -110,12 +126,12 @@ export interface UninformedConstant {
 
 /** Per channel fit quality of one recording. */
 export interface ChannelFit {
-  /** Channel name. */
-  channel: 'current' | 'speed';
-  /** Noise σ used for whitening, in the channel's unit. */
+  /** Channel name (`angle`: an encoder speed compared as the angle it integrates to; `voltage`: open-circuit terminal voltage). */
+  channel: 'current' | 'speed' | 'angle' | 'voltage';
+  /** Noise σ used for whitening, in the channel's unit (NaN for an encoder speed, which is fitted as its angle). */
   sigma: number;
-  /** How σ was obtained. */
-  sigmaMethod: NoiseLevel['method'];
+  /** How σ was obtained (`residuals`: re-estimated from the fit's residuals). */
+  sigmaMethod: NoiseLevel['method'] | 'encoder';
   /** Number of samples entering the fit. */
   samples: number;
   /** RMS of (model − measured) [channel unit]. */
@@ -158,6 +174,8 @@ export interface MotorFit {
     torqueConstant: 'equal' | 'separate';
     /** Whether Coulomb friction Tc is part of the model. */
     coulomb: boolean;
+    /** Extensions of the lumped model in the fit (see `ModelExtensions`); absent or empty for the lumped model. */
+    extensions?: string[];
     /** Plain-words description. */
     description: string;
   };
@@ -173,6 +191,10 @@ export interface MotorFit {
    * standard error of the optimum (see the README, "Motor estimator").
    */
   normalMatrix: Float64Array;
+  /** Covariance of θ at the optimum, s²(JᵀJ)⁺ (p×p row-major), or null when it could not be formed. */
+  covariance?: Float64Array | null;
+  /** Degrees of freedom rows − p of the intervals. */
+  degreesOfFreedom?: number;
   /** Sum of squared whitened residuals at the optimum. */
   ssr: number;
   /** Number of residual rows. */
@@ -233,10 +255,31 @@ export interface FitMotorOptions {
    * @default 'auto'
    */
   voltage?: 'auto' | 'measured';
-  /** Fit Coulomb friction Tc: `auto` when a coast-down or steady-state recording is given. @default 'auto' */
+  /**
+   * Fit Coulomb friction Tc: true, false, or `auto` (when a coast-down or steady-state recording is
+   * given). @default false — `identifyMotor` (in `@motorprint/diagnose`) chooses the model the data support.
+   */
   coulomb?: 'auto' | boolean;
   /** Keep residual series in the result. @default true */
   keepResiduals?: boolean;
   /** Solver limits and tolerances. @default the solver's defaults, with maxIterations 100 */
   solver?: SolverOptions;
+  /** Extensions of the lumped model to fit (friction, drag, drive limits, heating). @default none (Coulomb per `coulomb`) */
+  extensions?: ModelExtensions;
+  /**
+   * Noise SDs to whiten with, per recording (in the order given) and channel [A, rad/s, rad for an
+   * encoder angle, V]; they replace the estimates from the data. Model comparisons pass the SDs of
+   * the model they compare against, so that both sums of squares use the same weights.
+   */
+  noise?: ({ current?: number; speed?: number; angle?: number; voltage?: number } | null)[];
+  /** Re-estimate each channel's noise SD from the residuals and fit again when one moved by more than 20 %. @default true */
+  reweight?: boolean;
+  /**
+   * A previous fit of the same recordings to start from: its constants and nuisances (input
+   * levels, offsets, initial speeds, cut instants, by name) replace the automatic starts, so a
+   * model that extends it starts at its optimum. `initial` still wins for the constants it names.
+   */
+  warmStart?: MotorFit;
+  /** Ambient temperature for the heating model [°C]; the winding starts at it. @default 25 */
+  ambientTemperature?: number;
 }

@@ -1,0 +1,212 @@
+import { fitMotor } from '@motorprint/estimate';
+import type { FitMotorOptions, ModelExtensions, MotorFit, MotorRecordingInput } from '@motorprint/estimate';
+import { checkHeldOut } from './checkHeldOut.js';
+import { compareNestedModels } from './compareNestedModels.js';
+import { diagnoseFit } from './diagnoseFit.js';
+import type { FitDiagnosis, HeldOutCheck, Identification, ModelCandidate, UnsupportedConstant } from './types.js';
+
+/** Options of `identifyMotor`. */
+export interface IdentifyOptions {
+  /** Options of every fit (pinned constants, starts, voltage handling, solver, ambient temperature). @default {} */
+  fit?: Omit<FitMotorOptions, 'extensions' | 'coulomb' | 'noise' | 'reweight'>;
+  /**
+   * `auto`: the extensions the data support are chosen by nested comparisons; an object forces
+   * exactly those extensions (nothing is compared). @default 'auto'
+   */
+  model?: 'auto' | ModelExtensions;
+  /** Significance level of the nested F-test. @default 0.01 */
+  alpha?: number;
+  /** Held-out recordings to predict with the chosen constants. @default [] */
+  checks?: MotorRecordingInput[];
+}
+
+type Extension = keyof ModelExtensions;
+const ORDER: Extension[] = ['coulomb', 'drag', 'voltageLimit', 'currentLimit', 'heating', 'stiction'];
+const EFFECT_CONSTANTS: Record<Extension, string[]> = {
+  coulomb: ['Tc'], stiction: ['Ts'], drag: ['c'], voltageLimit: ['Vmax'], currentLimit: ['Imax'], heating: ['Rth', 'Cth'],
+};
+const WORDS: Record<Extension, string> = {
+  coulomb: 'Coulomb friction', stiction: 'stiction (breakaway above Coulomb friction)', drag: 'speed-squared drag',
+  voltageLimit: 'a drive voltage limit', currentLimit: 'a drive current limit', heating: 'winding heating',
+};
+
+/**
+ * Identifies a motor from bench recordings in one call: fits the lumped model, diagnoses it, and
+ * — unless the caller forces a model — adds the extensions of the detailed model (Coulomb
+ * friction, drag, drive voltage and current limits, winding heating, stiction) one at a time while
+ * the data support them, and returns the chosen fit with its diagnosis, every candidate tried with
+ * its comparison, the effect constants the data do not support (with an upper bound), and the
+ * held-out checks. The command line and lab scripts get the same answer from the same call.
+ *
+ * ## Method
+ * Forward selection over nested models. Candidates are the extensions the recordings can show:
+ * friction and drag wherever the rotor turns, the limits where the drive's command was logged
+ * (then the limits act on it), heating on records of 2 s or more with current (or after a
+ * winding-heating finding), stiction once Coulomb friction is in. Each candidate is fitted from
+ * the current model's constants with the current model's noise SDs held (so that both sums of
+ * squares use the same weights), and compared by the nested F-test at `alpha` together with BIC
+ * (`compareNestedModels`): it is accepted when F rejects, BIC falls, the fit converged and every
+ * constant it adds has a relative standard error below 50 %. The best accepted candidate (largest
+ * BIC drop) joins the model and the round repeats. Constants of rejected extensions are reported as
+ * not distinguishable from zero with the 95 % upper bound of their fit.
+ *
+ * ## References
+ * G. Schwarz (1978), "Estimating the dimension of a model", Ann. Statist. 6(2), 461–464,
+ * doi:10.1214/aos/1176344136 (BIC). D. M. Bates, D. G. Watts (1988), Nonlinear Regression Analysis
+ * and Its Applications, Wiley, §3.5 (extra sum of squares F-test for nested nonlinear models).
+ *
+ * @param recordings - `{ recording, kind?, name? }` items (SI channels)
+ * @param options - fit options, forced model, alpha, held-out recordings
+ * @returns the {@link Identification}
+ * @throws TypeError / RangeError from `fitMotor` for unusable recordings or options
+ * @example
+ * const id = identifyMotor([{ recording: coast }, { recording: step }]);
+ * id.model.extensions; // => ['coulomb'] when the coast-down shows Coulomb friction
+ */
+export function identifyMotor(recordings: MotorRecordingInput[], options: IdentifyOptions = {}): Identification {
+  const fn = 'identifyMotor';
+  if (options === null || typeof options !== 'object') throw new TypeError(`${fn}: options must be an object`);
+  const alpha = options.alpha ?? 0.01;
+  if (!(alpha > 0 && alpha < 1)) throw new RangeError(`${fn}: options.alpha must be in (0, 1) (got ${alpha})`);
+  const base = options.fit ?? {};
+  const forced = options.model !== undefined && options.model !== 'auto' ? options.model : null;
+  const candidates: ModelCandidate[] = [];
+  const fitWith = (ext: ModelExtensions, extra: FitMotorOptions = {}): MotorFit =>
+    fitMotor(recordings, { ...base, ...extra, extensions: ext, coulomb: ext.coulomb === true });
+  const listOf = (ext: ModelExtensions): Extension[] => ORDER.filter((e) => ext[e] === true);
+
+  let model: ModelExtensions = forced ?? {};
+  let fit = fitWith(model);
+  if (!fit.converged && forced === null) {
+    // A log whose rotor sticks at low drive (a dead band) stalls the lumped model: try it with
+    // Coulomb friction before giving up.
+    const alt = fitWith({ coulomb: true });
+    candidates.push(summary(alt, ['coulomb'], 'coulomb', null, alt.converged, 'the lumped model did not converge; Coulomb friction tried in its place'));
+    if (alt.converged) { fit = alt; model = { coulomb: true }; }
+  }
+  let diagnosis = diagnoseFit(fit, recordings, { refitCoulomb: false, alpha });
+  candidates.unshift(summary(fit, listOf(model), null, null, fit.converged, forced ? 'the model asked for' : 'the lumped linear model (the start)'));
+
+  if (forced === null && fit.converged) {
+    // A candidate turned down is not tried again; one that was supported but lost to a better
+    // one is tried again against the grown model (it may have stood in for the winner).
+    const rejected = new Set<Extension>();
+    for (let round = 0; round < ORDER.length; round++) {
+      const pool = applicable(recordings, fit, diagnosis, model).filter((e) => !rejected.has(e) && !model[e]);
+      if (pool.length === 0) break;
+      let best: { ext: Extension; fit: MotorFit; bicDrop: number } | null = null;
+      const weights = noiseOf(fit);
+      for (const e of pool) {
+        const next: ModelExtensions = { ...model, [e]: true };
+        if (e === 'stiction') next.coulomb = true;
+        let cand: MotorFit;
+        try {
+          cand = fitWith(next, { initial: { ...(base.initial ?? {}) }, warmStart: fit, noise: weights, reweight: false });
+        } catch (err) {
+          candidates.push({ extensions: listOf(next), added: e, converged: false, ssr: NaN, parameters: NaN, rows: NaN, comparison: null, accepted: false, reason: `the fit failed: ${err instanceof Error ? err.message : String(err)}`, effects: {} });
+          rejected.add(e);
+          continue;
+        }
+        const comparable = cand.rows === fit.rows && Number.isFinite(cand.ssr) && Number.isFinite(fit.ssr);
+        const comparison = comparable
+          ? compareNestedModels(`${listOf(model).join(' + ') || 'lumped'} vs + ${e}`, { name: listOf(model).join(' + ') || 'lumped', ssr: fit.ssr, parameters: fit.theta.length },
+            { name: listOf(next).join(' + '), ssr: cand.ssr, parameters: cand.theta.length }, fit.rows, alpha)
+          : null;
+        const added = EFFECT_CONSTANTS[e].map((c) => cand.parameters[c]).filter((x) => x !== undefined);
+        const identified = added.length > 0 && added.every((x) => x!.identified !== false && x!.standardError !== undefined && x!.standardError < 0.5 * Math.abs(x!.value));
+        const bicDrop = comparison === null ? -Infinity : comparison.bic[0] - comparison.bic[1];
+        const accepted = cand.converged && comparison !== null && comparison.fPValue < alpha && bicDrop > 0 && identified;
+        const reason = !cand.converged ? `the fit did not converge (${cand.stopReason})`
+          : comparison === null ? 'the two fits do not have the same rows, so they cannot be compared'
+          : accepted ? `F-test p ${comparison.fPValue.toPrecision(2)} < ${alpha}, BIC lower by ${bicDrop.toPrecision(3)}`
+          : !identified ? `the recordings do not pin down ${EFFECT_CONSTANTS[e].join(', ')} (relative standard error above 50 %)`
+          : `not supported: F-test p ${comparison.fPValue.toPrecision(2)}${bicDrop > 0 ? '' : `, BIC higher by ${(-bicDrop).toPrecision(3)}`}`;
+        const effects: ModelCandidate['effects'] = {};
+        for (const c of EFFECT_CONSTANTS[e]) {
+          const x = cand.parameters[c];
+          if (x !== undefined) effects[c] = { value: x.value, unit: x.unit, interval95: x.interval95 ?? null };
+        }
+        candidates.push({ extensions: listOf(next), added: e, converged: cand.converged, ssr: cand.ssr, parameters: cand.theta.length, rows: cand.rows, comparison, accepted, reason, effects });
+        if (!accepted) rejected.add(e);
+        if (accepted && (best === null || bicDrop > best.bicDrop)) best = { ext: e, fit: cand, bicDrop };
+      }
+      if (best === null) break;
+      for (const c of candidates) if (c.accepted && c.added !== best.ext && c.extensions.length === listOf(model).length + 1) { c.accepted = false; c.reason += `; but ${best.ext} explained more (it joined the model first)`; }
+      model = { ...model, [best.ext]: true };
+      if (best.ext === 'stiction') model.coulomb = true;
+      // Refit the chosen model with its own noise levels re-estimated.
+      const refit = fitWith(model, { warmStart: best.fit });
+      fit = refit.converged ? refit : best.fit;
+      diagnosis = diagnoseFit(fit, recordings, { refitCoulomb: false, alpha });
+      rejected.delete('stiction');
+    }
+  }
+  const unsupported = unsupportedConstants(candidates, model);
+  const checks: HeldOutCheck[] = (options.checks ?? []).map((c, i) => checkHeldOut(fit, c, i));
+  const chosen = listOf(model);
+  return {
+    fit,
+    diagnosis,
+    model: {
+      extensions: chosen,
+      forced: forced !== null,
+      candidates,
+      summary: forced !== null
+        ? `model as asked: ${chosen.length ? chosen.map((e) => WORDS[e]).join(', ') : 'lumped linear, viscous friction only'}`
+        : chosen.length === 0
+          ? 'lumped linear model (viscous friction only): no extension of the detailed model was supported by the data'
+          : `the data support ${chosen.map((e) => WORDS[e]).join(', ')} (nested F-test at ${alpha} and BIC, one extension at a time)`,
+    },
+    unsupported,
+    checks,
+  };
+}
+
+function summary(fit: MotorFit, extensions: Extension[], added: Extension | null, comparison: null, accepted: boolean, reason: string): ModelCandidate {
+  return { extensions, added, converged: fit.converged, ssr: fit.ssr, parameters: fit.theta.length, rows: fit.rows, comparison, accepted, reason, effects: {} };
+}
+
+/** The noise SDs a fit whitened with, per recording, to hold them in a comparison. */
+function noiseOf(fit: MotorFit): NonNullable<FitMotorOptions['noise']> {
+  return fit.recordings.map((r) => {
+    const o: { current?: number; speed?: number; angle?: number; voltage?: number } = {};
+    for (const c of r.channels) if (c.sigma > 0 && Number.isFinite(c.sigma)) o[c.channel] = c.sigma;
+    return o;
+  });
+}
+
+/** The extensions the recordings can show, given the current fit and its findings. */
+function applicable(recordings: MotorRecordingInput[], fit: MotorFit, d: FitDiagnosis, model: ModelExtensions): Extension[] {
+  const kinds = fit.recordings.map((r) => r.kind);
+  const turns = kinds.some((k) => k !== 'locked-rotor');
+  const commanded = recordings.some((r) => r.recording.channels.voltage === undefined && r.recording.channels.commandVoltage !== undefined);
+  const codes = new Set(d.findings.map((f) => f.code));
+  const longWithCurrent = recordings.some((r) => {
+    const t = r.recording.time;
+    return r.recording.channels.current !== undefined && r.recording.layout !== 'table' && t.length > 1 && t[t.length - 1]! - t[0]! >= 2;
+  });
+  const out: Extension[] = [];
+  if (turns) out.push('coulomb', 'drag');
+  if (commanded) out.push('voltageLimit', 'currentLimit');
+  if (longWithCurrent || codes.has('winding-heating') || recordings.some((r) => r.recording.channels.temperature !== undefined)) out.push('heating');
+  if (model.coulomb && turns) out.push('stiction');
+  return out;
+}
+
+/**
+ * Effect constants the data do not support: for each extension tried and not taken, the value and
+ * the 95 % upper bound its candidate fit gave (positive constants are fitted on a log scale, so
+ * the bound is the upper end of that interval).
+ */
+function unsupportedConstants(candidates: ModelCandidate[], model: ModelExtensions): UnsupportedConstant[] {
+  const out: UnsupportedConstant[] = [];
+  for (const c of candidates) {
+    const added = c.added as Extension | null;
+    if (added === null || c.accepted || model[added]) continue;
+    if (out.some((u) => u.extension === added)) continue;
+    const bounds: UnsupportedConstant['bounds'] = {};
+    for (const [name, e] of Object.entries(c.effects)) bounds[name] = { upper95: e.interval95 !== null ? e.interval95[1] : null, unit: e.unit };
+    out.push({ extension: added, constants: EFFECT_CONSTANTS[added], bounds, reason: c.reason });
+  }
+  return out;
+}

@@ -1,0 +1,410 @@
+import tQuantile from '@stdlib/stats-base-dists-t-quantile';
+import { covarianceFromNormalMatrix } from '../solver/covarianceFromNormalMatrix.js';
+import { solveLeastSquares } from '../solver/solveLeastSquares.js';
+import { createNormalEquations } from '../solver/createNormalEquations.js';
+import type { SolverOptions, SolverResult } from '../solver/types.js';
+import type { PreparedRecording } from '../motor/prepareRecording.js';
+import type { ChannelFit, MotorFit, NoiseLevel, ParameterEstimate, RecordingReport, StartAttempt, UninformedConstant } from '../motor/types.js';
+import { createDetailedProblem, DETAILED_CONSTANTS } from './createDetailedProblem.js';
+import type { DetailedConstant, DetailedSetup, DetailedSlots, DetailedValues } from './createDetailedProblem.js';
+import type { ModelExtensions, ThetaEntry } from './types.js';
+
+/** Options of `fitDetailed` (resolved by the caller). */
+export interface DetailedFitOptions {
+  extensions: ModelExtensions;
+  /** Constants pinned [SI]. */
+  fix: Partial<Record<DetailedConstant, number>>;
+  /** Starting values [SI] (from closed forms or a previous fit). */
+  start: Partial<Record<DetailedConstant, number>>;
+  /** Where each start came from. */
+  startSource: Partial<Record<DetailedConstant, string>>;
+  /** Ambient temperature of the heating model [°C]. */
+  ambient: number;
+  solver: SolverOptions;
+  keepResiduals: boolean;
+  /** Re-estimate the noise SDs from the residuals (off when the caller fixed the weights). */
+  reweight: boolean;
+  /** θ entries of a previous fit to start from, by name (same transform and scale). */
+  warm: Map<string, number> | null;
+}
+
+export const UNITS: Record<string, string> = {
+  R: 'Ω', L: 'H', Kt: 'N·m/A', Ke: 'V·s/rad', J: 'kg·m²', b: 'N·m·s/rad', Tc: 'N·m', Ts: 'N·m', c: 'N·m·s²/rad²',
+  Vmax: 'V', Imax: 'A', Rth: 'K/W', Cth: 'J/K', R20: 'Ω', 'b/J': '1/s', 'Tc/J': 'rad/s²', 'c/J': '1/rad',
+  'speed gain': 'rad/(s·V)', 'mechanical time constant': 's',
+};
+
+const WOULD_INFORM: Record<string, string> = {
+  R: 'a locked-rotor step, or any driven run that logs current',
+  L: 'a locked-rotor step with current sampled several times faster than L/R',
+  Kt: 'a driven run that logs current and speed (or a coast-down with the open-circuit voltage)',
+  J: 'a driven run with current and speed, or a coast-down together with a run that gives b',
+  b: 'a driven run with current and speed, or a steady-state sweep',
+  Tc: 'a coast-down, a steady-state sweep, or slow reversals with current and speed',
+};
+
+/** Relative standard error above which a constant counts as not identified (Cramér–Rao-style rule: common practice, no source). */
+const UNIDENTIFIED_RSE = 0.5;
+
+/**
+ * Fits the detailed motor model — the lumped constants plus the chosen extensions (Coulomb
+ * friction and stiction, drag, drive voltage and current limits, winding heating) — jointly to
+ * prepared recordings by weighted least squares, with the central-difference Jacobian of the
+ * hybrid simulator (`createDetailedProblem`). Also the path for recordings the streamed linear
+ * kernel does not cover: coast-downs with the driven plateau and the open-circuit voltage,
+ * speed-only coast-downs (ratios to J), encoder angles, jittered clocks, tables of steady points.
+ *
+ * ## Method
+ * θ = ln p for every positive constant (Ts as ln(Ts − Tc)); nuisances linear and scaled. The
+ * solver is the project's Levenberg–Marquardt (`solveLeastSquares`); a stall is retried from three
+ * other starts (J and b ×½ and ×2, then the caller's start with the effects halved). After
+ * convergence each channel's noise SD is re-estimated from its residuals (RMS; the second-
+ * difference estimate of a fast-moving or quantised signal can be far off) and the fit repeated
+ * when one moved by more than 20 %. Covariance s²(JᵀJ)⁺, Student-t intervals on the fitted scale.
+ * A constant whose relative standard error exceeds 50 % is reported as not identified.
+ *
+ * @param recs - prepared recordings
+ * @param opts - extensions, pinned constants, starts, ambient temperature, solver options
+ * @returns a `MotorFit`
+ */
+export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions): MotorFit {
+  const ext = opts.extensions;
+  const hasCurrent = recs.some((r) => r.current !== null && r.kind !== 'coast-down') || recs.some((r) => r.drivenBeforeCut && r.current !== null);
+  const hasTorque = false;
+  const tied = !hasTorque;
+  // Which constants the recordings use.
+  const used = new Set<DetailedConstant>();
+  for (const r of recs) {
+    const add = (...cs: DetailedConstant[]): void => { for (const c of cs) used.add(c); };
+    if (r.kind === 'locked-rotor') add('R', 'L');
+    else if (r.kind === 'coast-down') { add('J', 'b'); if (r.drivenBeforeCut) add('R', 'Kt', 'Ke'); }
+    else if (r.table) add('R', 'Kt', 'Ke', 'b');
+    else add('R', 'L', 'Kt', 'Ke', 'J', 'b');
+    if (ext.coulomb && r.kind !== 'locked-rotor') add('Tc');
+    if (ext.stiction && r.kind !== 'locked-rotor') add('Ts');
+    if (ext.drag && r.kind !== 'locked-rotor') add('c');
+    if (r.source === 'command' && ext.voltageLimit) add('Vmax');
+    if (r.source === 'command' && ext.currentLimit) add('Imax');
+    if (ext.heating) add('Rth', 'Cth');
+  }
+  const notInformed: UninformedConstant[] = [];
+  const fix: Partial<Record<DetailedConstant, number>> = { ...opts.fix };
+  if (tied && (fix.Kt !== undefined || fix.Ke !== undefined)) { const k = fix.Kt ?? fix.Ke!; fix.Kt = k; fix.Ke = k; }
+  // Speed-only coast-downs alone: only ratios to J are seen; J is held at its start as a unit.
+  const onlyRatios = recs.every((r) => r.kind === 'coast-down' && !r.drivenBeforeCut) && fix.J === undefined;
+  const ratioJ = onlyRatios ? (opts.start.J ?? 1e-4) : NaN;
+  if (onlyRatios) {
+    fix.J = ratioJ;
+    notInformed.push({ name: 'J', reason: 'a coast-down from speed alone shows only the deceleration: b/J (and Tc/J) — not J, b or Tc on their own', wouldInform: 'a driven run with current, or J known (--fix J=…)' });
+  }
+  // No current anywhere and R not pinned: the speed sees R only with J and b.
+  const noCurrent = !hasCurrent && recs.some((r) => r.kind !== 'coast-down' && !r.table) && fix.R === undefined;
+  const values: DetailedValues = {
+    R: 1, L: 1e-3, Kt: 0.05, Ke: 0.05, J: 1e-5, b: 1e-6, Tc: 0, Ts: 0, c: 0, Vmax: Infinity, Imax: Infinity, Rth: 1, Cth: 1,
+  };
+  for (const c of DETAILED_CONSTANTS) {
+    const v = fix[c] ?? opts.start[c];
+    if (v !== undefined && Number.isFinite(v)) values[c] = v;
+  }
+  if (tied) values.Ke = values.Kt;
+  if (!ext.stiction) values.Ts = values.Tc;
+  // θ layout.
+  const entries: ThetaEntry[] = [];
+  const theta0: number[] = [];
+  const index = Object.fromEntries(DETAILED_CONSTANTS.map((c) => [c, -1])) as Record<DetailedConstant, number>;
+  const push = (name: string, transform: 'log' | 'linear', scale: number, recording: number, value: number): number => {
+    entries.push({ name, transform, scale, recording });
+    theta0.push(value);
+    return entries.length - 1;
+  };
+  for (const c of DETAILED_CONSTANTS) {
+    if (!used.has(c) || fix[c] !== undefined) continue;
+    if (c === 'Ke' && tied) continue;
+    if (c === 'Ts') {
+      const excess = Math.max(values.Ts - values.Tc, 0.1 * Math.max(values.Tc, 1e-9));
+      index.Ts = push('ln (Ts − Tc)', 'log', 1, -1, Math.log(excess));
+      continue;
+    }
+    const v = values[c];
+    const safe = v > 0 && Number.isFinite(v) ? v : c === 'Tc' ? 1e-3 * values.Kt : c === 'c' ? 1e-9 : 1;
+    index[c] = push(`ln ${c === 'Kt' && tied ? 'K' : c}`, 'log', 1, -1, Math.log(safe));
+  }
+  if (tied) index.Ke = index.Kt;
+  // Nuisances.
+  const slots: DetailedSlots[] = recs.map((r, ri) => {
+    const sl: DetailedSlots = { level: [], sine: [], offset: -1, w0: -1, angle: -1, cut: -1 };
+    if (r.levels !== null) {
+      const scale = Math.max(1e-6, ...r.levels.classes.map((q) => Math.abs(q.mean)));
+      r.levels.classes.forEach((q, j) => sl.level.push(push(`level ${j} ${r.name}`, 'linear', scale, ri, q.mean / scale)));
+    }
+    if (r.sines !== null) {
+      const co = r.sines.coefficients;
+      const scale = Math.max(1e-6, ...Array.from(co, Math.abs));
+      co.forEach((v, j) => sl.sine.push(push(`input coefficient ${j} ${r.name}`, 'linear', scale, ri, v / scale)));
+    }
+    if (r.baseline && r.current !== null && r.kind !== 'coast-down' && !r.table) {
+      let m = 0;
+      for (let k = 0; k < r.current.length; k++) m = Math.max(m, Math.abs(r.current[k]!));
+      sl.offset = push(`current offset ${r.name}`, 'linear', Math.max(m, 1e-12), ri, 0);
+    }
+    if (r.kind === 'coast-down' && !r.drivenBeforeCut && r.speed !== null) {
+      const w0 = r.speed[r.first]!;
+      sl.w0 = push(`ω0 ${r.name}`, 'linear', Math.max(Math.abs(w0), 1e-9), ri, Math.sign(w0) || 1);
+    }
+    if (r.kind === 'coast-down' && r.drivenBeforeCut) {
+      // The circuit opens between the last driven sample and the first open one.
+      const tc = 0.5 * (r.time[r.first - 1]! + r.time[r.first]!);
+      sl.cut = push(`cut instant ${r.name}`, 'linear', r.h, ri, tc / r.h);
+    }
+    if (r.encoder !== null && r.speed !== null && r.kind !== 'locked-rotor') {
+      sl.angle = push(`angle offset ${r.name}`, 'linear', r.encoder, ri, 0);
+    }
+    return sl;
+  });
+  if (opts.warm !== null) {
+    entries.forEach((e, j) => {
+      const v = opts.warm!.get(e.name);
+      if (v !== undefined && Number.isFinite(v)) theta0[j] = v;
+    });
+  }
+  const sigma = recs.map((r) => ({
+    current: r.currentNoise?.sigma ?? 0,
+    speed: r.speedNoise?.sigma ?? 1,
+    terminal: r.terminalNoise?.sigma ?? 1,
+    voltage: Math.max(r.handling.voltageSigma, 1e-12 * Math.max(1, ...(r.levels?.classes.map((q) => Math.abs(q.mean)) ?? [1]))),
+  }));
+  // Tables: noise from the spread columns, else from the fit residuals (started at 0.2 % of the data).
+  recs.forEach((r, i) => {
+    if (!r.table) return;
+    const s = sigma[i]!;
+    const rms = (x: Float64Array | null): number => { if (x === null) return 1; let q = 0; for (const v of x) q += v * v; return Math.sqrt(q / x.length); };
+    if (r.current !== null) s.current = 0.002 * rms(r.current) + 1e-12;
+    if (r.speed !== null) s.speed = 0.002 * rms(r.speed) + 1e-12;
+  });
+  const setup: DetailedSetup = { recs, entries, index, values, tied, extensions: ext, ambient: opts.ambient, slots, sigma };
+  if (noCurrent) {
+    // R (and L) cannot be told from J and b without current: hold them at their starts and say so.
+    for (const c of ['R', 'L'] as const) {
+      if (index[c] >= 0) {
+        const j = index[c];
+        values[c] = Math.exp(theta0[j]!);
+        removeEntry(setup, theta0, j);
+      }
+    }
+    notInformed.push({ name: 'R', reason: 'no recording logs current: from voltage and speed alone R enters only together with J and b', wouldInform: WOULD_INFORM.R! + ' (or pin R with --fix R=…)' });
+  }
+  const p = entries.length;
+  const names = entries.map((e) => e.name);
+  const attempts: StartAttempt[] = [];
+  let iterations = 0, jacobianEvaluations = 0, functionEvaluations = 0;
+  if (p === 0) {
+    return emptyFit(recs, notInformed, ext, tied, names);
+  }
+  // Solve, retrying from other starts on a stall; then re-weight by the residual noise.
+  let problem = createDetailedProblem(setup);
+  const solve = (from: ArrayLike<number>, label: StartAttempt['start']): SolverResult => {
+    const res = solveLeastSquares(problem, from, { maxIterations: 200, ...opts.solver });
+    iterations += res.iterations; jacobianEvaluations += res.jacobianEvaluations; functionEvaluations += res.functionEvaluations;
+    attempts.push({ start: label, startSsr: NaN, ssr: res.ssr, iterations: res.iterations, converged: res.converged, stopReason: res.stopReason, chosen: false });
+    return res;
+  };
+  const starts: Float64Array[] = [Float64Array.from(theta0)];
+  const scaled = (fJ: number, fB: number, effects: number): Float64Array => {
+    const t = Float64Array.from(theta0);
+    if (index.J >= 0) t[index.J] = t[index.J]! + Math.log(fJ);
+    if (index.b >= 0) t[index.b] = t[index.b]! + Math.log(fB);
+    for (const c of ['Tc', 'c'] as const) if (index[c] >= 0) t[index[c]] = t[index[c]]! + Math.log(effects);
+    return t;
+  };
+  starts.push(scaled(0.5, 0.5, 1), scaled(2, 2, 1), scaled(1, 1, 0.3));
+  let best: SolverResult | null = null;
+  for (const s of starts) {
+    const res = solve(s, attempts.length === 0 ? 'automatic' : 'automatic');
+    if (best === null || (res.converged && !best.converged) || (res.converged === best.converged && res.ssr < best.ssr)) best = res;
+    if (res.converged) break;
+  }
+  let sol = best!;
+  for (let round = 0; round < 3 && opts.reweight && Number.isFinite(sol.ssr); round++) {
+    const { ssr } = problem.residualsAt(sol.theta);
+    let moved = false;
+    recs.forEach((r, i) => {
+      const s = sigma[i]!;
+      const upd = (key: 'current' | 'speed' | 'terminal', sum: number, m: number): void => {
+        if (m < 8 || !(s[key] > 0)) return;
+        const next = s[key] * Math.sqrt(sum / m);
+        if (Math.abs(next / s[key] - 1) > 0.2) moved = true;
+        s[key] = next;
+      };
+      const q = ssr[i]!;
+      if (!(r.table && r.spread?.current)) upd('current', q.current, q.rows.current);
+      if (!(r.table && r.spread?.speed)) upd('speed', q.speed, q.rows.speed);
+      upd('terminal', q.terminal, q.rows.terminal);
+    });
+    if (!moved && round > 0) break;
+    problem = createDetailedProblem(setup);
+    const again = solve(sol.theta, 'automatic');
+    if (again.converged || !sol.converged) sol = again;
+    if (!moved) break;
+  }
+  attempts.forEach((a) => { a.chosen = false; });
+  if (attempts.length > 0) attempts[attempts.length - 1]!.chosen = true;
+  // The covariance from central differences at the optimum.
+  {
+    problem.differences = 'central';
+    const acc = createNormalEquations(p);
+    const ssr = problem.evaluate(Float64Array.from(sol.theta), true, acc);
+    jacobianEvaluations++;
+    if (Number.isFinite(ssr)) sol = { ...sol, JtJ: Float64Array.from(acc.JtJ), ssr, rows: acc.rows };
+  }
+  const theta = sol.theta;
+  const v = problem.valuesAt(theta);
+  const rows = sol.rows;
+  const dof = rows - p;
+  let cov: ReturnType<typeof covarianceFromNormalMatrix> | null = null;
+  if (dof > 0 && Number.isFinite(sol.ssr)) {
+    try { cov = covarianceFromNormalMatrix(sol.JtJ, p, sol.ssr, rows); } catch { cov = null; }
+  }
+  const tq = tQuantile(0.975, Math.max(dof, 1));
+  const parameters: Record<string, ParameterEstimate> = {};
+  const informedBy = recs.map((r) => r.name);
+  const report = (name: string, value: number, j: number, derivative: number[] | null = null): void => {
+    const est: ParameterEstimate = { value, unit: UNITS[name] ?? '', informedBy };
+    if (cov !== null) {
+      let varLog = NaN;
+      if (derivative !== null) {
+        varLog = 0;
+        for (let a = 0; a < p; a++) {
+          if (derivative[a] === 0) continue;
+          for (let b2 = 0; b2 < p; b2++) if (derivative[b2] !== 0) varLog += derivative[a]! * derivative[b2]! * cov.covariance[a * p + b2]!;
+        }
+      } else if (j >= 0 && cov.identifiable[j]) varLog = cov.covariance[j * p + j]!;
+      if (varLog >= 0 && Number.isFinite(varLog)) {
+        const s = Math.sqrt(varLog);
+        est.standardError = value * s;
+        est.interval95 = [value * Math.exp(-tq * s), value * Math.exp(tq * s)];
+        if (s > UNIDENTIFIED_RSE) est.identified = false;
+      } else est.identified = false;
+    }
+    parameters[name] = est;
+  };
+  const logGrad = (terms: [DetailedConstant, number][]): number[] => {
+    const g = new Array<number>(p).fill(0);
+    for (const [c, w] of terms) if (index[c] >= 0) g[index[c]] = g[index[c]]! + w;
+    return g;
+  };
+  const shown: DetailedConstant[] = ['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc', 'Ts', 'c', 'Vmax', 'Imax', 'Rth', 'Cth'];
+  for (const c of shown) {
+    if (!used.has(c)) continue;
+    if (c === 'Ts' && !ext.stiction) continue;
+    if (fix[c] !== undefined && !(onlyRatios && c === 'J')) { parameters[c] = { value: fix[c]!, unit: UNITS[c]!, fixed: true }; continue; }
+    if (onlyRatios && (c === 'J' || c === 'b' || c === 'Tc' || c === 'c')) continue;
+    if (noCurrent && (c === 'R' || c === 'L')) continue;
+    if (c === 'Ts') {
+      // Ts = Tc + e^θ: d ln Ts = (Tc/Ts)·d ln Tc + ((Ts − Tc)/Ts)·dθ.
+      const g = logGrad([['Tc', v.Tc / v.Ts]]);
+      g[index.Ts] = (v.Ts - v.Tc) / v.Ts;
+      report('Ts', v.Ts, -1, g);
+      continue;
+    }
+    report(c, v[c], index[c]);
+  }
+  if (ext.heating && parameters.R !== undefined) {
+    // R is the resistance at 20 °C in the heating model.
+    parameters.R20 = { ...parameters.R };
+  }
+  if (!onlyRatios && recs.some((r) => r.kind === 'coast-down') && index.b >= 0 && index.J >= 0) {
+    // A coast-down sees the deceleration b/J directly, even where b and J apart are weakly pinned.
+    report('b/J', v.b / v.J, -1, logGrad([['b', 1], ['J', -1]]));
+  }
+  if (onlyRatios) {
+    report('b/J', v.b / v.J, -1, logGrad([['b', 1]]));
+    if (ext.coulomb) report('Tc/J', v.Tc / v.J, -1, logGrad([['Tc', 1]]));
+    if (ext.drag) report('c/J', v.c / v.J, -1, logGrad([['c', 1]]));
+  }
+  if (noCurrent) {
+    // What voltage-to-speed runs do inform: the steady gain ω/V = K/(R·b + K²) and τm′ = R·J/(R·b + K²).
+    const D = v.R * v.b + v.Kt * v.Ke;
+    const wb = (v.R * v.b) / D, wk = (v.Kt * v.Ke) / D;
+    report('speed gain', v.Kt / D, -1, logGrad([['Kt', 1 - 2 * wk], ['b', -wb]]));
+    report('mechanical time constant', (v.R * v.J) / D, -1, logGrad([['J', 1], ['Kt', -2 * wk], ['b', -wb]]));
+    for (const c of ['Kt', 'Ke', 'J', 'b'] as const) if (parameters[c] !== undefined && parameters[c]!.fixed !== true) parameters[c]!.identified = false;
+  }
+  // Residual series and per-channel fit quality.
+  const { series } = problem.residualsAt(theta);
+  const reports: RecordingReport[] = recs.map((r, i) => {
+    const s = series[i]!;
+    const channels: ChannelFit[] = [];
+    const add = (channel: ChannelFit['channel'], meas: Float64Array | null, res: Float64Array | null, sig: number, method: ChannelFit['sigmaMethod']): void => {
+      if (meas === null || res === null) return;
+      let m = 0, cnt = 0;
+      for (let k = 0; k < res.length; k++) if (Number.isFinite(res[k]!)) { m += meas[k]!; cnt++; }
+      m /= Math.max(cnt, 1);
+      let vv = 0, ss = 0;
+      for (let k = 0; k < res.length; k++) if (Number.isFinite(res[k]!)) { vv += (meas[k]! - m) ** 2; ss += res[k]! ** 2; }
+      const rms = Math.sqrt(ss / Math.max(cnt, 1)), sd = Math.sqrt(vv / Math.max(cnt, 1));
+      channels.push({ channel, sigma: sig, sigmaMethod: method, samples: cnt, rms, nrmse: sd > 0 ? rms / sd : NaN, residuals: opts.keepResiduals ? res : null });
+    };
+    const how = (n: NoiseLevel | null): ChannelFit['sigmaMethod'] => (opts.reweight ? 'residuals' : n?.method ?? 'given');
+    add('current', r.current, s.current, sigma[i]!.current, how(r.currentNoise));
+    add('speed', r.speed, s.speed, r.encoder !== null ? NaN : sigma[i]!.speed, r.encoder !== null ? 'encoder' : how(r.speedNoise));
+    if (s.angle !== null && r.speed !== null) {
+      const ang = new Float64Array(r.time.length);
+      for (let k = r.first + 1; k < ang.length; k++) ang[k] = ang[k - 1]! + r.speed[k]! * (r.time[k]! - r.time[k - 1]!);
+      add('angle', ang, s.angle, sigma[i]!.speed, 'quantisation');
+    }
+    add('voltage', r.terminal, s.terminal, sigma[i]!.terminal, how(r.terminalNoise));
+    const nuisance: Record<string, number> = {};
+    const sl = slots[i]!;
+    if (r.handling.stepTime !== null) nuisance.stepTime = r.handling.stepTime;
+    sl.level.forEach((j, q) => { nuisance[`level${q}`] = theta[j]! * entries[j]!.scale; });
+    if (sl.offset >= 0) nuisance.currentOffset = theta[sl.offset]! * entries[sl.offset]!.scale;
+    if (sl.w0 >= 0) nuisance.initialSpeed = theta[sl.w0]! * entries[sl.w0]!.scale;
+    if (sl.cut >= 0) nuisance.cutInstant = theta[sl.cut]! * entries[sl.cut]!.scale;
+    if (sl.angle >= 0) nuisance.angleOffset = theta[sl.angle]! * entries[sl.angle]!.scale;
+    return { name: r.name, kind: r.kind, kindSource: r.kindSource, kindReason: r.kindReason, samples: r.time.length, input: r.handling, channels, nuisance };
+  });
+  const start: Record<string, { value: number; source: string }> = {};
+  for (const c of DETAILED_CONSTANTS) if (index[c] >= 0 && !(c === 'Ke' && tied)) start[c] = { value: c === 'Ts' ? v.Ts : Math.exp(theta0[index[c]]!), source: opts.startSource[c] ?? 'default' };
+  const extNames = (Object.keys(ext) as (keyof ModelExtensions)[]).filter((k) => ext[k]);
+  return {
+    parameters, notInformed, recordings: reports,
+    variant: {
+      torqueConstant: 'equal', coulomb: ext.coulomb === true, extensions: extNames,
+      description: `DC motor, Kt = Ke imposed (SI)${extNames.length ? `, with ${extNames.map(describeExtension).join(', ')}` : ', lumped linear model, viscous friction only'}`,
+    },
+    fittedNames: names, theta: Array.from(theta), normalMatrix: Float64Array.from(sol.JtJ), covariance: cov === null ? null : Float64Array.from(cov.covariance),
+    ssr: sol.ssr, rows, residualVariance: dof > 0 ? sol.ssr / dof : NaN, degreesOfFreedom: dof, start, starts: attempts,
+    iterations, jacobianEvaluations, functionEvaluations, converged: sol.converged, stopReason: sol.stopReason,
+  };
+}
+
+function describeExtension(e: keyof ModelExtensions): string {
+  return {
+    coulomb: 'Coulomb friction Tc·sgn(ω)', stiction: 'stiction Ts', drag: 'drag c·ω|ω|', voltageLimit: 'drive voltage limit Vmax',
+    currentLimit: 'drive current limit Imax', heating: 'winding heating (copper law, Rth, Cth)',
+  }[e];
+}
+
+/** Drops θ entry j (a constant held at its start), re-indexing the layout. */
+function removeEntry(setup: DetailedSetup, theta0: number[], j: number): void {
+  setup.entries.splice(j, 1);
+  theta0.splice(j, 1);
+  for (const c of Object.keys(setup.index) as DetailedConstant[]) {
+    if (setup.index[c] === j) setup.index[c] = -1;
+    else if (setup.index[c] > j) setup.index[c]--;
+  }
+  for (const sl of setup.slots) {
+    sl.level = sl.level.map((x) => (x > j ? x - 1 : x));
+    sl.sine = sl.sine.map((x) => (x > j ? x - 1 : x));
+    for (const k of ['offset', 'w0', 'angle', 'cut'] as const) if (sl[k] > j) sl[k]--;
+  }
+}
+
+function emptyFit(recs: PreparedRecording[], notInformed: UninformedConstant[], ext: ModelExtensions, tied: boolean, names: string[]): MotorFit {
+  return {
+    parameters: {}, notInformed, recordings: recs.map((r) => ({ name: r.name, kind: r.kind, kindSource: r.kindSource, kindReason: r.kindReason, samples: r.time.length, input: r.handling, channels: [], nuisance: {} })),
+    variant: { torqueConstant: tied ? 'equal' : 'separate', coulomb: ext.coulomb === true, extensions: [], description: 'nothing to fit' },
+    fittedNames: names, theta: [], normalMatrix: new Float64Array(0), covariance: null, ssr: NaN, rows: 0, residualVariance: NaN, degreesOfFreedom: 0,
+    start: {}, starts: [], iterations: 0, jacobianEvaluations: 0, functionEvaluations: 0, converged: false, stopReason: 'nothing-to-fit',
+  };
+}
