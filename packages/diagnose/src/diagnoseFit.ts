@@ -116,7 +116,7 @@ export function diagnoseFit(fit: MotorFit, recordings: MotorRecordingInput[], op
       const lag = Math.min(options.maxLag ?? Math.min(50, Math.floor(finiteRows / 4)), finiteRows - 1);
       residuals.push({ recording: rep.name, kind: rep.kind, channel: ch.channel, stats: residualStats(measured, predicted, lag) });
       const tag = (f: ReturnType<typeof detectResidualTrend>): void => { if (f) findings.push({ ...f, recording: rep.name, origin: 'fit-residuals' }); };
-      if (ch.channel !== 'current' && ch.channel !== 'speed') continue;
+      if ((ch.channel !== 'current' && ch.channel !== 'speed') || item.recording.layout === 'table') continue;
       tag(detectResidualTrend(rec.time, res, ch.channel, rep.kind));
       if (!fit.variant.coulomb && speed instanceof Float64Array && speed.length === res.length && rep.kind !== 'coast-down') {
         tag(detectResidualCoulomb(speed, res, ch.channel, speedSigma));
@@ -125,7 +125,8 @@ export function diagnoseFit(fit: MotorFit, recordings: MotorRecordingInput[], op
         tag(detectResidualDelay(voltage, res, predicted, descriptions[i]!.sampleInterval));
       }
     }
-    if (scan) {
+    // A table of steady points is not a time series: the data-only detectors do not apply.
+    if (scan && item.recording.layout !== 'table') {
       const s = scanRecording(rec, { kind: rep.kind, alpha });
       for (const f of s.findings) {
         if (f.code === 'coulomb-friction' && fit.variant.coulomb) {

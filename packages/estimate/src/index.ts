@@ -46,7 +46,7 @@ export { rebuildCommand } from './motor/rebuildCommand.js';
 export type { RebuiltCommand, SineBasis } from './motor/rebuildCommand.js';
 export { zeroPhaseLowPass } from './motor/zeroPhaseLowPass.js';
 export type {
-  ChannelFit, FitMotorOptions, InputHandling, MotorChannel, MotorConstantName, MotorExperimentKind, MotorFit,
+  ChannelFit, ConstantCovariance, FitMotorOptions, InputHandling, MotorChannel, MotorConstantName, MotorExperimentKind, MotorFit,
   MotorRecordingInput, NoiseLevel, ParameterEstimate, RecordingData, RecordingReport, StartAttempt, UninformedConstant, VoltageSegment,
 } from './motor/types.js';
 export type { InverseDynamicsInput, InverseDynamicsFit } from './motor/fitInverseDynamics.js';

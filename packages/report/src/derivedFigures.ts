@@ -68,16 +68,12 @@ export function derivedFigures(constants: ConstantValues | ConstantCovariance, r
       const varI = cov.covariance[i * 7 + i]!;
       if (!(varI > 0)) { g[q] = 0; return; }
       work.set(base);
-      let fp: number, fm: number, h: number;
-      if (i === 6) {
-        h = Math.max(1e-5 * Math.abs(base[6]!), 1e-3 * Math.sqrt(varI));
-        work[6] = base[6]! + h; fp = def.evaluate(toValues(work), V);
-        work[6] = base[6]! - h; fm = def.evaluate(toValues(work), V);
-      } else {
-        h = LOG_STEP;
-        work[i] = base[i]! * Math.exp(h); fp = def.evaluate(toValues(work), V);
-        work[i] = base[i]! * Math.exp(-h); fm = def.evaluate(toValues(work), V);
-      }
+      // Every coordinate is ln p (Tc included): a relative step.
+      const h = LOG_STEP;
+      work[i] = base[i]! * Math.exp(h);
+      const fp = def.evaluate(toValues(work), V);
+      work[i] = base[i]! * Math.exp(-h);
+      const fm = def.evaluate(toValues(work), V);
       g[q] = logMode ? (Math.log(fp) - Math.log(fm)) / (2 * h) : (fp - fm) / (2 * h);
       if (!Number.isFinite(g[q]!)) finite = false;
     });

@@ -248,7 +248,7 @@ export interface ConstantCovariance {
   fitted: boolean[];
   /** Whether each constant has a usable variance. */
   identifiable: boolean[];
-  /** 7×7 covariance of u, row-major (0 rows for fixed constants; NaN rows for unusable ones). */
+  /** 7×7 covariance of u = (ln R, ln L, ln Kt, ln Ke, ln J, ln b, ln Tc), row-major (0 rows for fixed constants; NaN rows for unusable ones). */
   covariance: Float64Array;
   /** Degrees of freedom n − p of the fit, or NaN. */
   degreesOfFreedom: number;

@@ -2,6 +2,8 @@ import tQuantile from '@stdlib/stats-base-dists-t-quantile';
 import { covarianceFromNormalMatrix } from '../solver/covarianceFromNormalMatrix.js';
 import { solveLeastSquares } from '../solver/solveLeastSquares.js';
 import { createNormalEquations } from '../solver/createNormalEquations.js';
+import { logCovarianceOfConstants } from '../motor/logCovarianceOfConstants.js';
+import type { ConstantMap } from '../motor/logCovarianceOfConstants.js';
 import type { SolverOptions, SolverResult } from '../solver/types.js';
 import type { PreparedRecording } from '../motor/prepareRecording.js';
 import type { ChannelFit, MotorFit, NoiseLevel, ParameterEstimate, RecordingReport, StartAttempt, UninformedConstant } from '../motor/types.js';
@@ -173,14 +175,8 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
     terminal: r.terminalNoise?.sigma ?? 1,
     voltage: Math.max(r.handling.voltageSigma, 1e-12 * Math.max(1, ...(r.levels?.classes.map((q) => Math.abs(q.mean)) ?? [1]))),
   }));
-  // Tables: noise from the spread columns, else from the fit residuals (started at 0.2 % of the data).
-  recs.forEach((r, i) => {
-    if (!r.table) return;
-    const s = sigma[i]!;
-    const rms = (x: Float64Array | null): number => { if (x === null) return 1; let q = 0; for (const v of x) q += v * v; return Math.sqrt(q / x.length); };
-    if (r.current !== null) s.current = 0.002 * rms(r.current) + 1e-12;
-    if (r.speed !== null) s.speed = 0.002 * rms(r.speed) + 1e-12;
-  });
+  // Tables: the per-row SD columns where the file gives them (used row by row), else the prepared
+  // start (0.2 % of the channel's RMS), re-estimated from the residuals.
   const setup: DetailedSetup = { recs, entries, index, values, tied, extensions: ext, ambient: opts.ambient, slots, sigma };
   if (noCurrent) {
     // R (and L) cannot be told from J and b without current: hold them at their starts and say so.
@@ -329,6 +325,20 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
     report('mechanical time constant', (v.R * v.J) / D, -1, logGrad([['J', 1], ['Kt', -2 * wk], ['b', -wb]]));
     for (const c of ['Kt', 'Ke', 'J', 'b'] as const) if (parameters[c] !== undefined && parameters[c]!.fixed !== true) parameters[c]!.identified = false;
   }
+  // The constants' joint statistics (ln p), for every reader.
+  const maps: ConstantMap[] = [];
+  for (const c of shown) {
+    const est = parameters[c];
+    if (est === undefined) continue;
+    if (est.fixed === true) { maps.push({ name: c, value: est.value, status: 'pinned', gradient: [] }); continue; }
+    if (c === 'Ts') {
+      maps.push({ name: c, value: v.Ts, status: 'fitted', gradient: [...(index.Tc >= 0 ? [[index.Tc, v.Tc / v.Ts]] : []), [index.Ts, (v.Ts - v.Tc) / v.Ts]] as [number, number][] });
+      continue;
+    }
+    const j = index[c];
+    maps.push(j >= 0 ? { name: c, value: est.value, status: 'fitted', gradient: [[j, 1]] } : { name: c, value: est.value, status: 'absent', gradient: [] });
+  }
+  const constantCovariance = logCovarianceOfConstants(maps, cov === null ? null : cov.covariance, cov === null ? [] : cov.identifiable, p, dof);
   // Residual series and per-channel fit quality.
   const { series } = problem.residualsAt(theta);
   const reports: RecordingReport[] = recs.map((r, i) => {
@@ -372,7 +382,7 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
       torqueConstant: 'equal', coulomb: ext.coulomb === true, extensions: extNames,
       description: `DC motor, Kt = Ke imposed (SI)${extNames.length ? `, with ${extNames.map(describeExtension).join(', ')}` : ', lumped linear model, viscous friction only'}`,
     },
-    fittedNames: names, theta: Array.from(theta), normalMatrix: Float64Array.from(sol.JtJ), covariance: cov === null ? null : Float64Array.from(cov.covariance),
+    fittedNames: names, theta: Array.from(theta), normalMatrix: Float64Array.from(sol.JtJ), covariance: cov === null ? null : Float64Array.from(cov.covariance), constantCovariance,
     ssr: sol.ssr, rows, residualVariance: dof > 0 ? sol.ssr / dof : NaN, degreesOfFreedom: dof, start, starts: attempts,
     iterations, jacobianEvaluations, functionEvaluations, converged: sol.converged, stopReason: sol.stopReason,
   };

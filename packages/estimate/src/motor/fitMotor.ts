@@ -9,6 +9,9 @@ import type { Constants, ParameterLayout, RecordingSlots, ResidualSeries } from 
 import { guessConstants } from './guessConstants.js';
 import { prepareRecording } from './prepareRecording.js';
 import { solveSymmetricSystem } from './solveSymmetricSystem.js';
+import { logCovarianceOfConstants } from './logCovarianceOfConstants.js';
+import { estimateSourceResistance } from './estimateSourceResistance.js';
+import type { ConstantMap } from './logCovarianceOfConstants.js';
 import { fitDetailed } from '../detailed/fitDetailed.js';
 import { DETAILED_CONSTANTS as DETAILED_NAMES } from '../detailed/createDetailedProblem.js';
 import type { DetailedConstant } from '../detailed/createDetailedProblem.js';
@@ -141,6 +144,7 @@ export function fitMotor(recordings: MotorRecordingInput[], options?: FitMotorOp
     if (e.voltage !== undefined && r.terminalNoise !== null) r.terminalNoise = given(e.voltage);
   });
   let fit = fitPrepared(recs, opts);
+  addSupplyTerms(fit, recordings, recs);
   // Re-weight once by the residual noise: the data-only σ of a fast-moving or quantised channel
   // can be far from the noise the fit leaves (the detailed path does this itself).
   if (opts.reweight && fit.converged && !needsDetailedModel(recs, { ...opts.extensions, coulomb: fit.variant.coulomb })) {
@@ -159,7 +163,7 @@ export function fitMotor(recordings: MotorRecordingInput[], options?: FitMotorOp
     });
     if (moved) {
       const again = fitPrepared(recs, opts);
-      if (again.converged) fit = again;
+      if (again.converged) { fit = again; addSupplyTerms(fit, recordings, recs); }
     }
   }
   return fit;
@@ -194,6 +198,7 @@ function fitPrepared(recs: PreparedRecording[], opts: ReturnType<typeof checkFit
         }
       } catch { /* the guesses stand */ }
     }
+    effectStarts(recs, ext, start, startSource);
     if (ext.coulomb && !(start.Tc! > 0 && start.Tc! < runningTorque(recs, start.Kt ?? 0.05))) {
       // 5 % of the torque the rotor runs against (Kt times the smallest running current; common
       // practice, no source: a start, not a guess). A start above the running torque holds the
@@ -521,6 +526,18 @@ function fitPrepared(recs: PreparedRecording[], opts: ReturnType<typeof checkFit
     }
     parameters['Kt/Ke'] = est;
   }
+  // The constants' joint statistics (ln p), for every reader.
+  const maps: ConstantMap[] = (['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc'] as const)
+    .filter((c) => parameters[c] !== undefined)
+    .map((c) => {
+      const est = parameters[c]!;
+      if (est.fixed === true) return { name: c, value: est.value, status: 'pinned' as const, gradient: [] };
+      const i = c === 'R' ? layout.iR : c === 'L' ? layout.iL : c === 'Kt' ? layout.iKt : c === 'Ke' ? layout.iKe : c === 'J' ? layout.iJ : c === 'b' ? layout.iB : layout.iTc;
+      if (i < 0) return { name: c, value: est.value, status: 'absent' as const, gradient: [] };
+      // θ = ln p, except Tc = θ·scale: d ln Tc/dθ = scale/Tc.
+      return { name: c, value: est.value, status: 'fitted' as const, gradient: [[i, c === 'Tc' ? layout.tcScale / est.value : 1]] as [number, number][] };
+    });
+  const constantCovariance = logCovarianceOfConstants(maps, covariance, identifiable, p, dof);
   const residuals = sol.residuals ?? problem.residualsAt(sol.theta);
   const reports = reportsFor(residuals);
   recs.forEach((r, i) => {
@@ -533,7 +550,7 @@ function fitPrepared(recs: PreparedRecording[], opts: ReturnType<typeof checkFit
   });
   return {
     parameters, notInformed, variant, recordings: reports,
-    fittedNames: thetaNames, theta: Array.from(sol.theta), normalMatrix: sol.JtJ,
+    fittedNames: thetaNames, theta: Array.from(sol.theta), normalMatrix: sol.JtJ, covariance, constantCovariance, degreesOfFreedom: dof,
     ssr: sol.ssr, rows: sol.rows, residualVariance: dof > 0 ? sol.ssr / dof : NaN, start,
     iterations, jacobianEvaluations, functionEvaluations, starts: attempts,
     converged: sol.converged, stopReason: sol.stopReason,
@@ -619,4 +636,48 @@ function runningTorque(recs: PreparedRecording[], Kt: number): number {
     if (i > 0) best = Math.min(best, Kt * i);
   }
   return Number.isFinite(best) ? best : 1e-3 * Kt;
+}
+
+/**
+ * Starting values of the effect constants the caller did not give (common practice, no source:
+ * starts, not guesses — each puts the effect at a modest share of what the data show, where the
+ * fit has a gradient to follow): drag c at 10 % of the viscous torque at the top speed; the
+ * voltage limit at 95 % of the largest commanded level; the current limit at 95 % of the largest
+ * current; stiction 30 % above Coulomb friction; a thermal time constant of a third of the longest
+ * record, with Rth for a 10 K rise at its mean copper loss.
+ */
+function effectStarts(recs: PreparedRecording[], ext: ModelExtensions, start: Partial<Record<DetailedConstant, number>>, src: Partial<Record<DetailedConstant, string>>): void {
+  const set = (k: DetailedConstant, v: number, why: string): void => {
+    if (start[k] === undefined && Number.isFinite(v) && v > 0) { start[k] = v; src[k] = why; }
+  };
+  let wmax = 0, imax = 0, vmax = 0, power = 0, count = 0, longest = 0;
+  for (const r of recs) {
+    if (r.speed !== null) for (let k = 0; k < r.speed.length; k++) wmax = Math.max(wmax, Math.abs(r.speed[k]!));
+    if (r.current !== null) for (let k = 0; k < r.current.length; k++) { const i = r.current[k]!; imax = Math.max(imax, Math.abs(i)); power += i * i; count++; }
+    if (r.source === 'command') for (let k = 0; k < r.input.length; k++) vmax = Math.max(vmax, Math.abs(r.input[k]!));
+    longest = Math.max(longest, r.time[r.time.length - 1]! - r.time[0]!);
+  }
+  if (ext.drag) set('c', (0.1 * (start.b ?? 1e-6)) / Math.max(wmax, 1e-6), 'start: drag at 10 % of the viscous torque at the top speed');
+  if (ext.voltageLimit) set('Vmax', 0.95 * vmax, 'start: 95 % of the largest commanded level');
+  if (ext.currentLimit) set('Imax', 0.95 * imax, 'start: 95 % of the largest current');
+  if (ext.stiction && start.Tc !== undefined) set('Ts', 1.3 * start.Tc, 'start: 30 % above Coulomb friction');
+  if (ext.heating) {
+    const p = (start.R ?? 1) * (count > 0 ? power / count : 1);
+    const Rth = 10 / Math.max(p, 1e-9);
+    set('Rth', Rth, 'start: a 10 K rise at the mean copper loss');
+    set('Cth', Math.max(longest, 1e-3) / 3 / Rth, 'start: a thermal time constant of a third of the longest record');
+  }
+}
+
+/**
+ * The supply side: Rs from recordings that log both the supply and the terminal voltage; and when
+ * the supply alone drove a recording, R is R + Rs, said so and stated under that name too.
+ */
+function addSupplyTerms(fit: MotorFit, recordings: MotorRecordingInput[], recs: PreparedRecording[]): void {
+  const rs = estimateSourceResistance(recordings.map((r) => r.recording), recs.map((r) => r.name));
+  if (rs !== null) fit.parameters.Rs = rs;
+  const supplyOnly = recs.filter((r) => r.source === 'supply');
+  if (supplyOnly.length > 0 && fit.parameters.R !== undefined && fit.parameters.R.fixed !== true) {
+    fit.parameters['R+Rs'] = { ...fit.parameters.R };
+  }
 }

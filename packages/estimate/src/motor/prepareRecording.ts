@@ -117,7 +117,8 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
   const time = rec.time;
   if (!(time instanceof Float64Array)) throw new TypeError(`${where}.recording.time must be a Float64Array`);
   const n = time.length;
-  if (n < 16) throw new RangeError(`${where}.recording.time must hold at least 16 samples (got ${n})`);
+  const minRows = rec.layout === 'table' ? 3 : 16;
+  if (n < minRows) throw new RangeError(`${where}.recording.time must hold at least ${minRows} ${rec.layout === 'table' ? 'operating points' : 'samples'} (got ${n})`);
   // One pass: finite, strictly increasing, smallest and largest interval.
   let hmin = Infinity, hmax = 0;
   if (!Number.isFinite(time[0]!)) throw new RangeError(`${where}.recording.time[0] must be finite (got ${time[0]})`);
@@ -205,6 +206,8 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
 
   const noise = (v: Float64Array | null): NoiseLevel | null => {
     if (v === null) return null;
+    // A table's points are not a time series: its noise comes from its SD columns or the fit.
+    if (table) { let q = 0; for (let k = 0; k < n; k++) q += v[k]! * v[k]!; return { sigma: 0.002 * Math.sqrt(q / n) + 1e-12, method: 'given', quantum: null }; }
     const lvl = estimateNoiseLevel(v);
     const maxAbs = stats.get(v)!.maxAbs;
     return { ...lvl, sigma: Math.max(lvl.sigma, FLOOR * Math.max(maxAbs, 1)) };
@@ -261,6 +264,12 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
   const loadTorque = torqueStats === null ? 0 : torqueStats.mean;
   let direction: 1 | -1 = 1;
   if (speed !== null) direction = stats.get(speed)!.sum >= 0 ? 1 : -1;
+  handling.source = source;
+  handling.sourceNote = source === 'command'
+    ? 'input: commanded voltage, not measured at the motor (a drive that limits its voltage or current makes the two differ)'
+    : source === 'supply'
+      ? 'input: supply voltage, not measured at the motor: R here is R + Rs, the winding plus the supply\'s source resistance'
+      : source === 'none' ? 'no voltage logged: only the free deceleration is fitted' : '';
   // A coast-down that shows the driven plateau before the cut (voltage or current there).
   const drivenBeforeCut = kind === 'coast-down' && voltage !== null && first > 8;
   const terminal = drivenBeforeCut && source === 'terminal' ? terminalV : null;

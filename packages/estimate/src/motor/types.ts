@@ -90,6 +90,10 @@ export interface InputHandling {
   residualRatio: number;
   /** Voltage noise σ from the data [V]. */
   voltageSigma: number;
+  /** Which logged voltage drove the model (see `PreparedRecording.source`). */
+  source?: 'terminal' | 'supply' | 'command' | 'none';
+  /** What that means for the constants, in plain words (empty for the terminal voltage). */
+  sourceNote?: string;
 }
 
 /** An estimate of one constant or nuisance parameter. */
@@ -193,6 +197,11 @@ export interface MotorFit {
   normalMatrix: Float64Array;
   /** Covariance of θ at the optimum, s²(JᵀJ)⁺ (p×p row-major), or null when it could not be formed. */
   covariance?: Float64Array | null;
+  /**
+   * The constants' joint statistics, stated once here for every reader (diagnosis, parameter set,
+   * derived figures): the covariance of their logarithms, ln p, at the optimum.
+   */
+  constantCovariance?: ConstantCovariance;
   /** Degrees of freedom rows − p of the intervals. */
   degreesOfFreedom?: number;
   /** Sum of squared whitened residuals at the optimum. */
@@ -282,4 +291,25 @@ export interface FitMotorOptions {
   warmStart?: MotorFit;
   /** Ambient temperature for the heating model [°C]; the winding starts at it. @default 25 */
   ambientTemperature?: number;
+}
+
+/**
+ * Covariance of the logarithms of a fit's constants (all positive): C_ij = cov(ln p_i, ln p_j),
+ * m×m row-major. A constant pinned by the caller has a zero row; one with no usable variance (not
+ * informed, on a dropped direction of the covariance, or not positive) has NaN in its row and
+ * `usable` false.
+ */
+export interface ConstantCovariance {
+  /** Constant names (R, L, Kt, Ke, J, b, then the effect constants the model has). */
+  names: string[];
+  /** Values [SI]. */
+  values: number[];
+  /** Whether each row is usable (pinned constants are, with zero variance). */
+  usable: boolean[];
+  /** The covariance, m×m row-major. */
+  logCovariance: Float64Array;
+  /** Degrees of freedom of the fit (rows − p). */
+  degreesOfFreedom: number;
+  /** Student-t quantile t(0.975, dof). */
+  tQuantile: number;
 }
