@@ -15,8 +15,32 @@ export function parseSubcommandArgs<T extends NonNullable<ParseArgsConfig['optio
   try {
     return parseArgs({ args, options, allowPositionals: true, strict: true });
   } catch (err) {
-    throw new UsageError((err as Error).message.replace(/\. To specify a positional.*$/s, '.'), subcommand);
+    let message = (err as Error).message.replace(/\. To specify a positional.*$/s, '.');
+    // A near miss of a known option: suggest it.
+    const typed = /Unknown option '(--?[^']+)'/.exec(message)?.[1];
+    if (typed !== undefined) {
+      const name = typed.replace(/^-+/, '');
+      let best: string | null = null, bestD = 3;
+      for (const known of Object.keys(options)) {
+        const d = editDistance(name, known);
+        if (d < bestD) { bestD = d; best = known; }
+      }
+      message = `unknown option ${typed}${best !== null ? `; did you mean --${best}?` : ''}`;
+    }
+    throw new UsageError(message, subcommand);
   }
+}
+
+/** Levenshtein distance (small strings: option names). */
+function editDistance(a: string, b: string): number {
+  const d = Array.from({ length: a.length + 1 }, (_, i) => [i, ...new Array<number>(b.length).fill(0)]);
+  for (let j = 1; j <= b.length; j++) d[0]![j] = j;
+  for (let i = 1; i <= a.length; i++) {
+    for (let j = 1; j <= b.length; j++) {
+      d[i]![j] = Math.min(d[i - 1]![j]! + 1, d[i]![j - 1]! + 1, d[i - 1]![j - 1]! + (a[i - 1] === b[j - 1] ? 0 : 1));
+    }
+  }
+  return d[a.length]![b.length]!;
 }
 
 /** Reads a finite number from an option value; a UsageError names the option otherwise. */

@@ -101,7 +101,9 @@ export function identifyMotor(recordings: MotorRecordingInput[], options: Identi
         if (e === 'stiction') next.coulomb = true;
         let cand: MotorFit;
         try {
-          cand = fitWith(next, { initial: { ...(base.initial ?? {}) }, warmStart: fit, noise: weights, reweight: false });
+          // From the current optimum an effect the data show converges in a few steps; one they do
+          // not show drifts towards zero on its log scale: 40 steps tell the two apart.
+          cand = fitWith(next, { initial: { ...(base.initial ?? {}) }, warmStart: fit, noise: weights, reweight: false, solver: { ...(base.solver ?? {}), maxIterations: Math.min(base.solver?.maxIterations ?? 40, 40) } });
         } catch (err) {
           candidates.push({ extensions: listOf(next), added: e, converged: false, ssr: NaN, parameters: NaN, rows: NaN, comparison: null, accepted: false, reason: `the fit failed: ${err instanceof Error ? err.message : String(err)}`, effects: {} });
           rejected.add(e);
@@ -194,15 +196,17 @@ function applicable(recordings: MotorRecordingInput[], fit: MotorFit, d: FitDiag
 }
 
 /**
- * Effect constants the data do not support: for each extension tried and not taken, the value and
- * the 95 % upper bound its candidate fit gave (positive constants are fitted on a log scale, so
- * the bound is the upper end of that interval).
+ * Effect magnitudes the data do not support (Tc, Ts, c): for each such extension tried and not
+ * taken, the 95 % upper bound its candidate fit gave (positive constants are fitted on a log scale,
+ * so the bound is the upper end of that interval).
  */
 function unsupportedConstants(candidates: ModelCandidate[], model: ModelExtensions): UnsupportedConstant[] {
   const out: UnsupportedConstant[] = [];
   for (const c of candidates) {
     const added = c.added as Extension | null;
-    if (added === null || c.accepted || model[added]) continue;
+    // Only magnitudes that vanish without the effect (friction torques, drag) are "zero"; a limit
+    // or a thermal path that is not seen is recorded with the candidates instead.
+    if (added === null || c.accepted || model[added] || !['coulomb', 'stiction', 'drag'].includes(added)) continue;
     if (out.some((u) => u.extension === added)) continue;
     const bounds: UnsupportedConstant['bounds'] = {};
     for (const [name, e] of Object.entries(c.effects)) bounds[name] = { upper95: e.interval95 !== null ? e.interval95[1] : null, unit: e.unit };

@@ -1,11 +1,10 @@
 /**
- * The one place where the lot calls the per-motor fit pipeline (fit → diagnose → optional Coulomb
- * model → parameter set), through today's public API. Kept in this file alone so the pipeline can
- * be swapped for a one-call API later without touching the rest of the lot package. It runs on the
- * worker threads, so it imports only what fitting needs (not the CSV reader).
+ * The one place where the lot calls the per-motor fit: `identifyMotor` (the call `motorprint fit`
+ * makes: model chosen by the data, diagnosed) and the parameter set. It runs on the worker
+ * threads, so it imports only what fitting needs (not the CSV reader).
  */
-import { diagnoseFit } from '@motorprint/diagnose';
-import { fitMotor, type MotorRecordingInput } from '@motorprint/estimate';
+import { identifyMotor } from '@motorprint/diagnose';
+import type { MotorRecordingInput } from '@motorprint/estimate';
 import { buildParameterSet, type ParameterSet } from '@motorprint/report';
 import type { MotorInput, MotorOutcome, MotorRecording, MotorValue } from './types.js';
 
@@ -35,10 +34,9 @@ function valuesOf(set: ParameterSet): Record<string, MotorValue> {
 }
 
 /**
- * Fits one motor of a lot from its recordings: the lumped model fitted to all of them jointly, the
- * fit diagnosed, the Coulomb-friction model reported when the diagnosis's model comparison supports
- * it (as `motorprint fit --coulomb auto` does), and the parameter set built with the derived
- * figures at the spec's rated voltage. Never throws for bad data: a fit that fails or does not
+ * Fits one motor of a lot from its recordings with `identifyMotor` (jointly, the extensions of the
+ * lumped model chosen by the data, as `motorprint fit` does), and builds the parameter set with
+ * the derived figures at the spec's rated voltage. Never throws for bad data: a fit that fails or does not
  * converge gives `status: 'error'` with the reason.
  *
  * @param serial - the motor's serial
@@ -58,22 +56,19 @@ export function fitMotorFolder(serial: string, recordings: readonly MotorRecordi
   const fitInputs: MotorRecordingInput[] = recordings.map((r) =>
     r.kind === null ? { recording: r.recording, name: r.file } : { recording: r.recording, name: r.file, kind: r.kind });
   try {
-    let fit = fitMotor(fitInputs);
+    // The same one call as `motorprint fit`: the model the data support, diagnosed.
+    const id = identifyMotor(fitInputs);
+    const { fit, diagnosis } = id;
     fit.recordings.forEach((r, i) => { const input = used[i]; if (input !== undefined) input.kind = r.kind; });
     if (!fit.converged) {
       return failure(`the fit did not converge (${fit.stopReason}) after ${fit.iterations} steps; check the recordings and declare their kinds in runs.csv`);
     }
-    let diagnosis = diagnoseFit(fit, fitInputs, { fitOptions: {}, refitCoulomb: true });
-    let model = fit.variant.description;
-    const refit = diagnosis.coulombRefit;
-    if (refit !== null && refit.converged && refit.supported === 'viscous + Coulomb') {
-      fit = refit.fit;
-      diagnosis = { ...diagnoseFit(fit, fitInputs, { fitOptions: { coulomb: true }, refitCoulomb: false }), coulombRefit: refit };
-      model = `${fit.variant.description} (chosen over viscous friction only: the model comparison supports it)`;
-    }
+    const model = `${fit.variant.description} — ${id.model.summary}`;
     const set = buildParameterSet(fit, {
       recordings: recordings.map((r) => r.recording),
       diagnosis,
+      model: id.model,
+      unsupported: id.unsupported,
       identification: { ...(options.identification ?? {}), serial },
       ...(options.ratedVoltage !== null ? { ratedVoltage: options.ratedVoltage } : {}),
       provenance: {

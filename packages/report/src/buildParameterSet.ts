@@ -3,10 +3,14 @@ import { checkProvenance } from './checkProvenance.js';
 import { constantCovariance } from './constantCovariance.js';
 import { derivedFigures } from './derivedFigures.js';
 import { normaliseResistance } from './normaliseResistance.js';
-import type { BuildParameterSetOptions, ConstantName, ParameterEntry, ParameterSet, ReportFinding } from './types.js';
+import type { BuildParameterSetOptions, ModelChoiceRecord, ParameterEntry, ParameterSet, ReportFinding } from './types.js';
 
-const UNITS: Record<ConstantName, string> = { R: 'Ω', L: 'H', Kt: 'N·m/A', Ke: 'V·s/rad', J: 'kg·m²', b: 'N·m·s/rad', Tc: 'N·m' };
-const ORDER: ConstantName[] = ['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc'];
+const UNITS: Record<string, string> = {
+  R: 'Ω', L: 'H', Kt: 'N·m/A', Ke: 'V·s/rad', J: 'kg·m²', b: 'N·m·s/rad', Tc: 'N·m', Ts: 'N·m', c: 'N·m·s²/rad²',
+  Vmax: 'V', Imax: 'A', Rs: 'Ω', Rth: 'K/W', Cth: 'J/K', R20: 'Ω',
+};
+const ORDER: string[] = ['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc', 'Ts', 'c', 'Vmax', 'Imax', 'Rs', 'Rth', 'Cth', 'R20'];
+const LUMPED: readonly string[] = ['R', 'L', 'Kt', 'Ke', 'J', 'b'];
 
 function finiteOrNull(x: number | undefined): number | null {
   return x !== undefined && Number.isFinite(x) ? x : null;
@@ -84,14 +88,15 @@ export function buildParameterSet(fit: MotorFit, options: BuildParameterSetOptio
   for (const [name, v] of Object.entries(options.diagnosis?.parameters ?? {})) verdicts.set(name, { identifiable: v.identifiable, reason: v.reason ?? '' });
   const notInformed = new Map(fit.notInformed.map((u) => [u.name as string, u]));
 
-  const entries: Partial<Record<ConstantName, ParameterEntry>> = {};
-  for (const c of ORDER) {
+  const entries: Record<string, ParameterEntry> = {};
+  const keys = [...ORDER, ...Object.keys(fit.parameters).filter((k) => !ORDER.includes(k))];
+  for (const c of keys) {
     const est = fit.parameters[c];
-    if (c === 'Tc' && est === undefined && !fit.variant.coulomb) continue;
+    if (!LUMPED.includes(c) && est === undefined) continue;
     if (est === undefined) {
       const u = notInformed.get(c);
       entries[c] = {
-        value: null, unit: UNITS[c], ci95: null, identifiable: false, standardError: null, fixed: false, informedBy: [],
+        value: null, unit: UNITS[c] ?? '', ci95: null, identifiable: false, standardError: null, fixed: false, informedBy: [],
         note: u !== undefined ? `not informed: ${u.reason}; ${u.wouldInform} would inform it` : 'not estimated by the fit',
       };
       continue;
@@ -106,7 +111,7 @@ export function buildParameterSet(fit: MotorFit, options: BuildParameterSetOptio
     else if (!hasInterval) note = 'not identifiable: the covariance gives no usable interval (the data do not separate it from the other constants)';
     entries[c] = {
       value: Number.isFinite(est.value) ? est.value : null,
-      unit: est.unit || UNITS[c],
+      unit: est.unit || (UNITS[c] ?? ''),
       ci95: identifiable ? [est.interval95![0], est.interval95![1]] : null,
       identifiable,
       standardError: identifiable ? finiteOrNull(est.standardError) : null,
@@ -115,11 +120,24 @@ export function buildParameterSet(fit: MotorFit, options: BuildParameterSetOptio
       note,
     };
   }
+  // Effects the data do not support: no value, the bound their candidate fit set.
+  for (const u of options.unsupported ?? []) {
+    for (const c of u.constants) {
+      if (entries[c] !== undefined) continue;
+      const b = u.bounds[c];
+      const bound = b?.upper95 !== null && b?.upper95 !== undefined && Number.isFinite(b.upper95) ? `< ${Number(b.upper95.toPrecision(3))} ${b.unit} at 95 %` : 'no upper bound from these recordings';
+      entries[c] = {
+        value: null, unit: b?.unit ?? UNITS[c] ?? '', ci95: null, identifiable: false, standardError: null, fixed: false, informedBy: [],
+        note: `not distinguishable from 0 (${bound}): ${u.reason}; left out of the model`,
+      };
+    }
+  }
   const parameters = entries as ParameterSet['parameters'];
 
   // Winding temperature and R at the reference temperature.
   const channelT = meanTemperature(recordings);
   const windingT = options.windingTemperature ?? channelT;
+  // With the heating model, R is the resistance at 20 °C (the copper law's reference there).
   const R = parameters.R;
   let resistanceAtReference;
   if (R.value !== null) {
@@ -158,7 +176,9 @@ export function buildParameterSet(fit: MotorFit, options: BuildParameterSetOptio
   return {
     schema: 'motorprint.parameter-set/1',
     identification,
-    variant: { torqueConstant: fit.variant.torqueConstant, coulomb: fit.variant.coulomb, description: fit.variant.description },
+    variant: { torqueConstant: fit.variant.torqueConstant, coulomb: fit.variant.coulomb, extensions: [...(fit.variant.extensions ?? [])], description: fit.variant.description },
+    ...(options.model !== undefined ? { model: recordModel(options.model) } : {}),
+    ...(options.checks !== undefined && options.checks.length > 0 ? { checks: options.checks.map((c) => ({ ...c, channels: c.channels.map((x) => ({ ...x })) })) } : {}),
     parameters,
     resistanceAtReference,
     ratedVoltage,
@@ -190,4 +210,16 @@ function cleanEvidence(e: Record<string, number | string>): Record<string, numbe
   const out: Record<string, number | string> = {};
   for (const [k, v] of Object.entries(e)) out[k] = typeof v === 'number' && !Number.isFinite(v) ? String(v) : v;
   return out;
+}
+
+/** A JSON-clean copy of the model choice (non-finite numbers as null). */
+function recordModel(m: ModelChoiceRecord): ModelChoiceRecord {
+  const num = (x: number): number => (Number.isFinite(x) ? x : (null as unknown as number));
+  return {
+    extensions: [...m.extensions], forced: m.forced, summary: m.summary,
+    candidates: m.candidates.map((c) => ({
+      extensions: [...c.extensions], added: c.added, converged: c.converged, accepted: c.accepted, reason: c.reason,
+      comparison: c.comparison === null ? null : { fPValue: num(c.comparison.fPValue), aic: [num(c.comparison.aic[0]), num(c.comparison.aic[1])], bic: [num(c.comparison.bic[0]), num(c.comparison.bic[1])] },
+    })),
+  };
 }

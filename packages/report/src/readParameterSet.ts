@@ -108,13 +108,19 @@ export function readParameterSet(text: string): ParameterSet {
   const va = obj(r.variant, 'variant');
   const variant = {
     torqueConstant: oneOf(va, 'torqueConstant', 'variant.', ['equal', 'separate'] as const),
-    coulomb: bool(va, 'coulomb', 'variant.'), description: str(va, 'description', 'variant.'),
+    coulomb: bool(va, 'coulomb', 'variant.'),
+    extensions: va.extensions === undefined ? [] : Array.isArray(va.extensions) && va.extensions.every((x) => typeof x === 'string') ? (va.extensions as string[]).slice() : fail('variant.extensions', 'an array of strings', va.extensions),
+    description: str(va, 'description', 'variant.'),
   };
   const po = obj(r.parameters, 'parameters');
   const parameters = {} as ParameterSet['parameters'];
+  const OPTIONAL_KEYS = ['Tc', 'Ts', 'c', 'Vmax', 'Imax', 'Rs', 'Rth', 'Cth', 'R20', 'R+Rs', 'Kt/Ke', 'b/J', 'Tc/J', 'c/J', 'speed gain', 'mechanical time constant'];
   for (const c of ['R', 'L', 'Kt', 'Ke', 'J', 'b'] as const) parameters[c] = readEntry(po[c], `parameters.${c}`);
-  if (po.Tc !== undefined) parameters.Tc = readEntry(po.Tc, 'parameters.Tc');
-  for (const k of Object.keys(po)) if (!['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc'].includes(k)) fail(`parameters.${k}`, 'absent (unknown constant)', k);
+  for (const k of Object.keys(po)) {
+    if (['R', 'L', 'Kt', 'Ke', 'J', 'b'].includes(k)) continue;
+    if (!OPTIONAL_KEYS.includes(k)) fail(`parameters.${k}`, `absent (unknown constant; known: R, L, Kt, Ke, J, b, ${OPTIONAL_KEYS.join(', ')})`, k);
+    parameters[k] = readEntry(po[k], `parameters.${k}`);
+  }
 
   const ro = obj(r.resistanceAtReference, 'resistanceAtReference');
   const rp = 'resistanceAtReference.';
@@ -193,8 +199,15 @@ export function readParameterSet(text: string): ParameterSet {
     }),
     options: readJson(obj(pv.options, 'provenance.options'), 'provenance.options', 0) as ParameterSet['provenance']['options'],
   };
-  return {
+  const out: ParameterSet = {
     schema: 'motorprint.parameter-set/1', identification, variant, parameters, resistanceAtReference, ratedVoltage, intervals,
     derived, fit, notInformed, findings, provenance,
   };
+  // The model choice and the held-out checks are records kept as written (their shapes are in the schema).
+  if (r.model !== undefined) out.model = readJson(obj(r.model, 'model'), 'model', 0) as unknown as NonNullable<ParameterSet['model']>;
+  if (r.checks !== undefined) {
+    if (!Array.isArray(r.checks)) fail('checks', 'an array', r.checks);
+    out.checks = readJson(r.checks, 'checks', 0) as unknown as NonNullable<ParameterSet['checks']>;
+  }
+  return out;
 }

@@ -131,10 +131,21 @@ export interface ParameterSet {
   schema: ParameterSetSchemaId;
   /** Motor and test identification fields (free text, e.g. `motor`, `serial`, `bench`, `operator`). */
   identification: Record<string, string>;
-  /** Model variant used by the fit. */
-  variant: { torqueConstant: 'equal' | 'separate'; coulomb: boolean; description: string };
-  /** The constants in SI; Tc only when the model has Coulomb friction. */
-  parameters: Record<'R' | 'L' | 'Kt' | 'Ke' | 'J' | 'b', ParameterEntry> & { Tc?: ParameterEntry };
+  /** Model variant used by the fit (`extensions`: the detailed model's terms it includes). */
+  variant: { torqueConstant: 'equal' | 'separate'; coulomb: boolean; extensions: string[]; description: string };
+  /**
+   * The constants in SI: R, L, Kt, Ke, J, b always; the effect constants of the chosen model (Tc,
+   * Ts, c, Vmax, Imax, Rth, Cth, R20 — R20 the copper-law resistance at 20 °C of the heating model),
+   * Rs where supply and terminal voltage were both logged, and the ratios a recording informs on
+   * their own (b/J and Tc/J of a speed-only coast-down; `speed gain` and `mechanical time constant`
+   * of voltage-to-speed runs without current). An effect the data do not support has a null value
+   * and a note "not distinguishable from 0 (< X at 95 %)".
+   */
+  parameters: Record<'R' | 'L' | 'Kt' | 'Ke' | 'J' | 'b', ParameterEntry> & Partial<Record<string, ParameterEntry>>;
+  /** How the model was chosen, when the caller passed it: the chosen extensions, every candidate and its comparison. */
+  model?: ModelChoiceRecord;
+  /** Held-out recordings predicted with the constants, when the caller passed them. */
+  checks?: HeldOutRecord[];
   /** R carried to the reference temperature. */
   resistanceAtReference: ResistanceAtReference;
   /** The voltage the voltage-dependent figures are stated at. */
@@ -157,6 +168,37 @@ export interface ParameterSet {
   findings: ReportFinding[];
   /** Where it came from. */
   provenance: Provenance;
+}
+
+/** The model choice, as `identifyMotor` of `@motorprint/diagnose` states it (structural). */
+export interface ModelChoiceRecord {
+  /** Chosen extensions of the lumped model. */
+  extensions: string[];
+  /** Whether the caller forced the model. */
+  forced: boolean;
+  /** One sentence on why. */
+  summary: string;
+  /** Every model tried. */
+  candidates: {
+    extensions: string[]; added: string | null; converged: boolean; accepted: boolean; reason: string;
+    comparison: { fPValue: number; aic: [number, number]; bic: [number, number] } | null;
+  }[];
+}
+
+/** A held-out check (structural: `HeldOutCheck` of `@motorprint/diagnose`). */
+export interface HeldOutRecord {
+  name: string;
+  kind: string;
+  converged: boolean;
+  channels: { channel: string; rms: number; nrmse: number; samples: number }[];
+}
+
+/** An extension the data do not support (structural: `UnsupportedConstant` of `@motorprint/diagnose`). */
+export interface UnsupportedRecord {
+  extension: string;
+  constants: string[];
+  bounds: Record<string, { upper95: number | null; unit: string }>;
+  reason: string;
 }
 
 /** Per-constant verdict a diagnosis may carry (structural: `@motorprint/diagnose`'s `ParameterDiagnosis` fits it). */
@@ -233,6 +275,12 @@ export interface BuildParameterSetOptions {
   copperConstant?: CopperLawConstant;
   /** Provenance: tool, date, inputs, options. Required: the library reads no clock and no files. */
   provenance: Provenance;
+  /** The model choice to record (from `identifyMotor`). @default none */
+  model?: ModelChoiceRecord;
+  /** Extensions the data do not support, to state as "not distinguishable from 0". @default [] */
+  unsupported?: readonly UnsupportedRecord[];
+  /** Held-out checks to record. @default [] */
+  checks?: readonly HeldOutRecord[];
 }
 
 /**

@@ -1,15 +1,13 @@
-import { basename } from 'node:path';
+import { basename, dirname, extname, resolve } from 'node:path';
 import { mkdir, writeFile } from 'node:fs/promises';
-import { dirname, extname, resolve } from 'node:path';
-import { diagnoseFit, type FitDiagnosis } from '@motorprint/diagnose';
+import { identifyMotor, type Identification, type IdentifyOptions } from '@motorprint/diagnose';
 import {
   buildParameterSet, formatParameterSetCsv, formatParameterSetMarkdown, renderHtmlReport,
   type BuildParameterSetOptions, type JsonValue, type ParameterSet,
 } from '@motorprint/report';
-import { fitMotor, type FitMotorOptions, type MotorConstantName, type MotorExperimentKind, type MotorFit } from '@motorprint/estimate';
+import type { FitMotorOptions, ModelExtensions, MotorConstantName, MotorExperimentKind, MotorRecordingInput } from '@motorprint/estimate';
 import type { IngestResult } from '@motorprint/ingest';
 import { keyValuePairs, numberOption, parseSubcommandArgs } from '../args.js';
-import { inputVoltage } from '../inputVoltage.js';
 import { INGEST_OPTION_HELP, INGEST_OPTIONS, ingestOptionsFrom, readInput } from '../readInputs.js';
 import { createProgress, type Progress } from '../progress.js';
 import { paintFor, type Paint } from '../style.js';
@@ -18,50 +16,69 @@ import { EXIT, TOOL_VERSION, type CliIo, type Subcommand } from '../types.js';
 import { UsageError } from '../UsageError.js';
 
 const KINDS: readonly MotorExperimentKind[] = ['locked-rotor', 'step', 'coast-down', 'steady-state', 'prbs', 'multisine', 'loaded'];
-const CONSTANTS: readonly MotorConstantName[] = ['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc'];
+const CONSTANTS: readonly MotorConstantName[] = ['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc', 'Ts', 'c', 'Vmax', 'Imax', 'Rth', 'Cth'];
+const EXTENSION_WORDS: Record<string, keyof ModelExtensions> = {
+  coulomb: 'coulomb', stiction: 'stiction', drag: 'drag', 'voltage-limit': 'voltageLimit', 'current-limit': 'currentLimit', heating: 'heating',
+};
 
-const HELP = `motorprint fit FILE... [--kind FILE=KIND] [--fix P=V] [--guess P=V] [--json] [ingest options]
+const HELP = `motorprint fit FILE... [--kind FILE=KIND] [--fix P=V] [--guess P=V] [--check FILE]
+               [--model auto|lumped|EXT,EXT…] [--coulomb auto|yes|no] [--measured-voltage]
+               [--json] [--out FILE] [--format json|md|csv] [--report FILE.html]
+               [--rated-voltage V] [--winding-temp C] [--reference-temp C] [--copper-k K]
+               [--ambient-temp C] [--id KEY=VALUE] [ingest options]
 
-Fits the lumped DC-motor model to one or more bench recordings at once and prints one consistent
-parameter set: R [Ω], L [H], Kt [N·m/A], Ke [V·s/rad], J [kg·m²], b [N·m·s/rad] and, where a
-coast-down or steady-state sweep informs it, Coulomb friction Tc [N·m]. Each constant comes with its
-standard error and 95 % interval; a constant the recordings cannot inform is named, with the
-recording that would inform it, instead of being printed as a number.
+Fits one consistent set of motor constants to one or more bench recordings at once: R [Ω], L [H],
+Kt [N·m/A], Ke [V·s/rad], J [kg·m²], b [N·m·s/rad], and — where the data support them — the terms of
+the detailed model: Coulomb friction Tc [N·m], stiction Ts [N·m], drag c [N·m·s²/rad²] (c·ω|ω|), a
+drive's voltage limit Vmax [V] and current limit Imax [A] (when the logged voltage is the drive's
+command), winding heating (R at 20 °C by the copper law, Rth [K/W], Cth [J/K]). The model is chosen
+from the data: each term is added only when a nested F-test and BIC support it, and a term they do
+not support is reported as not distinguishable from zero, with its bound. Each constant comes with
+its standard error and 95 % interval; a constant the recordings cannot pin down is named, with the
+recording that would, instead of being printed as a number.
 
 Which recording informs what:
-  locked-rotor   R, L                     step            K (= Kt = Ke), J, b (R, L if sampled fast)
-  coast-down     b/J and Tc               steady-state    Ke, b, Tc (and R)
-  prbs/multisine all                      loaded          Kt apart from Ke (needs a torque column)
+  locked-rotor   R, L                      step            K (= Kt = Ke), J, b (R, L with current)
+  coast-down     b/J (and Tc/J); with the  steady-state    Ke, b, Tc (and R)
+                 voltage and current before
+                 the cut also R, K, J, b
+  prbs/multisine all                       loaded          Kt apart from Ke (needs a torque column)
+  voltage and speed, no current: the speed gain and the mechanical time constant (pin R with --fix)
 
 Options:
-  --kind FILE=KIND   declare the experiment of FILE (as typed, or its base name); KIND is one of
-                     ${KINDS.join(', ')}; otherwise it is guessed and the reason shown
-  --fix P=V          pin constant P to V [SI] (e.g. --fix R=1.23); repeat as needed
-  --guess P=V        start constant P at V [SI] instead of the automatic guess
-  --check FILE       after fitting, predict FILE (a held-out recording) with the fitted constants
-                     and print NRMSE per channel; repeat as needed
-  --coulomb M        Coulomb friction in the model: auto (default: added when a coast-down or
-                     steady-state run is given, or when the findings call for it and the model
-                     comparison supports it — the output then says so), yes, or no
-  --measured-voltage feed the raw measured voltage to the model (no rebuild of the command; biased
-                     when the voltage is noisy — for comparison only)
-  --json             print the parameter set (one JSON document) on stdout
-  --out FILE         write the parameter set to FILE (JSON; Markdown or CSV with --format or a
-                     .md / .csv name); "motorprint simulate" and "motorprint show" read the JSON
-  --format F         json | md | csv for --out
-  --report FILE.html write a self-contained HTML report (traces, residuals, findings, cautions)
-  --rated-voltage V  voltage for the datasheet figures (default: the largest step voltage seen)
-  --winding-temp C   winding temperature during the runs, to carry R to the reference temperature
-                     (default: the mean of a temperature column, if logged)
-  --reference-temp C reference temperature for R (default 25 °C)
-  --copper-k K       copper law constant: 234.5 (IEEE Std 113 form, default) or 235 (IEC 60034-1 form)
-  --id KEY=VALUE     identification for the report, e.g. --id motor="Tern 24" --id serial=A113
+  --kind FILE=KIND    declare the experiment of FILE (as typed, or its base name); KIND is one of
+                      ${KINDS.join(', ')}; otherwise it is guessed and the reason shown
+  --fix P=V           pin constant P to V [SI] (e.g. --fix R=1.23); repeat as needed; P is one of
+                      ${CONSTANTS.join(', ')}
+  --guess P=V         start constant P at V [SI] instead of the automatic start
+  --check FILE        after fitting, predict FILE (a held-out recording) with the fitted constants
+                      and print NRMSE per channel; repeat as needed
+  --model M           auto (default: the data choose), lumped (no extension), or a comma list of
+                      extensions to force: coulomb, stiction, drag, voltage-limit, current-limit,
+                      heating
+  --coulomb M         auto, yes (same as --model coulomb) or no (same as --model lumped)
+  --measured-voltage  feed the raw measured voltage to the model (no rebuild of the command; biased
+                      when the voltage is noisy — for comparison only)
+  --json              print the parameter set (one JSON document) on stdout
+  --out FILE          write the parameter set to FILE (JSON; Markdown or CSV with --format or a
+                      .md / .csv name); "motorprint simulate" and "motorprint show" read the JSON
+  --format F          json | md | csv for --out
+  --report FILE.html  write a self-contained HTML report (traces, residuals, findings, cautions)
+  --rated-voltage V   voltage for the datasheet figures (default: the largest step voltage seen)
+  --winding-temp C    winding temperature during the runs, to carry R to the reference temperature
+                      (default: the mean of a temperature column, if logged)
+  --reference-temp C  reference temperature for R (default 25 °C)
+  --copper-k K        copper law constant: 234.5 (IEEE Std 113 form, default) or 235 (IEC 60034-1 form)
+  --ambient-temp C    ambient (and starting winding) temperature of the heating model (default 25 °C)
+  --id KEY=VALUE      identification for the report, e.g. --id motor="Tern 24" --id serial=A113
 ${INGEST_OPTION_HELP}
 
-Exit codes: 0 converged fit, 1 data problem or a fit that did not converge (its numbers are not
-trustworthy and are marked so), 2 command-line mistake.`;
+Exit codes: 0 converged fit; 1 data problem, or a fit that did not converge (no constants are
+reported then); 2 command-line mistake.`;
 
-const UNIT: Record<string, string> = { R: 'Ω', L: 'H', Kt: 'N·m/A', Ke: 'V·s/rad', J: 'kg·m²', b: 'N·m·s/rad', Tc: 'N·m' };
+const UNIT: Record<string, string> = {
+  R: 'Ω', L: 'H', Kt: 'N·m/A', Ke: 'V·s/rad', J: 'kg·m²', b: 'N·m·s/rad', Tc: 'N·m', Ts: 'N·m', c: 'N·m·s²/rad²', Vmax: 'V', Imax: 'A', Rth: 'K/W', Cth: 'J/K',
+};
 
 function constantPairs(name: string, raw: string[] | undefined): Partial<Record<MotorConstantName, number>> {
   const out: Partial<Record<MotorConstantName, number>> = {};
@@ -70,37 +87,37 @@ function constantPairs(name: string, raw: string[] | undefined): Partial<Record<
       throw new UsageError(`--${name}: unknown constant "${key}"; constants are ${CONSTANTS.join(', ')}`, 'fit');
     }
     const x = Number(value);
-    if (!Number.isFinite(x) || value === '') throw new UsageError(`--${name} ${key}= must be a number in ${UNIT[key]} (got "${value}")`, 'fit');
+    const zeroOk = ['Tc', 'Ts', 'c'].includes(key) || (key === 'b' && name === 'fix');
+    if (!Number.isFinite(x) || value === '' || (zeroOk ? x < 0 : !(x > 0))) {
+      throw new UsageError(`--${name} ${key}= must be a number ${zeroOk ? '≥ 0' : '> 0'} in ${UNIT[key]} (got "${value}")`, 'fit');
+    }
     out[key as MotorConstantName] = x;
   }
   return out;
 }
 
-/** Which friction model the command reported, when it chose between two (see `--coulomb auto`). */
-export interface ModelSelection {
-  chosen: string;
-  over: string;
-  comparison: FitDiagnosis['comparisons'][number] | NonNullable<FitDiagnosis['coulombRefit']>['comparison'];
-  triggeredBy: string[];
-}
-
-/** What `fit --json` prints and `--out` writes: the parameter set, plus held-out checks and the model comparison. */
-export function fitDocument(set: ParameterSet, diagnosis: FitDiagnosis, validation: ValidationResult[], selection: ModelSelection | null = null): Record<string, unknown> {
-  const doc: Record<string, unknown> = { ...set };
-  if (diagnosis.coulombRefit) {
-    const { comparison, supported, converged, triggeredBy } = diagnosis.coulombRefit;
-    doc.modelComparison = { supported, converged, triggeredBy, comparison, reported: selection ? selection.chosen : 'as fitted' };
+/** `--model` / `--coulomb` to a forced model, or 'auto'. */
+function modelChoice(model: string | undefined, coulomb: string | undefined): IdentifyOptions['model'] {
+  if (model !== undefined && coulomb !== undefined) throw new UsageError('give --model or --coulomb, not both', 'fit');
+  if (coulomb !== undefined) {
+    if (!['auto', 'yes', 'no'].includes(coulomb)) throw new UsageError(`--coulomb must be auto, yes or no (got "${coulomb}")`, 'fit');
+    return coulomb === 'auto' ? 'auto' : coulomb === 'yes' ? { coulomb: true } : {};
   }
-  if (validation.length > 0) doc.checks = validation;
-  return doc;
+  if (model === undefined || model === 'auto') return 'auto';
+  if (model === 'lumped') return {};
+  const forced: ModelExtensions = {};
+  for (const word of model.split(',').map((w) => w.trim()).filter(Boolean)) {
+    const e = EXTENSION_WORDS[word];
+    if (e === undefined) throw new UsageError(`--model: unknown extension "${word}"; use auto, lumped, or a comma list of ${Object.keys(EXTENSION_WORDS).join(', ')}`, 'fit');
+    forced[e] = true;
+  }
+  if (forced.stiction) forced.coulomb = true;
+  return forced;
 }
 
-/** NRMSE of the fitted model on a held-out recording (see `--check`). */
-export interface ValidationResult {
-  file: string;
-  kind: string;
-  channels: { channel: string; rms: number; nrmse: number; samples: number }[];
-  converged: boolean;
+/** What `fit --json` prints and `--out` writes: the parameter set (with the model choice and the checks in it). */
+export function fitDocument(set: ParameterSet): Record<string, unknown> {
+  return { ...set };
 }
 
 /** Prints an interval with enough digits that its ends differ (at least 3 significant). */
@@ -116,11 +133,18 @@ function formatEvidence(evidence: Record<string, number | string>): string {
     .join('; ');
 }
 
-function formatFit(fit: MotorFit, diagnosis: FitDiagnosis, validation: ValidationResult[], paint: Paint, voltageNotes: Map<string, string>): string {
+function formatIdentification(id: Identification, set: ParameterSet, paint: Paint): string {
+  const { fit, diagnosis } = id;
   const out: string[] = [];
+  out.push(`${paint.bold('Model:')} ${id.model.summary}.`);
+  const tried = id.model.candidates.filter((c) => c.added !== null);
+  if (tried.length > 0) {
+    for (const c of tried) out.push(`  ${c.accepted ? paint.good('+') : paint.dim('·')} ${c.added}: ${c.reason}`);
+  }
+  out.push('');
   const entries = Object.entries(diagnosis.parameters);
   const rows = entries
-    .filter(([, d]) => d.value !== null && d.identifiable)
+    .filter(([, d]) => d.value !== null && (d.identifiable || d.fixed))
     .map(([name, d]) => [
       name,
       formatNumber(d.value as number, 5),
@@ -129,34 +153,38 @@ function formatFit(fit: MotorFit, diagnosis: FitDiagnosis, validation: Validatio
       d.ci95 ? formatInterval(d.ci95, d.value as number) : '—',
       d.fixed ? '' : (fit.parameters[name]?.informedBy ?? []).map((f) => basename(f)).join(', '),
     ]);
-  out.push(paint.bold(fit.converged ? 'Fitted constants' : 'Constants where the fit STOPPED (not converged — do not use)'));
+  out.push(paint.bold('Fitted constants'));
   out.push(formatTable(['constant', 'value', 'unit', 'std. error', '95 % interval', 'informed by'], rows, ['left', 'right', 'left', 'right', 'left', 'left']));
-  const unidentified = entries.filter(([, d]) => !d.identifiable);
+  const unsupported = Object.entries(set.parameters).filter(([, p]) => p !== undefined && p.value === null && p.note.startsWith('not distinguishable'));
+  if (unsupported.length > 0) {
+    out.push('');
+    out.push(paint.bold('Not supported by the data (left out of the model)'));
+    for (const [name, p] of unsupported) out.push(`  ${name}: ${p!.note}`);
+  }
+  const unidentified = entries.filter(([, d]) => !d.identifiable && !d.fixed);
   if (unidentified.length > 0) {
     out.push('');
     out.push(paint.bold('Not identifiable from these recordings'));
-    for (const [name, d] of unidentified) {
-      out.push(`  ${name}: ${d.reason ?? 'no recording informs it'}${d.wouldInform ? ` — ${d.wouldInform}` : ''}`);
-    }
+    for (const [name, d] of unidentified) out.push(`  ${name}: ${d.reason ?? 'no recording informs it'}${d.wouldInform ? ` — ${d.wouldInform}` : ''}`);
   }
   out.push('');
   out.push(paint.bold('Recordings'));
   for (const r of fit.recordings) {
     out.push(`  ${r.name}: ${r.kind} (${r.kindSource === 'declared' ? 'declared' : `guessed: ${r.kindReason}`}), ${r.samples} samples`);
-    const voltageNote = voltageNotes.get(r.name);
-    if (voltageNote) out.push(`    voltage: ${paint.warn(voltageNote)}`);
+    if (r.input.sourceNote) out.push(`    ${paint.warn(r.input.sourceNote)}`);
     out.push(`    input: ${r.input.method} — ${r.input.reason}`);
     for (const c of r.channels) {
       const stats = diagnosis.residuals.find((x) => x.recording === r.name && x.channel === c.channel)?.stats;
       const white = stats
         ? `, Ljung–Box p ${formatNumber(stats.ljungBox.pValue, 2)}${stats.ljungBox.pValue < 0.01 ? paint.warn(' (residuals not white)') : ''}`
         : '';
-      out.push(`    ${c.channel.padEnd(7)} σ ${formatNumber(c.sigma, 3)} (${c.sigmaMethod}), residual RMS ${formatNumber(c.rms, 3)}, NRMSE ${formatNumber(c.nrmse, 3)}${white}`);
+      const sigma = Number.isFinite(c.sigma) ? `σ ${formatNumber(c.sigma, 3)} (${c.sigmaMethod})` : `σ from the encoder angle (${c.sigmaMethod})`;
+      out.push(`    ${c.channel.padEnd(7)} ${sigma}, residual RMS ${formatNumber(c.rms, 3)}, NRMSE ${formatNumber(c.nrmse, 3)}${white}`);
     }
   }
   out.push('');
   if (diagnosis.findings.length === 0) {
-    out.push(paint.bold('Findings: none') + ' — nothing in these recordings calls for more than the lumped linear model.');
+    out.push(paint.bold('Findings: none') + ' — nothing in these recordings calls for more than the chosen model.');
   } else {
     out.push(paint.bold(`Findings (${diagnosis.findings.length})`));
     for (const f of diagnosis.findings) {
@@ -166,20 +194,11 @@ function formatFit(fit: MotorFit, diagnosis: FitDiagnosis, validation: Validatio
       out.push(`    advice: ${f.advice}`);
     }
   }
-  const refit = diagnosis.coulombRefit;
-  if (refit) {
-    const c = refit.comparison;
-    out.push(
-      `  model comparison (${c.question}): F p ${formatNumber(c.fPValue, 2)}, AIC ${formatNumber(c.aic[0], 6)} → ${formatNumber(c.aic[1], 6)}, ` +
-        `BIC ${formatNumber(c.bic[0], 6)} → ${formatNumber(c.bic[1], 6)}; the data support: ${paint.bold(refit.supported)}` +
-        `${refit.converged ? '' : ' (the re-fit did not converge; treat with care)'}`,
-    );
-  }
-  if (validation.length > 0) {
+  if (id.checks.length > 0) {
     out.push('');
     out.push(paint.bold('Check on held-out recordings (fitted constants pinned)'));
-    for (const v of validation) {
-      out.push(`  ${v.file} (${v.kind}): ${v.channels.map((c) => `${c.channel} NRMSE ${formatNumber(c.nrmse, 3)} (RMS ${formatNumber(c.rms, 3)})`).join(', ')}`);
+    for (const v of id.checks) {
+      out.push(`  ${v.name} (${v.kind}): ${v.channels.map((c) => `${c.channel} NRMSE ${formatNumber(c.nrmse, 3)} (RMS ${formatNumber(c.rms, 3)})`).join(', ')}${v.converged ? '' : paint.warn(' (its own nuisances did not converge)')}`);
     }
   }
   out.push('');
@@ -193,8 +212,8 @@ function formatFit(fit: MotorFit, diagnosis: FitDiagnosis, validation: Validatio
   return out.join('\n');
 }
 
-/** Shares of the whole job at the start of each stage, for the progress line (from timings at 1e5–1e6 samples). */
-const STAGE = { read: 0, fit: 0.15, check: 0.55, refit: 0.85, heldOut: 0.9, write: 0.95 } as const;
+/** Shares of the whole job at the start of each stage, for the progress line. */
+const STAGE = { read: 0, fit: 0.15, write: 0.95 } as const;
 
 async function run(args: string[], io: CliIo): Promise<number> {
   const progress = createProgress(io, 'motorprint fit');
@@ -212,6 +231,7 @@ async function fitJob(args: string[], io: CliIo, progress: Progress): Promise<nu
     guess: { type: 'string', multiple: true },
     'measured-voltage': { type: 'boolean' },
     check: { type: 'string', multiple: true },
+    model: { type: 'string' },
     coulomb: { type: 'string' },
     json: { type: 'boolean' },
     out: { type: 'string' },
@@ -221,9 +241,11 @@ async function fitJob(args: string[], io: CliIo, progress: Progress): Promise<nu
     'winding-temp': { type: 'string' },
     'reference-temp': { type: 'string' },
     'copper-k': { type: 'string' },
+    'ambient-temp': { type: 'string' },
     id: { type: 'string', multiple: true },
     ...INGEST_OPTIONS,
   });
+  // Every option is checked before any file is read or any fit is run.
   if (positionals.length === 0) throw new UsageError('give at least one recording (CSV) to fit', 'fit');
   const kinds = new Map<string, MotorExperimentKind>();
   for (const [file, kind] of keyValuePairs('fit', 'kind', values.kind)) {
@@ -234,84 +256,64 @@ async function fitJob(args: string[], io: CliIo, progress: Progress): Promise<nu
     if (match.length === 0) throw new UsageError(`--kind names "${file}", which is not among the files to fit`, 'fit');
     for (const m of match) kinds.set(m, kind as MotorExperimentKind);
   }
-  const options: FitMotorOptions = {};
+  const fitOptions: Omit<FitMotorOptions, 'extensions' | 'coulomb' | 'noise' | 'reweight'> = {};
   const fix = constantPairs('fix', values.fix);
   const guess = constantPairs('guess', values.guess);
-  if (Object.keys(fix).length > 0) options.fix = fix;
-  if (Object.keys(guess).length > 0) options.initial = guess;
-  if (values['measured-voltage']) options.voltage = 'measured';
-  const coulombChoice = values.coulomb ?? 'auto';
-  if (!['auto', 'yes', 'no'].includes(coulombChoice)) throw new UsageError(`--coulomb must be auto, yes or no (got "${coulombChoice}")`, 'fit');
-  if (coulombChoice !== 'auto') options.coulomb = coulombChoice === 'yes';
+  if (Object.keys(fix).length > 0) fitOptions.fix = fix;
+  if (Object.keys(guess).length > 0) fitOptions.initial = guess;
+  if (values['measured-voltage']) fitOptions.voltage = 'measured';
+  const model = modelChoice(values.model, values.coulomb);
   const ingestOptions = ingestOptionsFrom('fit', values);
   const ratedVoltage = numberOption('fit', 'rated-voltage', values['rated-voltage'], (x) => x > 0, 'a voltage > 0');
   const windingTemp = numberOption('fit', 'winding-temp', values['winding-temp'], (x) => x > -273.15, 'a temperature in °C');
   const referenceTemp = numberOption('fit', 'reference-temp', values['reference-temp'], (x) => x > -273.15, 'a temperature in °C');
+  const ambientTemp = numberOption('fit', 'ambient-temp', values['ambient-temp'], (x) => x > -273.15 && x < 1000, 'a temperature in °C');
+  if (ambientTemp !== undefined) fitOptions.ambientTemperature = ambientTemp;
   const copperK = numberOption('fit', 'copper-k', values['copper-k'], (x) => x === 234.5 || x === 235, '234.5 (IEEE Std 113 form) or 235 (IEC 60034-1 form)') as 234.5 | 235 | undefined;
   const outFormat = values.format ?? (values.out !== undefined ? ({ '.md': 'md', '.csv': 'csv' } as Record<string, string>)[extname(values.out).toLowerCase()] ?? 'json' : 'json');
   if (!['json', 'md', 'csv'].includes(outFormat)) throw new UsageError(`--format must be json, md or csv (got "${outFormat}")`, 'fit');
   if (values.format !== undefined && values.out === undefined) throw new UsageError('--format applies to --out FILE; give --out as well', 'fit');
+  const identification = Object.fromEntries(keyValuePairs('fit', 'id', values.id));
   const paint = paintFor(io);
 
   const inputs: { file: string; result: IngestResult }[] = [];
   for (const [i, file] of positionals.entries()) {
     progress.update(`reading ${basename(file)}`, STAGE.read + ((STAGE.fit - STAGE.read) * i) / positionals.length);
     const result = await readInput(io.cwd, file, ingestOptions);
-    refuseTable(file, result);
     const meta = result.recording.meta;
     const dropped = meta.rowsDroppedCount;
-    io.stderr(`read ${file}: ${result.recording.time.length} rows${dropped > 0 ? paint.warn(`, ${dropped} dropped (run "motorprint inspect ${file}" for the list)`) : ''}\n`);
+    io.stderr(`read ${file}: ${result.recording.time.length} ${result.recording.layout === 'table' ? 'operating points' : 'rows'}${dropped > 0 ? paint.warn(`, ${dropped} dropped (run "motorprint inspect ${file}" for the list)`) : ''}\n`);
     inputs.push({ file, result });
   }
-  io.stderr(`fitting ${inputs.length} recording(s)…\n`);
-  const voltageNotes = new Map<string, string>();
+  const held: MotorRecordingInput[] = [];
+  for (const file of values.check ?? []) held.push({ recording: (await readInput(io.cwd, file, ingestOptions)).recording, name: file });
+  io.stderr(`fitting ${inputs.length} recording(s) and choosing the model…\n`);
   progress.update(`fitting ${inputs.length} recording${inputs.length === 1 ? '' : 's'}`, STAGE.fit);
-  const fitInputs = inputs.map(({ file, result }) => {
+  const fitInputs: MotorRecordingInput[] = inputs.map(({ file, result }) => {
     const kind = kinds.get(file);
-    const input = inputVoltage(result.recording);
-    if (input.note) {
-      voltageNotes.set(file, input.note);
-      io.stderr(`${file}: ${input.note}\n`);
-    }
-    return kind === undefined ? { recording: input.recording, name: file } : { recording: input.recording, name: file, kind };
+    return kind === undefined ? { recording: result.recording, name: file } : { recording: result.recording, name: file, kind };
   });
-  let fit = fitMotor(fitInputs, options);
+  const id = identifyMotor(fitInputs, { fit: fitOptions, model, checks: held });
+  const fit = id.fit;
   if (!fit.converged) {
-    // Diagnose only a converged fit; say where it stopped.
     if (values.json) io.stdout(`${JSON.stringify({ schema: 'motorprint.fit/1', converged: false, stopReason: fit.stopReason, iterations: fit.iterations }, null, 2)}\n`);
     io.stderr(`${paint.error('error:')} the fit did not converge (${fit.stopReason}) after ${fit.iterations} steps; no constants are reported. ` +
       'Check the declared kinds (--kind), pin a constant you know (--fix), or give a starting value (--guess).\n');
     return EXIT.dataProblem;
   }
-  io.stderr('checking the fit (intervals, residuals, findings)…\n');
-  progress.update('checking the fit', STAGE.check);
-  let diagnosis = diagnoseFit(fit, fitInputs, { fitOptions: options, refitCoulomb: coulombChoice === 'auto' });
-  let selection: ModelSelection | null = null;
-  const refit = diagnosis.coulombRefit;
-  if (coulombChoice === 'auto' && refit !== null && refit.converged && refit.supported === 'viscous + Coulomb') {
-    // The data support the model with Coulomb friction: report that model's constants (the
-    // diagnosis already fitted it), and say so.
-    io.stderr('the data support Coulomb friction; reporting that model…\n');
-    progress.update('checking the Coulomb-friction fit', STAGE.refit);
-    selection = { chosen: 'viscous + Coulomb friction', over: 'viscous friction only', comparison: refit.comparison, triggeredBy: refit.triggeredBy };
-    fit = refit.fit;
-    diagnosis = { ...diagnoseFit(fit, fitInputs, { fitOptions: { ...options, coulomb: true }, refitCoulomb: false }), coulombRefit: refit };
-  }
-  const validation: ValidationResult[] = [];
-  for (const [i, file] of (values.check ?? []).entries()) {
-    progress.update(`checking on ${basename(file)}`, STAGE.heldOut + ((STAGE.write - STAGE.heldOut) * i) / (values.check ?? []).length);
-    const held = await readInput(io.cwd, file, ingestOptions);
-    refuseTable(file, held);
-    validation.push(checkOnRecording(fit, file, { ...held, recording: inputVoltage(held.recording).recording }));
-  }
+  for (const r of fit.recordings) if (r.input.sourceNote) io.stderr(`${r.name}: ${r.input.sourceNote}\n`);
   const setOptions: BuildParameterSetOptions = {
     recordings: inputs.map((x) => x.result.recording),
-    diagnosis,
-    identification: Object.fromEntries(keyValuePairs('fit', 'id', values.id)),
+    diagnosis: id.diagnosis,
+    identification,
+    model: id.model,
+    unsupported: id.unsupported,
+    checks: id.checks,
     provenance: {
       tool: { name: 'motorprint', version: TOOL_VERSION },
       date: new Date().toISOString(),
-      inputs: inputs.map(({ file, result }) => ({ file, sha256: result.recording.meta.source.sha256 })),
+      inputs: [...inputs.map(({ file, result }) => ({ file, sha256: result.recording.meta.source.sha256 })),
+        ...held.map((h) => ({ file: h.name!, sha256: (h.recording as IngestResult['recording']).meta.source.sha256 }))],
       options: resolvedOptions(values, positionals),
     },
   };
@@ -321,10 +323,9 @@ async function fitJob(args: string[], io: CliIo, progress: Progress): Promise<nu
   if (copperK !== undefined) setOptions.copperConstant = copperK;
   progress.update('writing the parameter set', STAGE.write);
   const set = buildParameterSet(fit, setOptions);
-  const doc = fitDocument(set, diagnosis, validation, selection);
-  if (voltageNotes.size > 0) doc.voltageInputs = [...voltageNotes].map(([file, note]) => ({ file, note }));
+  const doc = fitDocument(set);
   if (values.json) io.stdout(`${JSON.stringify(doc, null, 2)}\n`);
-  else io.stdout(`${formatSelection(selection, paint)}${formatFit(fit, diagnosis, validation, paint, voltageNotes)}\n${formatResistanceAtReference(set)}`);
+  else io.stdout(`${formatIdentification(id, set, paint)}\n${formatResistanceAtReference(set)}`);
   if (values.out !== undefined) {
     const text = outFormat === 'md' ? formatParameterSetMarkdown(set) : outFormat === 'csv' ? formatParameterSetCsv(set) : `${JSON.stringify(doc, null, 2)}\n`;
     await writeOut(io, values.out, text);
@@ -333,23 +334,11 @@ async function fitJob(args: string[], io: CliIo, progress: Progress): Promise<nu
   if (values.report !== undefined) {
     io.stderr('writing the report…\n');
     progress.update('writing the report', STAGE.write);
-    const html = renderHtmlReport({ parameterSet: set, fit, recordings: inputs.map((x) => x.result.recording), diagnosis, title: reportTitle(set) });
+    const html = renderHtmlReport({ parameterSet: set, fit, recordings: inputs.map((x) => x.result.recording), diagnosis: id.diagnosis, title: reportTitle(set) });
     await writeOut(io, values.report, html);
     io.stderr(`wrote the report to ${values.report}\n`);
   }
   return EXIT.ok;
-}
-
-/**
- * A table of operating points (no time column) is read by ingest but not fitted here yet: say so
- * plainly instead of letting the estimator refuse a time base that is only a row order.
- */
-function refuseTable(file: string, result: IngestResult): void {
-  if (result.recording.layout !== 'table') return;
-  throw Object.assign(
-    new Error(`${file} is a table of operating points (one row per point, no time column); fit does not take such tables yet. "motorprint inspect ${file}" shows what was read.`),
-    { code: 'table-not-fitted' },
-  );
 }
 
 /** Every option as typed, for the provenance record. */
@@ -374,46 +363,16 @@ function reportTitle(set: ParameterSet): string {
   return name ? `Motor constants — ${name}` : 'Motor constants from bench recordings';
 }
 
-function formatSelection(selection: ModelSelection | null, paint: Paint): string {
-  if (selection === null) return '';
-  const c = selection.comparison;
-  return `${paint.bold('Model:')} ${selection.chosen}, chosen over ${selection.over} because the data support it ` +
-    `(F-test p ${formatNumber(c.fPValue, 2)}, AIC ${formatNumber(c.aic[0], 6)} → ${formatNumber(c.aic[1], 6)}, ` +
-    `BIC ${formatNumber(c.bic[0], 6)} → ${formatNumber(c.bic[1], 6)}; prompted by ${selection.triggeredBy.join(', ')}). ` +
-    'Use --coulomb no to report the viscous-only fit.\n\n';
-}
-
 function formatResistanceAtReference(set: ParameterSet): string {
   const r = set.resistanceAtReference;
   if (r.value === null) return `R is not carried to ${r.referenceTemperature} °C: ${r.note}\n`;
   return `R at ${r.referenceTemperature} °C: ${formatNumber(r.value, 5)} Ω (${r.note})\n`;
 }
 
-/**
- * Simulates the fitted model on a held-out recording: the recording is passed through the
- * estimator with every fitted constant pinned, so only its own input levels and sensor offsets are
- * estimated, and the NRMSE per channel says how well the constants predict data they were not fitted to.
- */
-export function checkOnRecording(fit: MotorFit, file: string, held: IngestResult): ValidationResult {
-  const fix: Partial<Record<MotorConstantName, number>> = {};
-  for (const name of CONSTANTS) {
-    const p = fit.parameters[name];
-    if (p !== undefined) fix[name] = p.value;
-  }
-  const check = fitMotor([{ recording: held.recording, name: file }], { fix, coulomb: fix.Tc !== undefined });
-  const rec = check.recordings[0];
-  return {
-    file,
-    kind: rec?.kind ?? 'unknown',
-    converged: check.converged,
-    channels: (rec?.channels ?? []).map((c) => ({ channel: c.channel, rms: c.rms, nrmse: c.nrmse, samples: c.samples })),
-  };
-}
-
-/** `motorprint fit`: fits the motor constants to recordings. */
+/** `motorprint fit`: fits the motor constants to recordings and chooses the model the data support. */
 export const fitCommand: Subcommand = {
   name: 'fit',
-  summary: 'fit R, L, Kt/Ke, J, b (and Coulomb friction) to recordings, with intervals',
+  summary: 'fit R, L, Kt/Ke, J, b (and the friction, limit and heating terms the data support), with intervals',
   help: HELP,
   run,
 };

@@ -19,7 +19,7 @@ export interface SubcommandEntry {
 export const SUBCOMMANDS: readonly SubcommandEntry[] = [
   {
     name: 'fit',
-    summary: 'fit R, L, Kt/Ke, J, b (and Coulomb friction) to recordings, with intervals',
+    summary: 'fit R, L, Kt/Ke, J, b (and the friction, limit and heating terms the data support), with intervals',
     load: async () => (await import('./fit.js')).fitCommand,
   },
   {

@@ -3,7 +3,6 @@ import { describeRecording, IngestError, UNIT_SOURCE_WORDS, type Recording, type
 import { parseSubcommandArgs } from '../args.js';
 import { cliRole, INGEST_OPTION_HELP, INGEST_OPTIONS, ingestOptionsFrom, readInput } from '../readInputs.js';
 import { describeFailure, withFlags } from '../describeFailure.js';
-import { inputVoltage } from '../inputVoltage.js';
 import { paintFor, type Paint } from '../style.js';
 import { formatNumber, formatTable } from '../table.js';
 import { EXIT, type CliIo, type Subcommand } from '../types.js';
@@ -36,11 +35,11 @@ export type InspectedFile = RecordingDescription & { kind: { kind: string; reaso
  */
 export function experimentKindOf(recording: Recording): { kind: string; reason: string } {
   if (recording.layout === 'table') return { kind: 'steady-state-table', reason: 'a table of operating points (one row per point, no time column)' };
-  const input = inputVoltage(recording);
-  if (input.source === 'none') return { kind: 'unknown', reason: 'no voltage channel (terminal, command or supply) to tell the kind from' };
   try {
-    const g = classifyRecording(input.recording);
-    return { kind: g.kind, reason: input.source === 'terminal' ? g.reason : `${g.reason} (from the ${input.source} voltage: no terminal voltage logged)` };
+    const g = classifyRecording(recording);
+    const c = recording.channels;
+    const source = c.voltage ? null : c.commandVoltage ? 'command' : c.supplyVoltage ? 'supply' : null;
+    return { kind: g.kind, reason: source === null ? g.reason : `${g.reason} (from the ${source} voltage: no terminal voltage logged)` };
   } catch (err) {
     return { kind: 'unknown', reason: `the kind could not be told (${(err as Error).message.replace(/^\w+: /, '')})` };
   }

@@ -28,7 +28,7 @@ export function formatParameterSetText(set: ParameterSet, paint: Paint): string 
   out.push(paint.bold(`Parameter set${id ? ` — ${id}` : ''}`));
   out.push(`${set.variant.description}; fit ${set.fit.converged ? 'converged' : 'NOT converged'} (${set.fit.stopReason})`);
   out.push('');
-  const rows = Object.entries(set.parameters).map(([name, p]) => [
+  const rows = Object.entries(set.parameters).filter((e): e is [string, NonNullable<(typeof e)[1]>] => e[1] !== undefined).map(([name, p]) => [
     name,
     p.value === null ? '—' : formatNumber(p.value, 5),
     p.unit,

@@ -39,15 +39,15 @@ describe('fitMotor converges from starting values 3× off in either direction', 
         it(`${c.kind} of the invented "${motor}" motor, start ×${factor === 3 ? '3' : '1/3'}: converged, every constant within 3 SE`, () => {
           const m = c.friction ? withFriction(INVENTED_MOTORS[motor]!) : INVENTED_MOTORS[motor]!;
           const rec = invented(m, c.kind, 12);
-          const fit = fitMotor([{ recording: rec, kind: c.kind }], { initial: offStart(m, c.names, factor), ...(c.fixJ ? { fix: { J: m.J } } : {}) });
+          const fit = fitMotor([{ recording: rec, kind: c.kind }], { initial: offStart(m, c.names, factor), ...(c.fixJ ? { fix: { J: m.J } } : {}), coulomb: c.friction });
           expect(fit.converged, fit.stopReason).toBe(true);
           expect(fit.starts.filter((s) => s.chosen)).toHaveLength(1);
           for (const [name, z] of Object.entries(zScores(fit, m))) expect(Math.abs(z), `${name}: z ${z.toFixed(2)}`).toBeLessThanOrEqual(3);
         });
       }
     }
-    // Without Coulomb friction in the truth (Tc is still fitted, coast-down present); the cases with
-    // Tc > 0 (rotor stuck at rest until breakaway) are in motorCoulombStart.test.ts.
+    // Without Coulomb friction in the truth, and the lumped model asked for; the cases with Tc > 0
+    // (rotor stuck at rest until breakaway) are in motorCoulombStart.test.ts.
     it(`joint locked-rotor + step + coast-down of the invented "${motor}" motor, start ×3: converged, within 3 SE`, () => {
       const m = INVENTED_MOTORS[motor]!;
       const recs: MotorRecordingInput[] = [
@@ -58,7 +58,7 @@ describe('fitMotor converges from starting values 3× off in either direction', 
       const fit = fitMotor(recs, { initial: offStart(m, ['R', 'L', 'Kt', 'Ke', 'J', 'b'], 3) });
       expect(fit.converged, fit.stopReason).toBe(true);
       const z = zScores(fit, m);
-      expect(Object.keys(z).sort()).toEqual(['J', 'Ke', 'Kt', 'L', 'R', 'Tc', 'b']);
+      expect(Object.keys(z).sort()).toEqual(['J', 'Ke', 'Kt', 'L', 'R', 'b']);
       for (const [name, v] of Object.entries(z)) expect(Math.abs(v), `${name}: z ${v.toFixed(2)}`).toBeLessThanOrEqual(3);
     });
   }

@@ -18,8 +18,10 @@ export interface DetailedSlots {
   sine: number[];
   /** Current-sensor offset [A]. */
   offset: number;
-  /** Initial speed of a speed-only coast-down [rad/s]. */
+  /** Initial speed of a speed-only coast-down, or of a coast-down with its driven part [rad/s]. */
   w0: number;
+  /** Initial current of a coast-down with its driven part [A]. */
+  i0: number;
   /** Angle offset of an encoder record [rad]. */
   angle: number;
   /** Instant the circuit opens in a coast-down [s]. */
@@ -239,7 +241,9 @@ export function createDetailedProblem(setup: DetailedSetup): DetailedProblem {
     if (rec.kind === 'locked-rotor') plan.rotor = 'held';
     if (rec.kind === 'coast-down') {
       if (rec.drivenBeforeCut) {
-        plan.initial = 'steady';
+        // The state at the first sample is fitted (the run may start at rest, spin up, or already
+        // run steadily): the driven part before the cut shows it.
+        plan.initial = { current: sl.i0 >= 0 ? nuisance(theta, sl.i0) : 0, speed: sl.w0 >= 0 ? nuisance(theta, sl.w0) : 0 };
         plan.openFrom = sl.cut >= 0 ? nuisance(theta, sl.cut) : rec.time[rec.first]!;
       } else {
         plan.time = rec.time.subarray(rec.first);

@@ -10,15 +10,20 @@ import type { MotorExperimentKind, RecordingData } from './types.js';
  * levels that rise monotonically over three or more segments → steady-state, alternating between
  * two levels → prbs; otherwise → multisine (rich smooth excitation).
  *
- * @param recording - time and SI channels (voltage required)
+ * @param recording - time and SI channels (a voltage — terminal, command or supply — or speed)
  * @returns the kind and a plain-words reason
- * @throws TypeError when the voltage channel is missing
+ * @throws TypeError when there is neither a voltage nor a speed channel
  * @example
  * classifyRecording({ time, channels: { voltage, current } }).kind; // => 'locked-rotor'
  */
 export function classifyRecording(recording: RecordingData): { kind: MotorExperimentKind; reason: string } {
-  const { voltage, current, speed, torque } = recording.channels;
-  if (!(voltage instanceof Float64Array)) throw new TypeError('classifyRecording: recording.channels.voltage is missing');
+  const { current, speed, torque } = recording.channels;
+  // The drive voltage: terminal, else the drive's command, else the supply.
+  const voltage = recording.channels.voltage ?? recording.channels.commandVoltage ?? recording.channels.supplyVoltage;
+  if (!(voltage instanceof Float64Array)) {
+    if (speed instanceof Float64Array) return { kind: 'coast-down', reason: 'no voltage logged: a speed-only record can only be a coast-down (free deceleration)' };
+    throw new TypeError('classifyRecording: the recording has no voltage (terminal, command or supply) and no speed');
+  }
   const n = voltage.length;
   const tail = Math.max(4, Math.floor(n / 10));
   if (!(speed instanceof Float64Array)) return { kind: 'locked-rotor', reason: 'no speed channel: rotor taken as held' };

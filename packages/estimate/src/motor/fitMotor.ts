@@ -181,6 +181,7 @@ function fitPrepared(recs: PreparedRecording[], opts: ReturnType<typeof checkFit
     const start: Partial<Record<DetailedConstant, number>> = {};
     const startSource: Partial<Record<DetailedConstant, string>> = {};
     for (const [k, g] of Object.entries(guesses)) { start[k as DetailedConstant] = g.value; startSource[k as DetailedConstant] = g.source; }
+    const autoStart: Partial<Record<DetailedConstant, number>> = { ...start };
     for (const [k, v] of Object.entries(opts.initial)) { start[k as DetailedConstant] = v; startSource[k as DetailedConstant] = 'options.initial'; }
     // The streamed linear kernel first, where it can take the recordings (a coast-down as its
     // speed decay, an encoder speed as a speed, a jittered clock as non-uniform samples): its
@@ -199,12 +200,14 @@ function fitPrepared(recs: PreparedRecording[], opts: ReturnType<typeof checkFit
       } catch { /* the guesses stand */ }
     }
     effectStarts(recs, ext, start, startSource);
+    effectStarts(recs, ext, autoStart, {});
     if (ext.coulomb && !(start.Tc! > 0 && start.Tc! < runningTorque(recs, start.Kt ?? 0.05))) {
       // 5 % of the torque the rotor runs against (Kt times the smallest running current; common
       // practice, no source: a start, not a guess). A start above the running torque holds the
       // rotor still, where no gradient leads back.
       start.Tc = 0.05 * runningTorque(recs, start.Kt ?? 0.05);
     }
+    if (ext.coulomb) autoStart.Tc = 0.05 * runningTorque(recs, autoStart.Kt ?? 0.05);
     // A warm start: the previous fit's constants (unless `initial` names them) and nuisances by name.
     let warm: Map<string, number> | null = null;
     if (opts.warmStart !== null) {
@@ -215,8 +218,13 @@ function fitPrepared(recs: PreparedRecording[], opts: ReturnType<typeof checkFit
         if (Number.isFinite(e.value) && e.value > 0) { start[k as DetailedConstant] = e.value; startSource[k as DetailedConstant] = 'the previous fit (warm start)'; }
       }
       for (const name of [...warm.keys()]) if (/^ln /.test(name)) warm.delete(name);
+      // The heating model's R is the resistance at 20 °C; a fit without it gave R at the run's
+      // temperature, taken as the ambient (copper law, k = 234.5 °C, FACTS.md §3).
+      if (ext.heating && !(w.variant.extensions ?? []).includes('heating') && start.R !== undefined && opts.initial.R === undefined) {
+        start.R = (start.R * (234.5 + 20)) / (234.5 + opts.ambientTemperature);
+      }
     }
-    return fitDetailed(recs, { extensions: ext, fix: fixedD, start, startSource, ambient: opts.ambientTemperature, solver: opts.solver, keepResiduals: opts.keepResiduals, reweight: opts.reweight, warm });
+    return fitDetailed(recs, { extensions: ext, fix: fixedD, start, startSource, ambient: opts.ambientTemperature, solver: opts.solver, keepResiduals: opts.keepResiduals, reweight: opts.reweight, warm, ...(Object.keys(opts.initial).length > 0 ? { autoStart } : {}) });
   }
   const names: LumpedName[] = ['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc'];
   const fixed: Partial<Record<LumpedName, number>> = {};

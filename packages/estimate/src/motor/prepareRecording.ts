@@ -184,7 +184,7 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
     kindSource = 'guessed';
     kindReason = 'no voltage logged: only a coast-down (free deceleration) can be fitted from speed alone';
   } else {
-    const g = classifyRecording({ time, channels: { ...rec.channels, voltage } });
+    const g = classifyRecording(rec);
     kind = g.kind;
     kindSource = 'guessed';
     kindReason = g.reason;
@@ -247,9 +247,10 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
   }
   let levels = handling.method === 'segment-means' && hasSegments(segments) && !table ? buildLevels(voltage!, segments!, handling.voltageSigma) : null;
   if (kind === 'coast-down' && voltage !== null && first > 8) {
-    // The driven plateau before the cut: one level, its voltage samples as rows (the sample just
-    // before the cut is left out: the cut may fall inside its interval).
-    const plateau = summarise(voltage, 0, first - 1);
+    // The driven plateau before the cut: one level, its voltage samples as rows. The last few
+    // samples before the detected cut are left out (the cut may lie a little earlier than seen).
+    const margin = Math.max(2, Math.ceil(0.05 * first));
+    const plateau = summarise(voltage, 0, Math.max(first - margin, 2));
     levels = { classOf: new Int32Array(n), classes: [{ ...plateau, sigma: handling.voltageSigma }], switches: new Int32Array(0) };
     input.fill(plateau.mean);
   }
@@ -382,16 +383,23 @@ function findCoastStart(current: Float64Array | null, speed: Float64Array, sigma
   // The early (driven) level from the first 0.5 % of the record: the cut may come early.
   const head = Math.max(5, Math.floor(n / 200));
   if (current !== null) {
-    // The current falls to zero at the cut.
+    // The current falls to zero at the cut: the best single change point of a two-level fit
+    // (before: the running current, after: zero), by least squares over every split (prefix sums).
     const cs = estimateNoiseLevel(current).sigma;
     let s = 0;
     for (let k = 0; k < head; k++) s += current[k]!;
     const i0 = s / head;
-    if (Math.abs(i0) > 4 * cs) {
-      const half = 0.5 * Math.abs(i0);
-      for (let k = 2; k + 2 < n; k++) {
-        if (Math.abs(current[k]!) < half && Math.abs(current[k + 1]!) < half && Math.abs(current[k + 2]!) < half) return Math.min(k, n - 8);
+    if (Math.abs(i0) > 4 * cs / Math.sqrt(head)) {
+      const prefix = new Float64Array(n + 1), prefix2 = new Float64Array(n + 1);
+      for (let k = 0; k < n; k++) { prefix[k + 1] = prefix[k]! + current[k]!; prefix2[k + 1] = prefix2[k]! + current[k]! * current[k]!; }
+      let best = -1, bestSse = Infinity;
+      for (let k = 4; k <= n - 4; k++) {
+        const a = prefix[k]!, a2 = prefix2[k]!, b = prefix[n]! - a, b2 = prefix2[n]! - a2;
+        const sse = a2 - (a * a) / k + b2 - (b * b) / (n - k);
+        if (sse < bestSse) { bestSse = sse; best = k; }
       }
+      const before = prefix[best]! / best, after = (prefix[n]! - prefix[best]!) / (n - best);
+      if (best > 0 && Math.abs(after) < 0.5 * Math.abs(before)) return Math.min(best, n - 8);
     }
   }
   if (voltage !== null) {
