@@ -9,7 +9,7 @@
  */
 import { fitCurve, fitMotor } from '../packages/estimate/src/index.js';
 import { createRandom, lockedRotorResponse } from '../packages/model/src/index.js';
-import { confidenceIntervals, detectStiction, diagnoseFit, residualStats, scanRecording } from '../packages/diagnose/src/index.js';
+import { confidenceIntervals, detectStiction, diagnoseFit, identifyMotor, residualStats, scanRecording } from '../packages/diagnose/src/index.js';
 import { MOTOR, invented, inventedRamp } from '../packages/diagnose/src/__tests__/inventedRecordings.js';
 
 const pad = (s: string | number, w: number): string => String(s).padStart(w);
@@ -92,7 +92,7 @@ export default async function run(): Promise<void> {
       ];
       const fit = fitMotor(recs);
       if (!fit.converged) unconverged++;
-      const d = diagnoseFit(fit, recs, { scanRecordings: false, refitCoulomb: false });
+      const d = diagnoseFit(fit, recs, { scanRecordings: false });
       for (const c of names) { const ci = d.parameters[c]!.ci95; if (ci && ci[0] <= MOTOR[c] && MOTOR[c] <= ci[1]) cov[c]!++; }
     }
     const sd3 = Math.sqrt((0.95 * 0.05) / seeds);
@@ -109,8 +109,8 @@ export default async function run(): Promise<void> {
     console.log(`${label.padEnd(24)} ${pad(`${hit}/50`, 6)}`);
   }
 
-  console.log('\n(f) diagnoseFit on a locked-rotor + PRBS (2 kHz, 2 s) pair, 30 seeds each (goal: <= 0.5 s per diagnosis)');
-  console.log(`${'case'.padEnd(16)} ${pad('any', 6)} ${pad('fit-level', 10)} ${pad('Coulomb preferred', 18)} ${pad('ms fit', 7)} ${pad('ms diag', 8)}  codes`);
+  console.log('\n(f) identifyMotor on a locked-rotor + PRBS (2 kHz, 2 s) pair, 30 seeds each');
+  console.log(`${'case'.padEnd(16)} ${pad('any', 6)} ${pad('fit-level', 10)} ${pad('Coulomb chosen', 18)} ${pad('ms', 7)} ${pad('', 8)}  codes`);
   for (const [label, p] of [['clean', MOTOR], ['Tc 2 mN·m', { ...MOTOR, Tc: 2e-3 }]] as const) {
     let any = 0, fitLevel = 0, pref = 0, tf = 0, td = 0;
     const codes = new Map<string, number>();
@@ -120,13 +120,12 @@ export default async function run(): Promise<void> {
         { recording: invented(p, 'prbs', 1900 + s, { sampleRate: 2000 }), kind: 'prbs' as const },
       ];
       const a = performance.now();
-      const fit = fitMotor(recs);
-      const b = performance.now();
-      const d = diagnoseFit(fit, recs);
-      td += performance.now() - b; tf += b - a;
+      const id = identifyMotor(recs);
+      const d = id.diagnosis;
+      tf += performance.now() - a;
       if (d.findings.length > 0) any++;
       if (d.findings.some((f) => f.origin !== 'recording-scan')) fitLevel++;
-      if (d.coulombRefit?.supported === 'viscous + Coulomb') pref++;
+      if (id.model.extensions.includes('coulomb')) pref++;
       for (const f of d.findings) codes.set(`${f.code}/${f.origin}`, (codes.get(`${f.code}/${f.origin}`) ?? 0) + 1);
     }
     console.log(`${label.padEnd(16)} ${pad(`${any}/30`, 6)} ${pad(`${fitLevel}/30`, 10)} ${pad(`${pref}/30`, 18)} ${pad((tf / 30).toFixed(0), 7)} ${pad((td / 30).toFixed(0), 8)}  ${[...codes].map(([c, k]) => `${c}×${k}`).join(' ')}`);

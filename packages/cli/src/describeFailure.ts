@@ -1,5 +1,5 @@
 import type { IngestFix } from '@motorprint/ingest';
-import { fixFlags } from './readInputs.js';
+import { fixFlags } from './ingestFixFlags.js';
 
 /**
  * Turns a thrown value into one line a person can act on. Typed errors from the packages carry a

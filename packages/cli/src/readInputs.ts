@@ -1,7 +1,9 @@
 import { resolve } from 'node:path';
-import { readRecording, type ChannelRole, type IngestFix, type IngestOptions, type IngestResult } from '@motorprint/ingest';
+import { readRecording, type ChannelRole, type IngestOptions, type IngestResult } from '@motorprint/ingest';
 import { keyValuePairs, numberOption } from './args.js';
 import { UsageError } from './UsageError.js';
+import { cliRole } from './ingestFixFlags.js';
+export { cliRole, fixFlags } from './ingestFixFlags.js';
 
 /**
  * Role names a `--map ROLE=COLUMN` may use, and the ingest role each one means. `voltage` (or
@@ -21,13 +23,6 @@ export const CLI_ROLES: Readonly<Record<string, ChannelRole>> = {
   torque: 'torque',
   temperature: 'temperature',
 };
-
-/** The command-line spelling of an ingest role (`supplyVoltage` → `supply`). */
-export function cliRole(role: string): string {
-  if (role === 'supplyVoltage') return 'supply';
-  if (role === 'commandVoltage') return 'command';
-  return role;
-}
 
 /** Help lines for the ingest options shared by `inspect` and `fit`. */
 export const INGEST_OPTION_HELP = `  --map ROLE=COLUMN     use COLUMN (header text or 0-based index) for ROLE, overriding detection;
@@ -96,46 +91,7 @@ export function ingestOptionsFrom(
   return options;
 }
 
-function quoted(text: string): string {
-  return /^[\w.°%/·-]+$/.test(text) ? text : `"${text.replace(/"/g, '\\"')}"`;
-}
 
-/**
- * The command-line flags that carry out the fixes an ingest error or issue names, e.g.
- * `--map speed="1st motor velocity" --map current="1st motor current"`; empty when no flag applies.
- */
-export function fixFlags(fixes: readonly IngestFix[] | undefined): string {
-  if (!fixes) return '';
-  const out: string[] = [];
-  for (const fix of fixes) {
-    const entries = fix.entries;
-    switch (fix.option) {
-      case 'map':
-        if (entries?.length) out.push(entries.map(([role, column]) => `--map ${cliRole(role)}=${quoted(column)}`).join(' '));
-        else out.push('--map ROLE=COLUMN');
-        break;
-      case 'units':
-        if (entries?.length) out.push(entries.map(([column, unit]) => `--unit ${quoted(`${column}=${unit}`)}`).join(' '));
-        else out.push('--unit COLUMN=UNIT');
-        break;
-      case 'countsPerRevolution':
-        out.push('--counts-per-rev N');
-        break;
-      case 'pwmMax':
-        out.push('--pwm-max N');
-        break;
-      case 'supplyVoltage':
-        out.push('--supply-voltage V');
-        break;
-      case 'driveGain':
-        out.push('--drive-gain K');
-        break;
-      default:
-        break;
-    }
-  }
-  return out.join(', or ');
-}
 
 /** Reads one recording relative to the working directory, naming it as the user typed it. */
 export function readInput(cwd: string, file: string, options: IngestOptions): Promise<IngestResult> {

@@ -1,6 +1,9 @@
 import type { DetailedParams } from '@motorprint/model';
 
 /** Keys accepted in a parameter file, with their SI units (for messages and help). */
+/** Entries of a parameter set that are not inputs of the model (ratios and combinations of constants). */
+const SET_ONLY = ['R+Rs', 'Kt/Ke', 'b/J', 'Tc/J', 'c/J', 'speed gain', 'mechanical time constant', 'R20'];
+
 export const PARAM_KEYS: Readonly<Record<string, string>> = {
   R: 'Ω', L: 'H', Kt: 'N·m/A', Ke: 'V·s/rad', J: 'kg·m²', b: 'N·m·s/rad',
   Tc: 'N·m', Ts: 'N·m', cd: 'N·m·s²/rad²', Vmax: 'V', Imax: 'A', Rth: 'K/W', Cth: 'J/K',
@@ -35,9 +38,18 @@ export function readParamsFile(text: string, file: string): DetailedParams {
       ? (record.parameters as Record<string, unknown>)
       : record;
   const out = new Map<string, number>();
-  for (const [key, raw] of Object.entries(source)) {
+  const fromSet = source !== record;
+  for (const [rawKey, raw] of Object.entries(source)) {
     const value =
       raw !== null && typeof raw === 'object' && 'value' in (raw as object) ? (raw as { value: unknown }).value : raw;
+    // A parameter set also states ratios (b/J, Kt/Ke, …), effects the data did not support (value
+    // null) and the copper-law R20; the drag coefficient is `c` there and `cd` in the model.
+    let key = rawKey;
+    if (fromSet) {
+      if (SET_ONLY.includes(key)) continue;
+      if (value === null && !['R', 'L', 'Kt', 'Ke', 'J', 'b'].includes(key)) continue;
+      if (key === 'c') key = 'cd';
+    }
     if (key === 'K') {
       if (typeof value !== 'number' || !Number.isFinite(value)) throw new Error(`${file}: "K" must be a finite number (got ${JSON.stringify(value)})`);
       out.set('K', value);
@@ -62,6 +74,11 @@ export function readParamsFile(text: string, file: string): DetailedParams {
   }
   for (const key of ['R', 'L', 'Kt', 'Ke', 'J', 'b']) {
     if (!out.has(key)) throw new Error(`${file}: missing constant "${key}" [${PARAM_KEYS[key]}]`);
+  }
+  // The heating model's R is the resistance at 20 °C.
+  if (fromSet && out.has('Rth') && out.has('Cth')) {
+    const r20 = (source.R20 as { value?: unknown } | undefined)?.value;
+    if (typeof r20 === 'number' && Number.isFinite(r20)) { out.set('R', r20); out.set('referenceTemperature', 20); }
   }
   const params = Object.create(null) as Record<string, number>;
   for (const [key, value] of out) params[key] = value;

@@ -1,6 +1,5 @@
-import { fitMotor, measuredChannel } from '@motorprint/estimate';
+import { measuredChannel } from '@motorprint/estimate';
 import type { MotorFit, MotorRecordingInput } from '@motorprint/estimate';
-import { compareNestedModels } from './compareNestedModels.js';
 import { detectResidualCoulomb } from './detectResidualCoulomb.js';
 import { detectResidualDelay } from './detectResidualDelay.js';
 import { detectResidualTrend } from './detectResidualTrend.js';
@@ -10,7 +9,7 @@ import { medianInterval } from './internal.js';
 import { residualStats } from './residualStats.js';
 import { scanRecording } from './scanRecording.js';
 import type {
-  ChannelName, ChannelResidualDiagnosis, CoulombRefit, DiagnoseFitOptions, DiagnosisComparison, DiagnosisFinding, FitDiagnosis,
+  ChannelName, ChannelResidualDiagnosis, DiagnoseFitOptions, DiagnosisComparison, DiagnosisFinding, FitDiagnosis,
   RecordingDescription,
 } from './types.js';
 
@@ -38,9 +37,6 @@ const CHANNELS: readonly ChannelName[] = ['voltage', 'current', 'speed', 'positi
  *   (origin `fit-residuals`) `detectResidualTrend`, `detectResidualCoulomb` (when the model has
  *   no Tc) and `detectResidualDelay` on every residual series; from the covariance
  *   (`fit-covariance`) `detectWeakExcitation` (condition number > 1e4 or rank deficient).
- * - Coulomb re-fit: when a `coulomb-friction` finding fires and `fit.variant.coulomb` is false,
- *   `fitMotor(recordings, { ...fitOptions, coulomb: true })`, then `compareNestedModels` on the
- *   two whitened SSRs and parameter counts (F-test at `alpha`, likelihood ratio, AIC, BIC).
  *
  * ## References
  * D. M. Bates, D. G. Watts (1988), Nonlinear Regression Analysis and Its Applications, Wiley, §2.3,
@@ -83,7 +79,6 @@ export function diagnoseFit(fit: MotorFit, recordings: MotorRecordingInput[], op
     throw new RangeError(`${fn}: options.maxLag must be an integer >= 1 (got ${options.maxLag})`);
   }
   const scan = options.scanRecordings ?? true;
-  const refit = options.refitCoulomb ?? true;
 
   const descriptions: RecordingDescription[] = recordings.map((item, i) => ({
     name: fit.recordings[i]!.name,
@@ -151,27 +146,6 @@ export function diagnoseFit(fit: MotorFit, recordings: MotorRecordingInput[], op
     if (w) findings.push({ ...w, recording: null, origin: 'fit-covariance' });
   }
 
-  let coulombRefit: CoulombRefit | null = null;
-  const triggers = findings.filter((f) => f.code === 'coulomb-friction');
-  if (refit && !fit.variant.coulomb && triggers.length > 0 && fit.theta.length > 0) {
-    const second = fitMotor(recordings, { ...(options.fitOptions ?? {}), coulomb: true });
-    if (second.rows === fit.rows && second.theta.length > fit.theta.length && second.ssr > 0 && fit.ssr > 0) {
-      const comparison = compareNestedModels('fitMotor: viscous friction vs viscous + Coulomb friction Tc',
-        { name: 'viscous only', ssr: fit.ssr, parameters: fit.theta.length },
-        { name: 'viscous + Coulomb', ssr: second.ssr, parameters: second.theta.length }, fit.rows, alpha);
-      const preferred = second.converged && comparison.preferred === 'full';
-      coulombRefit = {
-        triggeredBy: triggers.map((f) => `${f.code} (${f.origin}, ${f.recording ?? 'fit'})`),
-        converged: second.converged,
-        parameters: diagnoseParameters(second, descriptions).parameters,
-        comparison: { ...comparison, preferred: preferred ? 'full' : 'restricted' },
-        supported: preferred ? 'viscous + Coulomb' : 'viscous only',
-        fit: second,
-      };
-      comparisons.push({ ...coulombRefit.comparison, recording: null });
-    }
-  }
-
   const sv = part.summary === null ? [] : Array.from(part.summary.singularValues);
   const cond = part.summary?.conditionNumber ?? NaN;
   return {
@@ -183,6 +157,5 @@ export function diagnoseFit(fit: MotorFit, recordings: MotorRecordingInput[], op
     residuals,
     findings,
     comparisons,
-    coulombRefit,
   };
 }

@@ -18,6 +18,8 @@ export interface IdentifyOptions {
   alpha?: number;
   /** Held-out recordings to predict with the chosen constants. @default [] */
   checks?: MotorRecordingInput[];
+  /** Called as the work goes on with the stage in words and the fraction done (0…1). Must not throw. @default none */
+  onProgress?: (stage: string, fraction: number) => void;
 }
 
 type Extension = keyof ModelExtensions;
@@ -71,6 +73,8 @@ export function identifyMotor(recordings: MotorRecordingInput[], options: Identi
   const base = options.fit ?? {};
   const forced = options.model !== undefined && options.model !== 'auto' ? options.model : null;
   const candidates: ModelCandidate[] = [];
+  const progress = (stage: string, fraction: number): void => { options.onProgress?.(stage, Math.min(1, Math.max(0, fraction))); };
+  progress('fitting the lumped model', 0);
   const fitWith = (ext: ModelExtensions, extra: FitMotorOptions = {}): MotorFit =>
     fitMotor(recordings, { ...base, ...extra, extensions: ext, coulomb: ext.coulomb === true });
   const listOf = (ext: ModelExtensions): Extension[] => ORDER.filter((e) => ext[e] === true);
@@ -84,7 +88,8 @@ export function identifyMotor(recordings: MotorRecordingInput[], options: Identi
     candidates.push(summary(alt, ['coulomb'], 'coulomb', null, alt.converged, 'the lumped model did not converge; Coulomb friction tried in its place'));
     if (alt.converged) { fit = alt; model = { coulomb: true }; }
   }
-  let diagnosis = diagnoseFit(fit, recordings, { refitCoulomb: false, alpha });
+  progress('checking the fit', 0.25);
+  let diagnosis = diagnoseFit(fit, recordings, { alpha });
   candidates.unshift(summary(fit, listOf(model), null, null, fit.converged, forced ? 'the model asked for' : 'the lumped linear model (the start)'));
 
   if (forced === null && fit.converged) {
@@ -96,7 +101,8 @@ export function identifyMotor(recordings: MotorRecordingInput[], options: Identi
       if (pool.length === 0) break;
       let best: { ext: Extension; fit: MotorFit; bicDrop: number } | null = null;
       const weights = noiseOf(fit);
-      for (const e of pool) {
+      for (const [q, e] of pool.entries()) {
+        progress(`trying ${WORDS[e]}`, 0.3 + (0.6 * (round + q / pool.length)) / Math.max(1, round + 2));
         const next: ModelExtensions = { ...model, [e]: true };
         if (e === 'stiction') next.coulomb = true;
         let cand: MotorFit;
@@ -139,10 +145,11 @@ export function identifyMotor(recordings: MotorRecordingInput[], options: Identi
       // Refit the chosen model with its own noise levels re-estimated.
       const refit = fitWith(model, { warmStart: best.fit });
       fit = refit.converged ? refit : best.fit;
-      diagnosis = diagnoseFit(fit, recordings, { refitCoulomb: false, alpha });
+      diagnosis = diagnoseFit(fit, recordings, { alpha });
       rejected.delete('stiction');
     }
   }
+  progress('checking held-out recordings', 0.92);
   const unsupported = unsupportedConstants(candidates, model);
   const checks: HeldOutCheck[] = (options.checks ?? []).map((c, i) => checkHeldOut(fit, c, i));
   const chosen = listOf(model);

@@ -10,7 +10,7 @@ export type {
   ChannelName, RecordingLike, ParameterConfidence, ConfidenceReport, RecordingKind, RecordingDescription,
   IdentifiabilityVerdict, LjungBoxResult, RunsTestResult, ResidualStats, FindingSeverity, Finding, ModelSummary,
   ModelComparison, LinearFit, CovarianceSummary, ParameterDiagnosis, ChannelResidualDiagnosis, FindingOrigin,
-  DiagnosisFinding, DiagnosisComparison, CoulombRefit, DiagnoseFitOptions, FitDiagnosis,
+  DiagnosisFinding, DiagnosisComparison, DiagnoseFitOptions, FitDiagnosis,
   ModelCandidate, UnsupportedConstant, HeldOutCheck, Identification,
 } from './types.js';
 export { identifyMotor } from './identifyMotor.js';

@@ -252,37 +252,17 @@ export interface DiagnosisComparison extends ModelComparison {
   recording: string | null;
 }
 
-/** The Coulomb re-fit made when a finding says Coulomb friction and the fit has no Tc. */
-export interface CoulombRefit {
-  /** Codes and recordings of the findings that triggered it. */
-  triggeredBy: string[];
-  /** Whether the re-fit converged (the comparison is only meaningful when it did). */
-  converged: boolean;
-  /** The constants of the re-fit, diagnosed like the main fit. */
-  parameters: Record<string, ParameterDiagnosis>;
-  /** Viscous-only fit (restricted) against the fit with Tc (full): F-test, likelihood ratio, AIC, BIC. */
-  comparison: ModelComparison;
-  /** Which model the data support (the comparison's `preferred`). */
-  supported: 'viscous only' | 'viscous + Coulomb';
-  /** The re-fit itself, so a caller that adopts the supported model need not fit it again. */
-  fit: MotorFit;
-}
-
 /** Options of `diagnoseFit`. */
 export interface DiagnoseFitOptions {
   /** Run `scanRecording` on each recording. @default true */
   scanRecordings?: boolean;
-  /** Re-fit with Coulomb friction when a finding calls for it. @default true */
-  refitCoulomb?: boolean;
-  /** Options of the original `fitMotor` call (pinned constants, starts, voltage handling), reused by the re-fit. @default {} */
-  fitOptions?: FitMotorOptions;
   /** Significance level of the model comparisons. @default 0.01 */
   alpha?: number;
   /** Lags of the residual autocorrelation and Ljung–Box test. @default min(50, samples/4) */
   maxLag?: number;
 }
 
-/** Everything `diagnoseFit` says about a `MotorFit`. JSON-able except the `Float64Array` series (autocorrelations, and those inside `coulombRefit.fit`). */
+/** Everything `diagnoseFit` says about a `MotorFit`. JSON-able except the `Float64Array` series (autocorrelations). */
 export interface FitDiagnosis {
   /** Constants (R, L, Kt, Ke, J, b, Tc, Kt/Ke as present), with value, error, interval and identifiability. */
   parameters: Record<string, ParameterDiagnosis>;
@@ -298,10 +278,8 @@ export interface FitDiagnosis {
   residuals: ChannelResidualDiagnosis[];
   /** Findings from the recordings and from the fit. */
   findings: DiagnosisFinding[];
-  /** Model comparisons computed by the detectors and by the Coulomb re-fit. */
+  /** Model comparisons computed by the detectors. */
   comparisons: DiagnosisComparison[];
-  /** The Coulomb re-fit, when one was made. */
-  coulombRefit: CoulombRefit | null;
 }
 
 /** One model tried by `identifyMotor`. */

@@ -123,7 +123,7 @@ describe('motorprint fit --out / --report and motorprint show', () => {
 });
 
 describe('motorprint fit chooses the friction model the data support', () => {
-  it('reports the Coulomb model when the comparison supports it, and says so; --coulomb no keeps viscous only', async () => {
+  it('reports the Coulomb model when the comparison supports it, and says so; --coulomb no (or --model lumped) keeps viscous only', async () => {
     const d = mkdtempSync(join(tmpdir(), 'mp-coulomb-'));
     // Invented motor with Coulomb friction Tc = 6 mN·m (about 1 % of its stall torque at 24 V).
     const motor = { R: 1.9, L: 6.2e-4, Kt: 0.052, Ke: 0.052, J: 1.1e-5, b: 4e-6, Tc: 0.006 };
@@ -140,7 +140,8 @@ describe('motorprint fit chooses the friction model the data support', () => {
     expect(await runCli(['fit', 'locked-rotor.csv', 'prbs.csv', '--json'], auto.io), auto.stderr()).toBe(EXIT.ok);
     const doc = JSON.parse(auto.stdout());
     expect(doc.variant.coulomb).toBe(true);
-    expect(doc.modelComparison).toMatchObject({ supported: 'viscous + Coulomb', reported: 'viscous + Coulomb friction' });
+    expect(doc.model.extensions).toContain('coulomb');
+    expect(doc.model.candidates.find((c: { added: string | null }) => c.added === 'coulomb')).toMatchObject({ accepted: true });
     for (const name of ['R', 'L', 'Kt', 'J', 'b', 'Tc'] as const) {
       const p = doc.parameters[name];
       const z = Math.abs(p.value - motor[name]) / p.standardError;
@@ -148,9 +149,12 @@ describe('motorprint fit chooses the friction model the data support', () => {
     }
     const text = capture(d);
     expect(await runCli(['fit', 'locked-rotor.csv', 'prbs.csv'], text.io)).toBe(EXIT.ok);
-    expect(text.stdout()).toMatch(/Model: viscous \+ Coulomb friction, chosen over viscous friction only/);
+    expect(text.stdout()).toMatch(/Model: the data support Coulomb friction/);
     const viscous = capture(d);
     expect(await runCli(['fit', 'locked-rotor.csv', 'prbs.csv', '--json', '--coulomb', 'no'], viscous.io)).toBe(EXIT.ok);
     expect(JSON.parse(viscous.stdout()).variant.coulomb).toBe(false);
+    const lumped = capture(d);
+    expect(await runCli(['fit', 'locked-rotor.csv', 'prbs.csv', '--json', '--model', 'lumped'], lumped.io)).toBe(EXIT.ok);
+    expect(JSON.parse(lumped.stdout()).model.forced).toBe(true);
   });
 });

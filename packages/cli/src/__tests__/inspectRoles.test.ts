@@ -109,11 +109,15 @@ describe('inspect errors name the command-line flags that fix them', () => {
 });
 
 describe('the experiment kind inspect shows', () => {
-  it('is steady-state-table for a table, unknown with a reason without any voltage', () => {
+  it('is steady-state-table for a table, unknown with a reason without voltage or speed, coast-down from speed alone', () => {
     const table = ingestText('voltage [V],current [A],speed [rad/s]\n2,0.1,35\n4,0.2,72\n').recording;
     expect(experimentKindOf(table)).toEqual({ kind: 'steady-state-table', reason: 'a table of operating points (one row per point, no time column)' });
     const noVoltage = ingestText('time [s],current [A]\n0,0\n1,1\n2,1\n').recording;
-    expect(experimentKindOf(noVoltage)).toEqual({ kind: 'unknown', reason: 'no voltage channel (terminal, command or supply) to tell the kind from' });
+    expect(experimentKindOf(noVoltage).kind).toBe('unknown');
+    expect(experimentKindOf(noVoltage).reason).toMatch(/no voltage .*and no speed/);
+    // Invented speed-only log (the estimator can only fit a coast-down from it).
+    const speedOnly = ingestText(`time [s],speed [rad/s]\n${Array.from({ length: 40 }, (_, k) => `${k * 0.01},${(100 * Math.exp(-k * 0.05)).toFixed(3)}`).join('\n')}\n`).recording;
+    expect(experimentKindOf(speedOnly).kind).toBe('coast-down');
   });
 
   it('is unknown with the reason when the classifier cannot tell', () => {
@@ -156,10 +160,9 @@ describe('fit on a command-only log', () => {
     expect(await runCli(['fit', 'step.csv', '--json'], terminal.io), terminal.stderr()).toBe(EXIT.ok);
     const command = capture(dir);
     expect(await runCli(['fit', 'step-cmd.csv', '--json'], command.io), command.stderr()).toBe(EXIT.ok);
-    expect(command.stderr()).toContain('no terminal voltage logged: the command is used as the motor\'s input');
+    expect(command.stderr()).toContain('input: commanded voltage, not measured at the motor');
     const a = JSON.parse(terminal.stdout());
     const b = JSON.parse(command.stdout());
-    expect(b.voltageInputs).toEqual([{ file: 'step-cmd.csv', note: expect.stringContaining('the command is used') }]);
     // Same numbers in, same fit out (derived here: the input is the same array of volts).
     for (const name of ['R', 'Kt', 'J', 'b']) expect(b.parameters[name].value).toBe(a.parameters[name].value);
   });
@@ -167,7 +170,7 @@ describe('fit on a command-only log', () => {
   it('applies --drive-gain to the command', async () => {
     const c = capture(dir);
     expect(await runCli(['fit', 'step-half.csv', '--drive-gain', '2', '--json'], c.io), c.stderr()).toBe(EXIT.ok);
-    expect(c.stderr()).toContain('the command × drive gain 2 is used');
+    expect(c.stderr()).toContain('the command × drive gain 2');
     const doc = JSON.parse(c.stdout());
     // Halved in the file and doubled by the gain: within rounding of the written decimals, the same
     // input as step.csv, so the step-run constants land within their own 3 standard errors of truth.
@@ -177,9 +180,13 @@ describe('fit on a command-only log', () => {
     }
   });
 
-  it('refuses a table of operating points with exit 1 and says why', async () => {
+  it('fits a table of operating points (R pinned, as a table alone cannot part R from K) and reports K and b', async () => {
     const c = capture();
-    expect(await runCli(['fit', `${FIXTURES}/steady-table.csv`], c.io)).toBe(EXIT.dataProblem);
-    expect(c.stderr()).toContain('is a table of operating points (one row per point, no time column); fit does not take such tables yet');
+    expect(await runCli(['fit', `${FIXTURES}/steady-table.csv`, '--fix', 'R=10', '--json'], c.io), c.stderr()).toBe(EXIT.ok);
+    const doc = JSON.parse(c.stdout());
+    expect(doc.fit.recordings[0].kind).toBe('steady-state');
+    expect(doc.parameters.Kt.value).toBeGreaterThan(0);
+    expect(doc.parameters.b.value).toBeGreaterThan(0);
+    expect(c.stderr()).toContain('4 operating points');
   });
 });

@@ -139,7 +139,7 @@ describe('motorprint lot refuses what it cannot use before fitting anything', ()
     [['lot', LOT, '--spec', 'fixtures/lot/no-such-spec.json'], /fixtures\/lot\/no-such-spec\.json: cannot read the spec \(ENOENT\)/],
     [['lot', 'fixtures/lot/no-such-lot', '--spec', SPEC], /cannot read the lot folder fixtures\/lot\/no-such-lot \(ENOENT\)/],
     [['lot', 'fixtures/demo', '--spec', SPEC], /fixtures\/demo has no motor folders/],
-    [['lot', LOT, '--spec', SPEC, '--speed'], /Unknown option '--speed'/],
+    [['lot', LOT, '--spec', SPEC, '--speed'], /unknown option --speed/],
   ])('%j', async (args, message) => {
     const c = capture();
     expect(await runCli(args, c.io)).toBe(EXIT.usage);

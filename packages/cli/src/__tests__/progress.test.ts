@@ -84,7 +84,8 @@ describe('motorprint fit progress', () => {
     const err = c.err.join('');
     expect(err).toContain(`${ERASE}motorprint fit: reading tern24-locked-rotor.csv — 0 %`);
     expect(err).toMatch(/motorprint fit: fitting 2 recordings — 15 %/);
-    expect(err).toMatch(/motorprint fit: checking the fit — 55 %/);
+    expect(err).toMatch(/motorprint fit: checking the fit — 35 %/);
+    expect(err).toMatch(/motorprint fit: trying Coulomb friction — \d+ %/);
     expect(err.endsWith(ERASE)).toBe(true);
     const stdout = c.out.join('');
     expect(stdout).not.toContain('\r');
@@ -95,7 +96,7 @@ describe('motorprint fit progress', () => {
     const c = capture(false);
     expect(await runCli(args, c.io), c.err.join('')).toBe(EXIT.ok);
     const err = c.err.join('');
-    expect(err).toMatch(/fitting 2 recording\(s\)…/);
+    expect(err).toMatch(/fitting 2 recording\(s\) and choosing the model…/);
     expect(err).not.toContain('\r');
     expect(err).not.toContain('\u001b');
     expect(err).not.toContain('%');

@@ -293,7 +293,10 @@ async function fitJob(args: string[], io: CliIo, progress: Progress): Promise<nu
     const kind = kinds.get(file);
     return kind === undefined ? { recording: result.recording, name: file } : { recording: result.recording, name: file, kind };
   });
-  const id = identifyMotor(fitInputs, { fit: fitOptions, model, checks: held });
+  const id = identifyMotor(fitInputs, {
+    fit: fitOptions, model, checks: held,
+    onProgress: (stage, fraction) => progress.update(stage, STAGE.fit + fraction * (STAGE.write - STAGE.fit)),
+  });
   const fit = id.fit;
   if (!fit.converged) {
     if (values.json) io.stdout(`${JSON.stringify({ schema: 'motorprint.fit/1', converged: false, stopReason: fit.stopReason, iterations: fit.iterations }, null, 2)}\n`);
@@ -301,7 +304,11 @@ async function fitJob(args: string[], io: CliIo, progress: Progress): Promise<nu
       'Check the declared kinds (--kind), pin a constant you know (--fix), or give a starting value (--guess).\n');
     return EXIT.dataProblem;
   }
-  for (const r of fit.recordings) if (r.input.sourceNote) io.stderr(`${r.name}: ${r.input.sourceNote}\n`);
+  for (const [i, r] of fit.recordings.entries()) {
+    if (!r.input.sourceNote) continue;
+    const gain = inputs[i]!.result.recording.meta.driveGain;
+    io.stderr(`${r.name}: ${r.input.sourceNote}${r.input.source === 'command' && gain !== 1 ? ` (the command × drive gain ${gain}, as --drive-gain asked)` : ''}\n`);
+  }
   const setOptions: BuildParameterSetOptions = {
     recordings: inputs.map((x) => x.result.recording),
     diagnosis: id.diagnosis,

@@ -28,7 +28,7 @@ describe('95 % intervals from diagnoseFit on fitMotor results cover the true con
       const recs = pair(s);
       const fit = fitMotor(recs);
       if (!fit.converged) unconverged++;
-      const d = diagnoseFit(fit, recs, { scanRecordings: false, refitCoulomb: false });
+      const d = diagnoseFit(fit, recs, { scanRecordings: false });
       for (const c of names) {
         const ci = d.parameters[c]!.ci95;
         if (ci !== null && ci[0] <= MOTOR[c] && MOTOR[c] <= ci[1]) covered[c]!++;

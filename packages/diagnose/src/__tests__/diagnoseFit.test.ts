@@ -3,6 +3,7 @@ import type { MotorRecordingInput } from '@motorprint/estimate';
 import type { DetailedParams } from '@motorprint/model';
 import { describe, expect, it } from 'vitest';
 import { diagnoseFit } from '../diagnoseFit.js';
+import { identifyMotor } from '../identifyMotor.js';
 import { MOTOR, invented } from './inventedRecordings.js';
 
 /** Invented pair: the generator's locked-rotor step (10 kHz) and its PRBS run logged at 2 kHz (2 s). */
@@ -95,27 +96,28 @@ describe('diagnoseFit findings on invented recordings: quiet when clean, Coulomb
       const d = diagnoseFit(fitMotor(recs), recs);
       if (d.findings.some((f) => f.origin !== 'recording-scan')) fitLevel++;
       if (d.findings.length > 0) { any++; seen.push(`${s}: ${d.findings.map((f) => `${f.code}/${f.origin}`).join(', ')}`); }
-      expect(d.coulombRefit).toBeNull();
     }
     expect(fitLevel, seen.join('; ')).toBeLessThanOrEqual(1);
     expect(any, seen.join('; ')).toBeLessThanOrEqual(4);
   }, 120_000);
 
-  it('Tc = 2 mN·m, 10 seeds: coulomb-friction fires from the residuals, the re-fit with Tc is preferred by F, AIC and BIC', () => {
+  it('Tc = 2 mN·m, 5 seeds: coulomb-friction fires from the residuals of the lumped fit, and identifyMotor chooses Coulomb friction by F and BIC', () => {
     // Tc/Kt = 0.04 A = 3.3 current noise SDs on every moving sample (FACTS.md §5 motor, derived here).
-    for (let s = 1; s <= 10; s++) {
+    for (let s = 1; s <= 5; s++) {
       const recs = pair({ ...MOTOR, Tc: 2e-3 }, s);
       const fit = fitMotor(recs);
       expect(fit.variant.coulomb).toBe(false);
       const d = diagnoseFit(fit, recs);
       expect(d.findings.some((f) => f.code === 'coulomb-friction' && f.origin === 'fit-residuals'), `seed ${s}`).toBe(true);
-      const r = d.coulombRefit!;
-      expect(r.supported).toBe('viscous + Coulomb');
-      expect(r.comparison.fPValue).toBeLessThan(0.01);
-      expect(r.comparison.aic[1]).toBeLessThan(r.comparison.aic[0]);
-      expect(r.comparison.bic[1]).toBeLessThan(r.comparison.bic[0]);
-      expect(r.comparison.full.parameters).toBe(r.comparison.restricted.parameters + 1);
-      expect(d.comparisons.some((c) => c.recording === null && c.question.includes('Coulomb'))).toBe(true);
+      const id = identifyMotor(recs);
+      expect(id.model.extensions, `seed ${s}`).toContain('coulomb');
+      const c = id.model.candidates.find((x) => x.added === 'coulomb' && x.accepted)!;
+      expect(c.comparison!.fPValue).toBeLessThan(0.01);
+      expect(c.comparison!.bic[1]).toBeLessThan(c.comparison!.bic[0]);
+      expect(c.comparison!.full.parameters).toBe(c.comparison!.restricted.parameters + 1);
+      // Tc within 3 standard errors of the invented 2 mN·m.
+      const tc = id.fit.parameters.Tc!;
+      expect(Math.abs(tc.value - 2e-3) / tc.standardError!, `seed ${s}: Tc ${tc.value} ± ${tc.standardError}`).toBeLessThan(3);
     }
   }, 120_000);
 
@@ -128,7 +130,7 @@ describe('diagnoseFit findings on invented recordings: quiet when clean, Coulomb
     const late = new Float64Array(i.length);
     late.set(i.subarray(0, i.length - 3), 3);
     const moved: MotorRecordingInput[] = [recs[0]!, { ...recs[1]!, recording: { time: r.time, channels: { ...r.channels, current: late } } }];
-    const d = diagnoseFit(fitMotor(moved), moved, { scanRecordings: false, refitCoulomb: false });
+    const d = diagnoseFit(fitMotor(moved), moved, { scanRecordings: false });
     const f = d.findings.find((x) => (x.code === 'unmodelled-delay' || x.code === 'residual-follows-input') && x.recording === 'prbs'
       && Math.abs(x.evidence['peak input–residual correlation'] as number) > 0.3);
     expect(f, JSON.stringify(d.findings)).toBeDefined();

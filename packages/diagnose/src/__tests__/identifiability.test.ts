@@ -1,6 +1,9 @@
 import { covarianceFromNormalMatrix } from '@motorprint/estimate';
 import { describe, expect, it } from 'vitest';
+import { fitMotor } from '@motorprint/estimate';
 import { assessIdentifiability } from '../assessIdentifiability.js';
+import { diagnoseFit } from '../diagnoseFit.js';
+import { invented } from './inventedRecordings.js';
 import type { RecordingDescription } from '../types.js';
 
 // Descriptions of invented bench runs (no data needed: the verdicts read kinds, channels and dt).
@@ -19,14 +22,20 @@ describe('assessIdentifiability says which constants the recordings cannot infor
     expect(v.L!.reason).toContain('shorter than the sample interval dt = 0.00100 s');
     expect(v.L!.wouldInform).toContain('locked-rotor');
   });
-  it('L from a current log sampled slower than τe/2 is not identifiable: the current settles between samples', () => {
+  it('L from a current log sampled slower than τe/2 is not refused by a rule: the information at the optimum decides', () => {
     const slow: RecordingDescription = { ...locked10k, name: 'locked 1 kHz', sampleInterval: 1e-3 };
     const v = byName(assessIdentifiability(['R', 'L'], null, [slow], { electricalTimeConstant: 5e-4 }));
-    expect(v.L!.identifiable).toBe(false);
-    expect(v.L!.reason).toContain('shorter than 2·dt = 0.00200 s');
-    // 10 samples per τe = 0.5 ms → 20 kHz (derived here).
-    expect(v.L!.wouldInform).toContain('2.00e+4 Hz');
+    expect(v.L!.identifiable).toBe(true);
     expect(v.R!.identifiable).toBe(true);
+  });
+  it('the exact discretisation pins L down from a locked-rotor step sampled at 2·τe (τe = 0.5 ms, 1 kHz)', () => {
+    // FACTS.md §5 motor (τe = L/R = 0.5 ms, derived there); invented locked-rotor step at 1 kHz.
+    const m = { R: 2, L: 1e-3, Kt: 0.05, Ke: 0.05, J: 2e-5, b: 1e-5 };
+    const rec = invented(m, 'locked-rotor', 7, { sampleRate: 1000, duration: 0.02 });
+    const recs = [{ recording: rec, kind: 'locked-rotor' as const }];
+    const d = diagnoseFit(fitMotor(recs), recs);
+    expect(d.parameters.L!.identifiable, d.parameters.L!.reason).toBe(true);
+    expect(Math.abs(d.parameters.L!.value! - 1e-3) / d.parameters.L!.standardError!).toBeLessThan(3);
   });
   it('J and Kt cannot be told apart without current or torque, and R is not informed without current', () => {
     const v = byName(assessIdentifiability(['R', 'Kt', 'J', 'b'], null, [speedOnly1k]));

@@ -220,8 +220,10 @@ export function createDetailedProblem(setup: DetailedSetup): DetailedProblem {
         steadyStateInto(ss, params, rec.input[k]!);
         const iRes = ss[0]! + off - (rec.current?.[k] ?? NaN);
         const wRes = ss[1]! - (rec.speed?.[k] ?? NaN);
-        if (cnt.current > 0) { out[o++] = iRes / (rec.spread?.current?.[k] ?? sg.current); if (keep?.current) keep.current[k] = iRes; }
-        if (cnt.speed > 0) { out[o++] = wRes / (rec.spread?.speed?.[k] ?? sg.speed); if (keep?.speed) keep.speed[k] = wRes; }
+        // A row's own SD where the table gives one (blank cells fall back to the channel's).
+        const si = rec.spread?.current?.[k], sw = rec.spread?.speed?.[k];
+        if (cnt.current > 0) { out[o++] = iRes / (si !== undefined && si > 0 ? si : sg.current); if (keep?.current) keep.current[k] = iRes; }
+        if (cnt.speed > 0) { out[o++] = wRes / (sw !== undefined && sw > 0 ? sw : sg.speed); if (keep?.speed) keep.speed[k] = wRes; }
       }
       return Number.isFinite(out[o - 1]!);
     }

@@ -52,7 +52,8 @@ export function classifyRecording(recording: RecordingData): { kind: MotorExperi
   const segs = detectVoltageSegments(voltage, sv);
   let q = 0;
   for (const s of segs) for (let k = s.start; k < s.end; k++) q += (voltage[k]! - s.level) * (voltage[k]! - s.level);
-  const piecewise = segs.length <= n / 8 && Math.sqrt(q / n) < 1.5 * sv;
+  // (`<=`: an exact command has no noise at all, q = σ = 0.)
+  const piecewise = segs.length <= n / 8 && Math.sqrt(q / n) <= 1.5 * sv;
   if (!piecewise) return { kind: 'multisine', reason: 'smooth, varying voltage (rich excitation)' };
   if (segs.length > 1) {
     if (segs.length === 2) return { kind: 'step', reason: 'voltage with one level change (a step)' };

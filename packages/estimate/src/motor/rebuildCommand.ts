@@ -93,6 +93,21 @@ export function rebuildCommand(time: Float64Array, voltage: Float64Array, mode: 
       segments: isPiecewise ? segs : null,
     };
   }
+  if (isPiecewise && sigma === 0) {
+    // Not a sample of noise inside the levels: the command as the controller logged it.
+    return {
+      voltage: Float64Array.from(voltage),
+      handling: {
+        method: 'exact',
+        reason: `exact command: ${segs.length} level(s) with no noise at all inside them; used as logged`,
+        segments: segs.length,
+        stepTime,
+        residualRatio: 0,
+        voltageSigma: 0,
+      },
+      segments: segs,
+    };
+  }
   if (isPiecewise) {
     return {
       voltage: piecewise,

@@ -71,13 +71,14 @@ export interface VoltageSegment {
 export interface InputHandling {
   /**
    * `segment-means`: piecewise-constant command found, each segment replaced by its mean;
+   * `exact`: a piecewise-constant command with no noise at all (logged by the controller), used as it is;
    * `sine-fit`: smooth periodic input rebuilt by linear least squares on sines at the spectral
    * peaks or at the harmonics of the record length (the coefficients are then fitted as nuisances); `low-pass`: smooth input that the sines do not explain, passed through a zero-phase
    * low-pass at three times its highest spectral peak; `measured`: the raw voltage is used (either asked for, or nothing better was found —
    * then the constants may be biased and `reason` says so); `not-used`: the model of this kind
    * does not take the voltage sample by sample (coast-down, steady-state plateaus).
    */
-  method: 'segment-means' | 'sine-fit' | 'low-pass' | 'measured' | 'not-used';
+  method: 'segment-means' | 'exact' | 'sine-fit' | 'low-pass' | 'measured' | 'not-used';
   /** Plain-words reason for the choice. */
   reason: string;
   /** Number of constant segments (segment-means only). */

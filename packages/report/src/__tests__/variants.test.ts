@@ -25,7 +25,7 @@ function invented(m: DetailedParams, kind: ExperimentKind, seed: number): MotorR
 }
 
 describe('buildParameterSet with Coulomb friction in the model', () => {
-  it('carries Tc with its interval, recovers the solver scale of Tc, and includes Tc in the no-load figures', () => {
+  it('carries Tc with its interval, reads its variance from the fit, and includes Tc in the no-load figures', () => {
     // Invented motor: FACTS.md §5 constants plus Tc = 4e-3 N·m (invented here).
     const m = { R: 2, L: 1e-3, Kt: 0.05, Ke: 0.05, J: 2e-5, b: 1e-5, Tc: 4e-3 };
     const inputs: MotorRecordingInput[] = [
@@ -35,8 +35,8 @@ describe('buildParameterSet with Coulomb friction in the model', () => {
     const fit = fitMotor(inputs, { coulomb: true });
     expect(fit.variant.coulomb).toBe(true);
     const cov = constantCovariance(fit);
-    // SE(Tc) through the recovered scale equals the estimator's own SE(Tc).
-    expectClose(Math.sqrt(cov.covariance[6 * 7 + 6]!), fit.parameters.Tc!.standardError!, { rel: 1e-9, abs: 0 }, 'SE(Tc)');
+    // The estimator states cov(ln p); SE(Tc) = Tc·√var(ln Tc) is its own SE(Tc) (delta method).
+    expectClose(cov.values[6]! * Math.sqrt(cov.covariance[6 * 7 + 6]!), fit.parameters.Tc!.standardError!, { rel: 1e-9, abs: 0 }, 'SE(Tc)');
     const set = buildParameterSet(fit, { provenance: INVENTED_PROVENANCE });
     expect(set.parameters.Tc?.ci95).not.toBeNull();
     const V = set.ratedVoltage.value!;
@@ -61,8 +61,8 @@ describe('buildParameterSet with Kt and Ke fitted apart (torque channel)', () =>
     const set = buildParameterSet(fit, { provenance: INVENTED_PROVENANCE });
     expect(fit.variant.torqueConstant).toBe('separate');
     expect(set.variant.torqueConstant).toBe('separate');
-    // The estimator's extra 'Kt/Ke' entry is not a constant of the set.
-    expect(Object.keys(set.parameters).sort()).toEqual(['J', 'Ke', 'Kt', 'L', 'R', 'b']);
+    // The six constants, and the ratio Kt/Ke the torque channel informs.
+    expect(Object.keys(set.parameters).sort()).toEqual(['J', 'Ke', 'Kt', 'Kt/Ke', 'L', 'R', 'b']);
     expect(set.parameters.Kt.value).not.toBe(set.parameters.Ke.value);
     // ln Kt and ln Ke are separate fitted directions: SE(Kt) and SE(Ke) match the estimator's.
     const cov = constantCovariance(fit);
