@@ -90,7 +90,10 @@ export function diagnoseParameters(fit: MotorFit, descriptions: RecordingDescrip
     // The information at the optimum decides; the structural rules only explain a constant it
     // does not pin down.
     const pinned = se !== undefined && ci !== undefined && Number.isFinite(se) && est.identified !== false && rse <= 0.5;
-    if (missing) { out.reason = missing.reason; out.wouldInform = missing.wouldInform; } else if (pinned) {
+    if (missing) { out.reason = missing.reason; out.wouldInform = missing.wouldInform; } else if (est.unidentifiedReason !== undefined) {
+      out.reason = est.unidentifiedReason;
+      out.wouldInform = WOULD_INFORM[c] ?? 'a recording that informs it on its own';
+    } else if (pinned) {
       out.identifiable = true;
       out.standardError = se;
       out.ci95 = ci;

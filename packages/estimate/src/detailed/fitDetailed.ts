@@ -36,7 +36,7 @@ export interface DetailedFitOptions {
 export const UNITS: Record<string, string> = {
   R: 'Ω', L: 'H', Kt: 'N·m/A', Ke: 'V·s/rad', J: 'kg·m²', b: 'N·m·s/rad', Tc: 'N·m', Ts: 'N·m', c: 'N·m·s²/rad²',
   Vmax: 'V', Imax: 'A', Rth: 'K/W', Cth: 'J/K', R20: 'Ω', 'b/J': '1/s', 'Tc/J': 'rad/s²', 'c/J': '1/rad',
-  'speed gain': 'rad/(s·V)', 'mechanical time constant': 's',
+  'speed gain': 'rad/(s·V)', 'mechanical time constant': 's', 'b/Kt': 'A·s/rad', 'V/ω slope': 'V·s/rad',
 };
 
 const WOULD_INFORM: Record<string, string> = {
@@ -104,6 +104,9 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
   }
   // No current anywhere and R not pinned: the speed sees R only with J and b.
   const noCurrent = !hasCurrent && recs.some((r) => r.kind !== 'coast-down' && !r.table) && fix.R === undefined;
+  // Tables of steady points alone, R not pinned: V = (K + R·b/K)·ω and i = (b/K)·ω — R and K do
+  // not part (friction or drag can part them, weakly; the information then says so).
+  const tableOnly = recs.every((r) => r.table) && fix.R === undefined;
   const values: DetailedValues = {
     R: 1, L: 1e-3, Kt: 0.05, Ke: 0.05, J: 1e-5, b: 1e-6, Tc: 0, Ts: 0, c: 0, Vmax: Infinity, Imax: Infinity, Rth: 1, Cth: 1,
   };
@@ -201,6 +204,11 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
       }
     }
     notInformed.push({ name: 'R', reason: 'no recording logs current: from voltage and speed alone R enters only together with J and b', wouldInform: WOULD_INFORM.R! + ' (or pin R with --fix R=…)' });
+  }
+  if (tableOnly && index.R >= 0) {
+    values.R = Math.exp(theta0[index.R]!);
+    removeEntry(setup, theta0, index.R);
+    notInformed.push({ name: 'R', reason: 'steady points alone give V = (K + R·b/K)·ω and i = (b/K)·ω: R and K do not part', wouldInform: 'a locked-rotor step (then pin R with --fix R=…)' });
   }
   const p = entries.length;
   const names = entries.map((e) => e.name);
@@ -366,7 +374,7 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
     if (c === 'Ts' && !ext.stiction) continue;
     if (fix[c] !== undefined && !(onlyRatios && c === 'J')) { parameters[c] = { value: fix[c]!, unit: UNITS[c]!, fixed: true }; continue; }
     if (onlyRatios && (c === 'J' || c === 'b' || c === 'Tc' || c === 'c')) continue;
-    if (noCurrent && (c === 'R' || c === 'L')) continue;
+    if ((noCurrent || tableOnly) && (c === 'R' || c === 'L')) continue;
     if (c === 'Ts') {
       // Ts = Tc + e^θ: d ln Ts = (Tc/Ts)·d ln Tc + ((Ts − Tc)/Ts)·dθ.
       const g = logGrad([['Tc', v.Tc / v.Ts]]);
@@ -390,13 +398,27 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
     if (ext.coulomb) report('Tc/J', v.Tc / v.J, -1, logGrad([['Tc', 1]]));
     if (ext.drag) report('c/J', v.c / v.J, -1, logGrad([['c', 1]]));
   }
+  if (tableOnly) {
+    // What steady points inform without R: the slopes i/ω = b/K and V/ω = K + R·b/K.
+    const slopeV = v.Kt + (v.R * v.b) / v.Kt;
+    const wR = (v.R * v.b) / v.Kt / slopeV;
+    report('b/Kt', v.b / v.Kt, -1, logGrad([['b', 1], ['Kt', -1]]));
+    report('V/ω slope', slopeV, -1, logGrad([['Kt', (v.Kt - (v.R * v.b) / v.Kt) / slopeV], ['b', wR]]));
+    for (const c of ['Kt', 'Ke', 'b'] as const) {
+      const e = parameters[c];
+      if (e !== undefined && e.fixed !== true) { e.identified = false; e.unidentifiedReason = 'with R unknown, steady points pin only b/Kt and V/ω = Kt + R·b/Kt (pin R with --fix R=… from a locked-rotor run)'; }
+    }
+  }
   if (noCurrent) {
     // What voltage-to-speed runs do inform: the steady gain ω/V = K/(R·b + K²) and τm′ = R·J/(R·b + K²).
     const D = v.R * v.b + v.Kt * v.Ke;
     const wb = (v.R * v.b) / D, wk = (v.Kt * v.Ke) / D;
     report('speed gain', v.Kt / D, -1, logGrad([['Kt', 1 - 2 * wk], ['b', -wb]]));
     report('mechanical time constant', (v.R * v.J) / D, -1, logGrad([['J', 1], ['Kt', -2 * wk], ['b', -wb]]));
-    for (const c of ['Kt', 'Ke', 'J', 'b'] as const) if (parameters[c] !== undefined && parameters[c]!.fixed !== true) parameters[c]!.identified = false;
+    for (const c of ['Kt', 'Ke', 'J', 'b'] as const) {
+      const e = parameters[c];
+      if (e !== undefined && e.fixed !== true) { e.identified = false; e.unidentifiedReason = 'without current, voltage and speed pin only the speed gain and the mechanical time constant (pin R with --fix R=…)'; }
+    }
   }
   // The constants' joint statistics (ln p), for every reader.
   const maps: ConstantMap[] = [];

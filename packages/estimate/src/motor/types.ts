@@ -117,6 +117,8 @@ export interface ParameterEstimate {
    * Absent means identified.
    */
   identified?: boolean;
+  /** Why the estimator does not count it as identified, when it knows better than the numbers (absent otherwise). */
+  unidentifiedReason?: string;
 }
 
 /** A constant that the given recordings do not inform. */
