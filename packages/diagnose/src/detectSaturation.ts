@@ -1,3 +1,4 @@
+import { estimateNoiseLevel } from '@motorprint/estimate';
 import { checkRecording, noiseOf, sig } from './internal.js';
 import type { Finding, RecordingLike } from './types.js';
 
@@ -6,9 +7,10 @@ import type { Finding, RecordingLike } from './types.js';
  * and a drive at its voltage or current limit (`drive-saturation`).
  *
  * ## Method
- * - Clipped: on a channel with noise (σ > 0 by `estimateNoiseLevel`), its extreme value repeated
- *   exactly in at least 5 samples and 0.2 % of the record (noise makes exact repeats of the
- *   maximum improbable; a rail makes them common).
+ * - Clipped: on a channel with noise (σ > 0 by `estimateNoiseLevel`), at least 5 samples and
+ *   0.2 % of the record on runs of its extreme value that the signal reaches still moving towards
+ *   it (the slope before the run, carried on, would pass the rail by more than 4σ). A quantised
+ *   signal repeats its extreme codes without that: repeats alone are not clipping.
  * - Current limit: the current stays within 4 noise SDs of its plateau level (98th percentile
  *   of |i|) for a contiguous 3 % of the record while the speed changes by more than 20 speed-noise
  *   SDs — the rotor accelerates at constant current, which the linear model only does at a limit.
@@ -30,17 +32,20 @@ export function detectSaturation(recording: RecordingLike, options: { commandedV
   const out: Finding[] = [];
   for (const name of ['voltage', 'current', 'speed', 'torque'] as const) {
     const x = recording.channels[name];
-    if (!x || n < 20 || !(noiseOf(x) > 0)) continue;
+    if (!x || n < 20) continue;
+    const lvl = estimateNoiseLevel(x);
+    const sigma = lvl.sigma;
+    if (!(sigma > 0)) continue;
     let max = -Infinity, min = Infinity;
     for (let k = 0; k < n; k++) { if (x[k]! > max) max = x[k]!; if (x[k]! < min) min = x[k]!; }
-    let atMax = 0, atMin = 0;
-    for (let k = 0; k < n; k++) { if (x[k] === max) atMax++; if (x[k] === min) atMin++; }
-    const worst = Math.max(atMax, atMin);
+    const longest = improbableRun(sigma, lvl.quantum ?? 0, n);
+    const pinned = { max: pinnedSamples(x, max, 1, sigma, longest), min: pinnedSamples(x, min, -1, sigma, longest) };
+    const worst = Math.max(pinned.max, pinned.min);
     if (worst >= 5 && worst >= 0.002 * n) {
       out.push({
         code: 'clipped-samples', severity: 'problem', title: `The ${name} channel is clipped at a rail`,
-        evidence: { channel: name, 'samples at the maximum': atMax, 'samples at the minimum': atMin, maximum: sig(max), minimum: sig(min), samples: n },
-        advice: `Repeated identical extreme values on a noisy channel mean the logger or sensor saturated: re-record with more range, or exclude the clipped samples from the fit.`,
+        evidence: { channel: name, 'samples pinned at the maximum': pinned.max, 'samples pinned at the minimum': pinned.min, maximum: sig(max), minimum: sig(min), 'noise SD': sig(sigma), samples: n },
+        advice: `The ${name} ran into a rail: it arrives at its extreme value still moving and stays there exactly. Re-record with more range, or leave the clipped stretch out of the fit.`,
       });
     }
   }
@@ -86,4 +91,54 @@ export function detectSaturation(recording: RecordingLike, options: { commandedV
     }
   }
   return out;
+}
+
+/**
+ * Samples on runs (of at least 3) at a rail value `rail` that look railed: the signal reaches
+ * the rail still moving towards it (the slope over the 3 samples before the run, carried on for
+ * half the run, would pass the rail by more than 4 noise SDs), or the run is longer than noise
+ * could hold one value (`longest`). Repeated identical values at the extremes of a quantised
+ * signal (an ADC code dithered by noise, or a plateau quieter than one code) are not clipping.
+ */
+function pinnedSamples(x: Float64Array, rail: number, side: 1 | -1, sigma: number, longest: number): number {
+  const n = x.length;
+  let total = 0;
+  for (let k = 0; k < n; ) {
+    if (x[k] !== rail) { k++; continue; }
+    let e = k;
+    while (e < n && x[e] === rail) e++;
+    const len = e - k;
+    if (len >= 3) {
+      let moving = false;
+      if (k >= 4) {
+        const slope = (x[k - 1]! - x[k - 4]!) / 3;
+        const carried = x[k - 1]! + slope * (len / 2);
+        moving = side * (carried - rail) > 4 * sigma && side * slope > sigma;
+      }
+      if (moving || len >= longest) total += len;
+    }
+    k = e;
+  }
+  return total;
+}
+
+/**
+ * The run of one repeated value that noise makes improbable (below 1e-4/n anywhere in the
+ * record): with analog noise σa = √(σ² − q²/12) on a grid of step q, a sample stays on its code
+ * with probability at most erf(q/(2√2·σa)); exact repeats need no grid (q = 0: any run of 3). A
+ * signal quieter than a tenth of a code sits on one code by nature: Infinity.
+ */
+function improbableRun(sigma: number, q: number, n: number): number {
+  if (!(q > 0)) return 3;
+  const sa = Math.sqrt(Math.max(sigma * sigma - (q * q) / 12, 0));
+  if (sa < 0.1 * q) return Infinity;
+  const stay = erf(q / (2 * Math.SQRT2 * sa));
+  return Math.max(3, Math.ceil(Math.log(1e-4 / n) / Math.log(stay)));
+}
+
+/** Error function (Abramowitz & Stegun 7.1.26, |error| < 1.5e-7). */
+function erf(x: number): number {
+  const t = 1 / (1 + 0.3275911 * Math.abs(x));
+  const y = 1 - (((((1.061405429 * t - 1.453152027) * t) + 1.421413741) * t - 0.284496736) * t + 0.254829592) * t * Math.exp(-x * x);
+  return x >= 0 ? y : -y;
 }

@@ -150,6 +150,7 @@ export function identifyMotor(recordings: MotorRecordingInput[], options: Identi
     }
   }
   progress('checking held-out recordings', 0.92);
+  diagnosis = { ...diagnosis, findings: reconcileFindings(diagnosis, candidates, model, fit) };
   const unsupported = unsupportedConstants(candidates, model);
   const checks: HeldOutCheck[] = (options.checks ?? []).map((c, i) => checkHeldOut(fit, c, i));
   const chosen = listOf(model);
@@ -218,6 +219,52 @@ function unsupportedConstants(candidates: ModelCandidate[], model: ModelExtensio
     const bounds: UnsupportedConstant['bounds'] = {};
     for (const [name, e] of Object.entries(c.effects)) bounds[name] = { upper95: e.interval95 !== null ? e.interval95[1] : null, unit: e.unit };
     out.push({ extension: added, constants: EFFECT_CONSTANTS[added], bounds, reason: c.reason });
+  }
+  return out;
+}
+
+/** The findings each extension speaks to (the detectors' codes). */
+const FINDING_OF: Record<Extension, string[]> = {
+  coulomb: ['coulomb-friction'], stiction: ['stiction'], drag: ['speed-squared-drag'],
+  voltageLimit: ['drive-saturation'], currentLimit: ['drive-saturation'], heating: ['winding-heating'],
+};
+
+/**
+ * Findings and the model choice tell one story. Where an extension was fitted and compared, the
+ * comparison — a fit of the whole model to every sample — outranks the detectors' quicker
+ * evidence: a finding for an effect the comparison turned down is dropped (its candidate says
+ * why), and an effect the comparison took in is stated as a finding with its constants and the
+ * comparison's numbers. Findings about effects that were not tried stay as they are.
+ */
+function reconcileFindings(d: FitDiagnosis, candidates: ModelCandidate[], model: ModelExtensions, fit: MotorFit): FitDiagnosis['findings'] {
+  const decided = new Set<string>();
+  for (const c of candidates) {
+    const e = c.added as Extension | null;
+    if (e === null) continue;
+    // A drive-saturation finding is settled only when both limits were tried.
+    if (e === 'voltageLimit' || e === 'currentLimit') {
+      if (candidates.some((x) => x.added === 'voltageLimit') && candidates.some((x) => x.added === 'currentLimit')) decided.add('drive-saturation');
+    } else for (const code of FINDING_OF[e]) decided.add(code);
+  }
+  const out = d.findings.filter((f) => !decided.has(f.code));
+  for (const e of ORDER) {
+    if (!model[e]) continue;
+    const c = candidates.find((x) => x.added === e && x.accepted);
+    const evidence: Record<string, number | string> = {};
+    for (const name of EFFECT_CONSTANTS[e]) {
+      const p = fit.parameters[name];
+      if (p !== undefined) evidence[`${name} [${p.unit}]`] = Number(p.value.toPrecision(4));
+    }
+    if (c?.comparison) {
+      evidence['F-test p'] = Number(c.comparison.fPValue.toPrecision(2));
+      evidence['BIC drop'] = Number((c.comparison.bic[0] - c.comparison.bic[1]).toPrecision(3));
+    }
+    out.push({
+      code: FINDING_OF[e][0]!, severity: 'info', recording: null, origin: 'fit-covariance',
+      title: `The data support ${WORDS[e]}: it is in the fitted model`,
+      evidence,
+      advice: `The constants above include ${WORDS[e]}; the lumped linear model alone would bias the others. See the model choice for the comparison.`,
+    });
   }
   return out;
 }
