@@ -230,6 +230,14 @@ export function createDetailedProblem(setup: DetailedSetup): DetailedProblem {
     const so = slotOf[r] ?? null;
     if (so === null) {
       for (let k = 0; k < n; k++) input[k] = valueOfSample(k);
+    } else if (rec.sines !== null && beta.length > 0) {
+      // A sine-fit command on its own clock: slot j starts at the clock's instant j − 1.
+      const om = rec.sines.omega;
+      for (let j = 0; j < input.length; j++) {
+        let v = beta[0]!;
+        for (let q = 0; q < om.length; q++) v += beta[1 + 2 * q]! * Math.cos(om[q]! * (j - 1)) + beta[2 + 2 * q]! * Math.sin(om[q]! * (j - 1));
+        input[j] = v;
+      }
     } else {
       // Slot j holds the value seen by the samples that fall in it; empty slots repeat the previous one.
       input.fill(NaN);

@@ -15,7 +15,8 @@ export interface NominalGrid {
  *
  * ## Method
  * Least-squares line of t_k on k (the jitter is taken to average out), then the spread of the
- * deviations. A logger whose time stamps are the actual (jittered) instants, driving a command
+ * deviations; the interval is snapped to the roundest number (at most 4 significant digits) and
+ * the start to the first time stamp when they lie within 3 standard errors of the line. A logger whose time stamps are the actual (jittered) instants, driving a command
  * that changes on its own nominal clock, needs the clock to place the command's changes.
  *
  * @param time - sample instants [s], increasing
@@ -41,5 +42,24 @@ export function nominalTimeGrid(time: Float64Array): NominalGrid | null {
   }
   const sd = Math.sqrt(ss / (n - 2));
   if (!(h > 0) || sd < 0.01 * h || worst >= 0.45 * h) return null;
-  return { start: a, interval: h, jitter: sd };
+  // The line is only as good as the jitter allows (SE of the interval σ·√(12/n³), of the start
+  // ≈ 2σ/√n), and a command that moves at every tick needs every sample in the right interval over
+  // the whole record: a logger's clock runs at a round interval and starts at its own zero, so the
+  // line is snapped to those when they lie within 3 standard errors of it.
+  const seH = sd * Math.sqrt(12 / (n * n * n));
+  const seA = (2 * sd) / Math.sqrt(n);
+  const round = roundNear(h, 3 * seH);
+  const interval = round ?? h;
+  const start = Math.abs(a - time[0]!) <= 3 * seA ? time[0]! : a;
+  return { start, interval, jitter: sd };
+}
+
+/** The number with the fewest significant digits (at most 4) within `tol` of x, or null. */
+function roundNear(x: number, tol: number): number | null {
+  for (let digits = 1; digits <= 4; digits++) {
+    const e = Math.pow(10, Math.floor(Math.log10(x)) - digits + 1);
+    const r = Math.round(x / e) * e;
+    if (Math.abs(r - x) <= tol) return r;
+  }
+  return null;
 }

@@ -217,7 +217,7 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
   let speedNoise = kind === 'locked-rotor' ? null : noise(speed);
   // Encoder speed: the fit compares angles, whose quantisation error q/√12 is close to white.
   if (encoder !== null && speedNoise !== null) speedNoise = { sigma: encoder / Math.sqrt(12), method: 'quantisation', quantum: encoder };
-  const grid = table ? null : nominalTimeGrid(time);
+  let grid = table ? null : nominalTimeGrid(time);
 
   let input: Float64Array;
   let handling: InputHandling;
@@ -239,7 +239,12 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
       voltageSigma: vs,
     };
   } else {
-    const rb = rebuildCommand(time, voltage!, voltageMode);
+    // Jittered samples see the command's value on its own clock: the index of that value.
+    const g1 = nominalTimeGrid(time);
+    const g0 = g1;
+    const phase = g0 === null ? null : Float64Array.from(time, (t) => Math.floor((t - g0.start) / g0.interval + 1e-9));
+    grid = g0;
+    const rb = rebuildCommand(time, voltage!, voltageMode, phase);
     if (rb.sineBasis !== undefined) sines = sineModel(rb.sineBasis, voltage!, rb.voltage);
     input = rb.voltage;
     handling = rb.handling;

@@ -60,13 +60,15 @@ const MAX_HARMONICS = 64;
  * @param time - sample times [s] (uniform sampling assumed for the spectrum)
  * @param voltage - measured voltage [V]
  * @param mode - `auto` (rebuild) or `measured` (use the raw samples, still detect the step time)
+ * @param phase - for jittered samples, the index on the command's own clock of the value each sample
+ *   saw (the sines are fitted and evaluated at it); null for samples on the clock
  * @returns the model input, the handling record, and the segments when found
  * @example
  * const t = Float64Array.from({ length: 200 }, (_, k) => k * 1e-3);
  * const v = Float64Array.from(t, (s, k) => (s >= 0.05 ? 12 : 0) + 0.01 * Math.sin(7 * k));
  * rebuildCommand(t, v, 'auto').handling.method; // => 'segment-means'
  */
-export function rebuildCommand(time: Float64Array, voltage: Float64Array, mode: 'auto' | 'measured'): RebuiltCommand {
+export function rebuildCommand(time: Float64Array, voltage: Float64Array, mode: 'auto' | 'measured', phase: Float64Array | null = null): RebuiltCommand {
   const n = voltage.length;
   let sigma = estimateNoiseLevel(voltage).sigma;
   let segs = detectVoltageSegments(voltage, sigma);
@@ -123,16 +125,16 @@ export function rebuildCommand(time: Float64Array, voltage: Float64Array, mode: 
     };
   }
   const h = (time[n - 1]! - time[0]!) / (n - 1);
-  let sines = fitSines(voltage, h);
+  let sines = fitSines(voltage, h, phase);
   let harmonic = false;
   // A periodic excitation (the usual multisine design): the period P [samples] shows as
   // x_k ≈ x_{k+P}; the differences give the noise free of the signal, σ = RMS(x_k − x_{k+P})/√2,
   // and the input is the significant harmonics of 1/(P·h).
-  const period = sines !== null ? detectPeriod(voltage, h) : null;
+  const period = sines !== null ? detectPeriod(voltage, h, phase) : null;
   if (period !== null) {
     const sigmaP = period.sigma;
     const K = Math.min(Math.floor(period.samples / 2) - 1, Math.max(1, Math.round(sines!.fmaxPeak * period.samples * h * 1.5)), 400);
-    let cand = fitHarmonics(voltage, h, 1 / (period.samples * h), K, sigmaP, sines!.fmaxPeak, false);
+    let cand = fitHarmonics(voltage, h, 1 / (period.samples * h), K, sigmaP, sines!.fmaxPeak, false, phase);
     // A few samples far off the periodic pattern (more than 6σ; at most 1 %) are left out: they
     // are replaced by the fit and the harmonics fitted again.
     let cleaned = voltage;
@@ -142,7 +144,7 @@ export function rebuildCommand(time: Float64Array, voltage: Float64Array, mode: 
       if (off.length > 0 && off.length <= 0.01 * n) {
         cleaned = Float64Array.from(voltage);
         for (const k of off) cleaned[k] = cand.values[k]!;
-        cand = fitHarmonics(cleaned, h, 1 / (period.samples * h), K, sigmaP, sines!.fmaxPeak, false);
+        cand = fitHarmonics(cleaned, h, 1 / (period.samples * h), K, sigmaP, sines!.fmaxPeak, false, phase);
       }
     }
     if (cand !== null && rmsDiff(cleaned, cand.values) / Math.max(sigmaP, 1e-300) < ACCEPT_RATIO) {
@@ -169,7 +171,7 @@ export function rebuildCommand(time: Float64Array, voltage: Float64Array, mode: 
     for (const period of [(n - 1) * h, n * h]) {
       const f0 = 1 / period;
       const K = Math.min(MAX_HARMONICS, Math.max(1, Math.round(sines.fmaxPeak / f0)), Math.floor((n - 1) / 8));
-      const cand = fitHarmonics(voltage, h, f0, K, sigma, sines.fmaxPeak);
+      const cand = fitHarmonics(voltage, h, f0, K, sigma, sines.fmaxPeak, true, phase);
       if (cand !== null && rmsDiff(voltage, cand.values) / Math.max(sigma, 1e-300) < ACCEPT_RATIO) { sines = cand; harmonic = true; break; }
     }
   }
@@ -280,7 +282,7 @@ function rmsDiff(a: Float64Array, b: Float64Array): number {
 /** A sine fit: values, frequencies [Hz], ω per sample, coefficients, Gram matrix, highest significant spectral peak [Hz]. */
 interface SineFit { values: Float64Array; frequencies: number[]; omega: Float64Array; coefficients: Float64Array; gram: Float64Array; fmaxPeak: number }
 
-function fitSines(v: Float64Array, h: number): SineFit | null {
+function fitSines(v: Float64Array, h: number, phase: Float64Array | null): SineFit | null {
   const n = v.length;
   const { magnitude, length } = fourierMagnitudes(v, 4);
   const sorted = Float64Array.from(magnitude).sort();
@@ -315,11 +317,11 @@ function fitSines(v: Float64Array, h: number): SineFit | null {
     const f0 = num / den;
     freqs = ks.map((k) => k * f0);
   }
-  return fitSineBasis(v, h, freqs, fmaxPeak);
+  return fitSineBasis(v, h, freqs, fmaxPeak, phase);
 }
 
 /** Linear least squares of a constant plus sines at the given frequencies [Hz]. */
-function fitSineBasis(v: Float64Array, h: number, freqs: number[], fmaxPeak: number): SineFit | null {
+function fitSineBasis(v: Float64Array, h: number, freqs: number[], fmaxPeak: number, phase: Float64Array | null = null): SineFit | null {
   const n = v.length;
   const K = freqs.length;
   const p = 2 * K + 1;
@@ -329,8 +331,9 @@ function fitSineBasis(v: Float64Array, h: number, freqs: number[], fmaxPeak: num
   const cw = freqs.map((f) => 2 * Math.PI * f * h);
   for (let k = 0; k < n; k++) {
     row[0] = 1;
+    const at = phase === null ? k : phase[k]!;
     for (let j = 0; j < K; j++) {
-      const ph = cw[j]! * k;
+      const ph = cw[j]! * at;
       row[1 + 2 * j] = Math.cos(ph);
       row[2 + 2 * j] = Math.sin(ph);
     }
@@ -348,8 +351,9 @@ function fitSineBasis(v: Float64Array, h: number, freqs: number[], fmaxPeak: num
   const values = new Float64Array(n);
   for (let k = 0; k < n; k++) {
     let s = coef[0]!;
+    const at = phase === null ? k : phase[k]!;
     for (let j = 0; j < K; j++) {
-      const ph = cw[j]! * k;
+      const ph = cw[j]! * at;
       s += coef[1 + 2 * j]! * Math.cos(ph) + coef[2 + 2 * j]! * Math.sin(ph);
     }
     values[k] = s;
@@ -363,9 +367,9 @@ function fitSineBasis(v: Float64Array, h: number, freqs: number[], fmaxPeak: num
  * chi-square), then refines f0 by three parabolic steps on the residual sum of squares (the record
  * need not hold a whole number of periods exactly).
  */
-function fitHarmonics(v: Float64Array, h: number, f0: number, K: number, sigma: number, fmaxPeak: number, refine = true): SineFit | null {
+function fitHarmonics(v: Float64Array, h: number, f0: number, K: number, sigma: number, fmaxPeak: number, refine = true, phase: Float64Array | null = null): SineFit | null {
   const n = v.length;
-  const all = fitSineBasis(v, h, Array.from({ length: K }, (_, j) => (j + 1) * f0), fmaxPeak);
+  const all = fitSineBasis(v, h, Array.from({ length: K }, (_, j) => (j + 1) * f0), fmaxPeak, phase);
   if (all === null) return null;
   const c = all.coefficients;
   const keep: number[] = [];
@@ -376,7 +380,7 @@ function fitHarmonics(v: Float64Array, h: number, f0: number, K: number, sigma: 
   }
   if (keep.length === 0) return all;
   const rssAt = (f: number): { fit: SineFit | null; rss: number } => {
-    const fit = fitSineBasis(v, h, keep.map((k) => k * f), fmaxPeak);
+    const fit = fitSineBasis(v, h, keep.map((k) => k * f), fmaxPeak, phase);
     if (fit === null) return { fit, rss: Infinity };
     let r = 0;
     for (let k = 0; k < n; k++) { const d = v[k]! - fit.values[k]!; r += d * d; }
@@ -407,11 +411,20 @@ function fitHarmonics(v: Float64Array, h: number, f0: number, K: number, sigma: 
  * RMS(x_k − x_{k+P}), accepted when that RMS is below a tenth of the series' SD and at least two
  * periods fit in the record. σ = RMS/√2 (each difference holds two independent noise samples).
  */
-function detectPeriod(x: Float64Array, h: number): { samples: number; sigma: number } | null {
+function detectPeriod(samples: Float64Array, h: number, phase: Float64Array | null): { samples: number; sigma: number } | null {
+  // On the command's own clock when the samples are jittered: slot j holds the value a sample saw
+  // there (NaN for a slot no sample saw).
+  let x = samples;
+  if (phase !== null) {
+    let lo = Infinity, hi = -Infinity;
+    for (let k = 0; k < phase.length; k++) { lo = Math.min(lo, phase[k]!); hi = Math.max(hi, phase[k]!); }
+    x = new Float64Array(hi - lo + 1).fill(NaN);
+    for (let k = 0; k < samples.length; k++) x[phase[k]! - lo] = samples[k]!;
+  }
   const n = x.length;
   if (n < 32) return null;
   // The strongest tones of a Hann-windowed spectrum (the window keeps side lobes from posing as tones).
-  const { magnitude, length } = fourierMagnitudes(x, 4, 'hann');
+  const { magnitude, length } = fourierMagnitudes(samples, 4, 'hann');
   const tops: { f: number; m: number }[] = [];
   for (let k = 2; k + 1 < magnitude.length; k++) {
     const m = magnitude[k]!;
@@ -420,12 +433,12 @@ function detectPeriod(x: Float64Array, h: number): { samples: number; sigma: num
   tops.sort((a, b) => b.m - a.m);
   const peaks = tops.slice(0, 6).map((t) => t.f);
   if (peaks.length === 0) return null;
-  let m = 0;
-  for (let k = 0; k < n; k++) m += x[k]!;
-  m /= n;
+  let m = 0, cnt = 0;
+  for (let k = 0; k < n; k++) if (Number.isFinite(x[k]!)) { m += x[k]!; cnt++; }
+  m /= Math.max(cnt, 1);
   let sd = 0;
-  for (let k = 0; k < n; k++) sd += (x[k]! - m) ** 2;
-  sd = Math.sqrt(sd / n);
+  for (let k = 0; k < n; k++) if (Number.isFinite(x[k]!)) sd += (x[k]! - m) ** 2;
+  sd = Math.sqrt(sd / Math.max(cnt, 1));
   const cands = new Set<number>();
   for (const f of peaks) {
     for (let mult = 1; mult <= 64; mult++) {
@@ -436,8 +449,11 @@ function detectPeriod(x: Float64Array, h: number): { samples: number; sigma: num
   let best: { samples: number; rms: number } | null = null;
   for (const q of cands) {
     {
-      const d = new Float64Array(n - q);
-      for (let k = 0; k + q < n; k++) d[k] = Math.abs(x[k + q]! - x[k]!);
+      const d0 = new Float64Array(n - q);
+      let used = 0;
+      for (let k = 0; k + q < n; k++) { const v = Math.abs(x[k + q]! - x[k]!); if (Number.isFinite(v)) d0[used++] = v; }
+      const d = d0.subarray(0, used);
+      if (used < 8) continue;
       // Robust RMS: the central 96 % (a few samples may differ for reasons of their own), over
       // 0.9346, what a Gaussian keeps after that trim.
       d.sort();
