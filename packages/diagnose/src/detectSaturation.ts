@@ -9,8 +9,9 @@ import type { Finding, RecordingLike } from './types.js';
  * ## Method
  * - Clipped: on a channel with noise (σ > 0 by `estimateNoiseLevel`), at least 5 samples and
  *   0.2 % of the record on runs of its extreme value that the signal reaches still moving towards
- *   it (the slope before the run, carried on, would pass the rail by more than 4σ). A quantised
- *   signal repeats its extreme codes without that: repeats alone are not clipping.
+ *   it (a slope above 2σ per sample that, carried on, would pass the rail by more than 4σ), or runs
+ *   longer than the noise could hold one value. A quantised signal repeats its extreme codes
+ *   without that: repeats alone are not clipping.
  * - Current limit: the current stays within 4 noise SDs of its plateau level (98th percentile
  *   of |i|) for a contiguous 3 % of the record while the speed changes by more than 20 speed-noise
  *   SDs — the rotor accelerates at constant current, which the linear model only does at a limit.
@@ -95,8 +96,9 @@ export function detectSaturation(recording: RecordingLike, options: { commandedV
 
 /**
  * Samples on runs (of at least 3) at a rail value `rail` that look railed: the signal reaches
- * the rail still moving towards it (the slope over the 3 samples before the run, carried on for
- * half the run, would pass the rail by more than 4 noise SDs), or the run is longer than noise
+ * the rail still moving towards it (a slope of more than 2 noise SDs per sample over the 5 samples
+ * before the run that, carried on for half the run, would pass the rail by more than 4 noise
+ * SDs), or the run is longer than noise
  * could hold one value (`longest`). Repeated identical values at the extremes of a quantised
  * signal (an ADC code dithered by noise, or a plateau quieter than one code) are not clipping.
  */
@@ -110,12 +112,16 @@ function pinnedSamples(x: Float64Array, rail: number, side: 1 | -1, sigma: numbe
     const len = e - k;
     if (len >= 3) {
       let moving = false;
-      if (k >= 4) {
-        const slope = (x[k - 1]! - x[k - 4]!) / 3;
+      if (k >= 6) {
+        // Slope over the 5 samples before the run (its noise SD is √2·σ/5 ≈ 0.28σ): more than 2σ per
+        // sample is movement, not noise.
+        const slope = (x[k - 1]! - x[k - 6]!) / 5;
         const carried = x[k - 1]! + slope * (len / 2);
-        moving = side * (carried - rail) > 4 * sigma && side * slope > sigma;
+        moving = side * (carried - rail) > 4 * sigma && side * slope > 2 * sigma;
       }
-      if (moving || len >= longest) total += len;
+      // A long run counts only when the signal arrives at it (not one the record starts on: a
+      // rotor at rest before a step reads exactly 0 on an encoder).
+      if (moving || (len >= longest && k > 0)) total += len;
     }
     k = e;
   }

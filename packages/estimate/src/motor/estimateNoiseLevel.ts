@@ -28,8 +28,8 @@ const SQRT12 = Math.sqrt(12);
  * record (O(n) reads, O(2¹⁵) selection work).
  *
  * Quantised data (ADC codes, rounding in the file) need two more rules. The values lie on a grid
- * of step q (the mean single-code step between neighbouring distinct values, accepted when 99 %
- * of the values sit within 0.05 q of it and at least 8 codes are in use): the rounding alone has SD q/√12, a floor for σ. And the MAD of quantised
+ * of step q (the mean single-code gap between neighbouring distinct values, accepted when the
+ * gaps between distinct values are whole numbers of it): the rounding alone has SD q/√12, a floor for σ. And the MAD of quantised
  * second differences moves in whole codes, so unless it spans at least 4 codes σ comes instead
  * from the RMS of the central 96 % of the deviations (smooth in the data; divided by 0.9346,
  * what a Gaussian keeps after that trim). A piecewise-constant series with no noise at all
@@ -115,37 +115,32 @@ function trimmedRms(absDev: Float64Array): number {
 }
 
 /**
- * The step of the grid the values lie on, when they do: the mean of the single-code steps between
- * neighbouring distinct values, accepted when (x − x₀)/q is within 0.05 of a whole number for 99 %
- * of the samples and the grid has at least 8 codes in use (a two-level command is not a grid).
- * 0 when there is no grid.
+ * The step of the grid the values lie on, when they do: the mean of the single-code gaps between
+ * neighbouring distinct values (at least 3 of them: a two-level command is not a grid), accepted
+ * when 95 % of the gaps between distinct values are whole numbers of steps (within
+ * 0.05 + 0.001 per step). 0 when there is no grid.
  */
 function gridStep(values: Float64Array, quantum: number): number {
   if (!Number.isFinite(quantum) || !(quantum > 0)) return 0;
   const n = values.length;
   const stride = Math.max(1, Math.floor(n / 20000));
-  // The step itself, refined as the mean of the single-code steps between neighbouring distinct
-  // values (rounding in the file makes the smallest step a little off, and the error adds up over
-  // many codes).
   const distinct = [...new Set(Array.from({ length: Math.ceil(n / stride) }, (_, j) => values[j * stride]!).filter(Number.isFinite))].sort((a, b) => a - b);
-  let sum = 0, cnt = 0;
+  // The step, refined as the mean of the single-code gaps between neighbouring distinct values
+  // (rounding in the file makes the smallest step a little off).
+  let sum = 0, single = 0;
   for (let j = 1; j < distinct.length; j++) {
     const d = distinct[j]! - distinct[j - 1]!;
-    if (d > 0.5 * quantum && d < 1.5 * quantum) { sum += d; cnt++; }
+    if (d > 0.5 * quantum && d < 1.5 * quantum) { sum += d; single++; }
   }
-  const q = cnt > 0 ? sum / cnt : quantum;
-  const x0 = distinct[distinct.length >> 1] ?? values[0]!;
-  let bad = 0, total = 0;
-  const codes = new Set<number>();
-  for (let k = 0; k < n; k += stride) {
-    const c = (values[k]! - x0) / q;
-    if (!Number.isFinite(c)) continue;
-    total++;
-    const r = Math.round(c);
-    if (Math.abs(c - r) > 0.05) bad++;
-    else if (codes.size < 8) codes.add(r);
+  if (single < 3) return 0;
+  const q = sum / single;
+  // Every gap a whole number of steps (loosely for the long gaps, whose rounding adds up).
+  let bad = 0;
+  for (let j = 1; j < distinct.length; j++) {
+    const c = (distinct[j]! - distinct[j - 1]!) / q;
+    if (Math.abs(c - Math.round(c)) > 0.05 + 1e-3 * c) bad++;
   }
-  return total > 0 && bad <= 0.01 * total && codes.size >= 8 ? q : 0;
+  return bad <= 0.05 * (distinct.length - 1) ? q : 0;
 }
 
 /** Median by Hoare's selection (expected O(n)) on a copy; the input is left as it is. */
