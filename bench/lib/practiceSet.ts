@@ -139,9 +139,13 @@ export async function scoreCase(dir: string, id: string, run: (file: string, fix
     if (effects.length === 0) score.falseFindings = effectCodes;
     else {
       const variant = result.fit.variant as { coulomb?: boolean; extensions?: string[] };
+      // An effect is named by a finding of any severity (a chosen model's effect is stated as an
+      // info finding) or by the extension in the fitted model.
+      const allCodes = new Set(result.diagnosis.findings.map((f) => f.code));
+      const EXTENSION_OF: Record<string, string> = { vsat: 'voltageLimit', ilim: 'currentLimit', thermal: 'heating' };
       for (const e of effects) {
-        const named = (EFFECT_FINDING[e] ?? []).some((c) => score.findings.includes(c)) ||
-          (e === 'coulomb' && variant.coulomb === true) || (variant.extensions ?? []).includes(e);
+        const named = (EFFECT_FINDING[e] ?? []).some((c) => allCodes.has(c)) ||
+          (e === 'coulomb' && variant.coulomb === true) || (variant.extensions ?? []).includes(EXTENSION_OF[e] ?? e);
         if (named) score.effectsNamed.push(e);
       }
     }

@@ -141,6 +141,19 @@ export function diagnoseFit(fit: MotorFit, recordings: MotorRecordingInput[], op
       for (const c of s.comparisons) comparisons.push({ ...c, recording: rep.name });
     }
   });
+  // The supply's source resistance, where both voltages were logged and it shows clearly.
+  const rs = fit.parameters.Rs;
+  if (rs !== undefined && rs.identified !== false && rs.interval95 !== undefined && rs.interval95[0] > 0) {
+    findings.push({
+      code: 'source-resistance',
+      severity: 'info',
+      title: `The supply has a source resistance Rs = ${rs.value.toPrecision(3)} Ω: the terminal voltage sags by Rs·i`,
+      evidence: { Rs: rs.value, RsLow: rs.interval95[0], RsHigh: rs.interval95[1], informedBy: (rs.informedBy ?? []).join(', ') },
+      advice: 'R is the winding alone. A model driven from this supply needs R + Rs in its armature circuit; a stiffer supply or shorter leads remove the sag.',
+      recording: null,
+      origin: 'fit-covariance',
+    });
+  }
   if (part.summary !== null) {
     const w = detectWeakExcitation(null, part.summary);
     if (w) findings.push({ ...w, recording: null, origin: 'fit-covariance' });

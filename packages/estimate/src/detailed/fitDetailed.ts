@@ -106,7 +106,9 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
   const noCurrent = !hasCurrent && recs.some((r) => r.kind !== 'coast-down' && !r.table) && fix.R === undefined;
   // Tables of steady points alone, R not pinned: V = (K + R·b/K)·ω and i = (b/K)·ω — R and K do
   // not part (friction or drag can part them, weakly; the information then says so).
-  const tableOnly = recs.every((r) => r.table) && fix.R === undefined;
+  // Steady points of the linear model: R and K do not part (with drag or Coulomb friction the
+  // current is no longer proportional to speed and they may: the information decides).
+  const tableOnly = recs.every((r) => r.table) && fix.R === undefined && !ext.drag && !ext.coulomb;
   const values: DetailedValues = {
     R: 1, L: 1e-3, Kt: 0.05, Ke: 0.05, J: 1e-5, b: 1e-6, Tc: 0, Ts: 0, c: 0, Vmax: Infinity, Imax: Infinity, Rth: 1, Cth: 1,
   };
@@ -392,6 +394,12 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
   if (!onlyRatios && recs.some((r) => r.kind === 'coast-down') && index.b >= 0 && index.J >= 0 && (weak('b') || weak('J'))) {
     // A coast-down sees the deceleration b/J directly, even where b and J apart are weakly pinned.
     report('b/J', v.b / v.J, -1, logGrad([['b', 1], ['J', -1]]));
+  }
+  const speedOnly = recs.every((r) => r.kind === 'coast-down' && !r.drivenBeforeCut);
+  if (speedOnly && !onlyRatios && index.b >= 0) {
+    // J was given: b follows from it, but the deceleration b/J is what the data show on their own.
+    report('b/J', v.b / v.J, -1, logGrad([['b', 1]]));
+    if (ext.coulomb && index.Tc >= 0) report('Tc/J', v.Tc / v.J, -1, logGrad([['Tc', 1]]));
   }
   if (onlyRatios) {
     report('b/J', v.b / v.J, -1, logGrad([['b', 1]]));

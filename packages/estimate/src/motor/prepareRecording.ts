@@ -52,6 +52,8 @@ export interface PreparedRecording {
    * R + Rs), the drive's command (then its limits may show), or none (a speed-only coast-down).
    */
   source: 'terminal' | 'supply' | 'command' | 'none';
+  /** The supply drives the fit although the terminal voltage is logged too (R + Rs is fitted; Rs is taken off after). */
+  supplyDrives: boolean;
   /** The logged drive voltage the input was rebuilt from (terminal, supply or command) [V], or null. */
   drive: Float64Array | null;
   /** Terminal voltage rows of the detailed fit (open-circuit voltage after a coast-down's cut) [V], or null. */
@@ -159,8 +161,8 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
   const torque = channel('torque');
   // The drive voltage: measured at the terminals when logged; else the drive's command (its limits
   // may then show); else the supply (R then stands for R + Rs); else none (speed-only coast).
-  const source: PreparedRecording['source'] = terminalV !== null ? 'terminal' : commandV !== null ? 'command' : supplyV !== null ? 'supply' : 'none';
-  const voltage = terminalV ?? commandV ?? supplyV;
+  let source: PreparedRecording['source'] = terminalV !== null ? 'terminal' : commandV !== null ? 'command' : supplyV !== null ? 'supply' : 'none';
+  let voltage = terminalV ?? commandV ?? supplyV;
   if (current === null && speed === null) throw new TypeError(`${where}.recording.channels needs current or speed (got neither)`);
   const table = rec.layout === 'table';
   const name = item.name ?? `recording ${index}`;
@@ -224,6 +226,7 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
   let segments: VoltageSegment[] | null = null;
   let sines: SineModel | null = null;
   let first = 0;
+  let supplyDrives = false;
   if (table) {
     input = Float64Array.from(voltage!);
     handling = { method: 'measured', reason: 'steady operating points: each row\'s voltage is the input of its point', stepTime: null, residualRatio: 0, voltageSigma: NaN };
@@ -244,7 +247,21 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
     const g0 = g1;
     const phase = g0 === null ? null : Float64Array.from(time, (t) => Math.floor((t - g0.start) / g0.interval + 1e-9));
     grid = g0;
-    const rb = rebuildCommand(time, voltage!, voltageMode, phase);
+    let rb = rebuildCommand(time, voltage!, voltageMode, phase);
+    // Supply and terminal both logged: behind a source resistance the terminal voltage sags with
+    // the current and is no longer piecewise constant, while the supply still is. A noisy input
+    // biases the constants (errors in variables), so the supply drives the fit (R there is R + Rs)
+    // and Rs, from the two voltages, is taken off afterwards.
+    if (source === 'terminal' && supplyV !== null) {
+      const piecewise = (m: string): boolean => m === 'exact' || m === 'segment-means';
+      const bySupply = rebuildCommand(time, supplyV, voltageMode, phase);
+      if (piecewise(bySupply.handling.method) && !piecewise(rb.handling.method)) {
+        rb = bySupply;
+        source = 'supply';
+        voltage = supplyV;
+        supplyDrives = true;
+      }
+    }
     if (rb.sineBasis !== undefined) sines = sineModel(rb.sineBasis, voltage!, rb.voltage);
     input = rb.voltage;
     handling = rb.handling;
@@ -273,7 +290,9 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
   handling.source = source;
   handling.sourceNote = source === 'command'
     ? 'input: commanded voltage, not measured at the motor (a drive that limits its voltage or current makes the two differ)'
-    : source === 'supply'
+    : supplyDrives
+      ? 'input: supply voltage (piecewise constant, where the terminal voltage sags with the current behind the source resistance); R is R + Rs less Rs from the two voltages'
+      : source === 'supply'
       ? 'input: supply voltage, not measured at the motor: R here is R + Rs, the winding plus the supply\'s source resistance'
       : source === 'none' ? 'no voltage logged: only the free deceleration is fitted' : '';
   // A coast-down that shows the driven plateau before the cut (voltage or current there).
@@ -288,7 +307,7 @@ export function prepareRecording(item: MotorRecordingInput, index: number, volta
     current: kind === 'coast-down' && !drivenBeforeCut ? null : current,
     speed: kind === 'locked-rotor' ? null : speed,
     currentNoise, speedNoise, loadTorque, first, direction, levels, sines, baseline, torqueStats,
-    source, drive: voltage, terminal, terminalNoise: terminal === null ? null : noise(terminal), encoder, grid, drivenBeforeCut, table,
+    source, supplyDrives, drive: voltage, terminal, terminalNoise: terminal === null ? null : noise(terminal), encoder, grid, drivenBeforeCut, table,
     spread: table ? { current: spreadOf('current'), speed: spreadOf('speed'), voltage: spreadOf('voltage') } : null,
   };
 }
