@@ -96,6 +96,7 @@ export function identifyMotor(recordings: MotorRecordingInput[], options: Identi
     // A candidate turned down is not tried again; one that was supported but lost to a better
     // one is tried again against the grown model (it may have stood in for the winner).
     const rejected = new Set<Extension>();
+    const stalledOnce = new Set<Extension>();
     for (let round = 0; round < ORDER.length; round++) {
       const pool = applicable(recordings, fit, diagnosis, model).filter((e) => !rejected.has(e) && !model[e]);
       if (pool.length === 0) break;
@@ -115,12 +116,26 @@ export function identifyMotor(recordings: MotorRecordingInput[], options: Identi
           rejected.add(e);
           continue;
         }
+        if (!cand.converged && cand.stopReason === 'max-iterations' && cand.rows === fit.rows && cand.ssr < fit.ssr) {
+          // Still moving after 40 steps, and already better: an effect that trades against another
+          // constant (drag against b) walks a long valley. Let it finish when the gain so far is
+          // already clear (F-test), else it stays turned down as not converged.
+          const soFar = compareNestedModels('so far', { name: 'a', ssr: fit.ssr, parameters: fit.theta.length }, { name: 'b', ssr: cand.ssr, parameters: cand.theta.length }, fit.rows, alpha);
+          if (soFar.fPValue < alpha) {
+            try {
+              const more = fitWith(next, { initial: { ...(base.initial ?? {}) }, warmStart: cand, noise: weights, reweight: false, solver: { ...(base.solver ?? {}), maxIterations: 200 } });
+              if (more.rows === cand.rows && (more.converged || more.ssr < cand.ssr)) cand = more;
+            } catch { /* keep the first attempt */ }
+          }
+        }
         const comparable = cand.rows === fit.rows && Number.isFinite(cand.ssr) && Number.isFinite(fit.ssr);
         const comparison = comparable
           ? compareNestedModels(`${listOf(model).join(' + ') || 'lumped'} vs + ${e}`, { name: listOf(model).join(' + ') || 'lumped', ssr: fit.ssr, parameters: fit.theta.length },
             { name: listOf(next).join(' + '), ssr: cand.ssr, parameters: cand.theta.length }, fit.rows, alpha)
           : null;
-        const added = EFFECT_CONSTANTS[e].map((c) => cand.parameters[c]).filter((x) => x !== undefined);
+        // Without current Coulomb friction shows as the speed it costs, not as Tc on its own.
+        const drop = cand.parameters['friction speed drop'];
+        const added = (e === 'coulomb' && drop !== undefined ? [drop] : EFFECT_CONSTANTS[e].map((c) => cand.parameters[c])).filter((x) => x !== undefined);
         const identified = added.length > 0 && added.every((x) => x!.identified !== false && x!.standardError !== undefined && x!.standardError < 0.5 * Math.abs(x!.value));
         const bicDrop = comparison === null ? -Infinity : comparison.bic[0] - comparison.bic[1];
         const accepted = cand.converged && comparison !== null && comparison.fPValue < alpha && bicDrop > 0 && identified;
@@ -135,7 +150,10 @@ export function identifyMotor(recordings: MotorRecordingInput[], options: Identi
           if (x !== undefined) effects[c] = { value: x.value, unit: x.unit, interval95: x.interval95 ?? null };
         }
         candidates.push({ extensions: listOf(next), added: e, converged: cand.converged, ssr: cand.ssr, parameters: cand.theta.length, rows: cand.rows, comparison, accepted, reason, effects });
-        if (!accepted) rejected.add(e);
+        // One that did not converge gets one more try from the grown model (another effect may
+        // have hidden its gradient, as Coulomb friction hides drag).
+        if (!accepted && (cand.converged || stalledOnce.has(e))) rejected.add(e);
+        if (!accepted && !cand.converged) stalledOnce.add(e);
         if (accepted && (best === null || bicDrop > best.bicDrop)) best = { ext: e, fit: cand, bicDrop };
       }
       if (best === null) break;
@@ -147,6 +165,39 @@ export function identifyMotor(recordings: MotorRecordingInput[], options: Identi
       fit = refit.converged ? refit : best.fit;
       diagnosis = diagnoseFit(fit, recordings, { alpha });
       rejected.delete('stiction');
+    }
+  }
+  if (forced === null && fit.converged && listOf(model).length > 0) {
+    // Backward check: an extension taken in early (or in place of a lumped model that did not
+    // converge) may be redundant once a later one explains the same residuals. Each is removed
+    // in turn, from the current optimum, and stays out when the fuller model is no longer
+    // supported (F-test at alpha and BIC).
+    for (const e of [...listOf(model)].reverse()) {
+      if (!model[e] || (e === 'coulomb' && model.stiction)) continue;
+      const fewer: ModelExtensions = { ...model, [e]: false };
+      if (e === 'stiction') fewer.coulomb = true;
+      progress(`checking ${WORDS[e]} is still needed`, 0.9);
+      let reduced: MotorFit;
+      try {
+        reduced = fitWith(fewer, { initial: { ...(base.initial ?? {}) }, warmStart: fit, noise: noiseOf(fit), reweight: false, solver: { ...(base.solver ?? {}), maxIterations: 60 } });
+      } catch { continue; }
+      if (!reduced.converged || reduced.rows !== fit.rows) continue;
+      const comparison = compareNestedModels(`${listOf(fewer).join(' + ') || 'lumped'} vs + ${e}`, { name: listOf(fewer).join(' + ') || 'lumped', ssr: reduced.ssr, parameters: reduced.theta.length },
+        { name: listOf(model).join(' + '), ssr: fit.ssr, parameters: fit.theta.length }, fit.rows, alpha);
+      const bicDrop = comparison.bic[0] - comparison.bic[1];
+      if (comparison.fPValue < alpha && bicDrop > 0) continue;
+      for (const c of candidates) if (c.accepted && c.added === e) { c.accepted = false; c.reason += '; dropped again once the rest of the model explained the same residuals'; }
+      const effects: ModelCandidate['effects'] = {};
+      for (const c of EFFECT_CONSTANTS[e]) {
+        const x = fit.parameters[c];
+        if (x !== undefined) effects[c] = { value: x.value, unit: x.unit, interval95: x.interval95 ?? null };
+      }
+      candidates.push({ extensions: listOf(model), added: e, converged: true, ssr: fit.ssr, parameters: fit.theta.length, rows: fit.rows, comparison, accepted: false,
+        reason: `no longer supported beside ${listOf(fewer).join(', ') || 'the lumped model'}: F-test p ${comparison.fPValue.toPrecision(2)}${bicDrop > 0 ? '' : `, BIC higher by ${(-bicDrop).toPrecision(3)}`}`, effects });
+      model = fewer;
+      const refit = fitWith(model, { warmStart: reduced });
+      fit = refit.converged ? refit : reduced;
+      diagnosis = diagnoseFit(fit, recordings, { alpha });
     }
   }
   progress('checking held-out recordings', 0.92);

@@ -170,6 +170,8 @@ export interface RoleGuess {
   spreadOf?: SignalRole;
   /** The name says the quantity was measured at the motor (`terminal`, `measured`, `actual`…): preferred over a plain name. */
   measured?: boolean;
+  /** The roles a name mentions together (`enc_speed`: position and speed); its unit may settle it. */
+  several?: ChannelRole[];
 }
 
 /** Lower-case tokens of a name: camelCase and letter–digit boundaries split, separators removed. */
@@ -189,7 +191,7 @@ function tokensOf(name: string): string[] {
 }
 
 /** The quantity named by tokens, before qualifiers: exact name, a role word, or a leading symbol. */
-function baseQuantity(tokens: readonly string[]): { role: ChannelRole | null; implied?: string; exact: boolean; why?: string } {
+function baseQuantity(tokens: readonly string[]): { role: ChannelRole | null; implied?: string; exact: boolean; why?: string; several?: ChannelRole[] } {
   const compact = tokens.join('');
   const norm = tokens.join(' ');
   for (const role of CHANNEL_ROLES) {
@@ -200,7 +202,7 @@ function baseQuantity(tokens: readonly string[]): { role: ChannelRole | null; im
   }
   const byWord = CHANNEL_ROLES.filter((role) => tokens.some((t) => ROLE_WORDS[role]?.includes(t)));
   if (byWord.length === 1) return { role: byWord[0]!, exact: false };
-  if (byWord.length > 1) return { role: null, exact: false, why: `the name mentions several quantities (${byWord.join(', ')})` };
+  if (byWord.length > 1) return { role: null, exact: false, why: `the name mentions several quantities (${byWord.join(', ')})`, several: byWord };
   // Compact symbols with a qualifier glued on: Vbus, Ucmd, Iact.
   for (const role of ['supplyVoltage', 'commandVoltage'] as const) {
     if (tokens.some((t) => EXACT_NAMES[role].includes(t))) return { role, exact: true };
@@ -245,7 +247,7 @@ export function detectRole(name: string): RoleGuess {
   const core = all.filter((t) => !COMMAND_WORDS.has(t) && !SUPPLY_WORDS.has(t) && !MEASURED_WORDS.has(t));
   const base = baseQuantity(core.length ? core : all);
   let role = base.role;
-  if (role === null && base.why?.startsWith('the name mentions several')) return { role: null, why: base.why };
+  if (role === null && base.several !== undefined) return { role: null, why: base.why!, several: base.several };
   if (duty && (role === null || role === 'voltage' || role === 'duty')) return { role: 'duty' };
   if (role === null) {
     if (all.includes('dac')) return { role: 'commandVoltage' };
@@ -433,6 +435,12 @@ export function planColumns(head: HeadColumns, options: IngestOptions, file: str
     const unitHere = p.unit ?? unitsRowCell(head.unitsRow?.[c]);
     if (!guess.role && !guess.spreadOf && p.name.trim() === 'T' && unitHere) {
       const roles = rolesOfUnit(unitHere).filter((r) => r === 'time' || r === 'temperature' || r === 'torque');
+      if (roles.length === 1) guess = { role: roles[0]! };
+    }
+    if (!guess.role && guess.several !== undefined && unitHere) {
+      // A name that mentions two quantities (`enc_speed_rpm`: encoder and speed) is settled by a
+      // unit that belongs to exactly one of them.
+      const roles = rolesOfUnit(unitHere).filter((r) => guess.several!.includes(r));
       if (roles.length === 1) guess = { role: roles[0]! };
     }
     if (!guess.role && !guess.spreadOf && shortNames && shortNames[c]) {

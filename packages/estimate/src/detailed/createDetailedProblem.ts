@@ -69,6 +69,16 @@ export interface DetailedProblem extends LeastSquaresProblem {
   simulations(): number;
   /** `forward` differences while iterating (p + 1 simulations per Jacobian), `central` for the final covariance. */
   differences: 'forward' | 'central';
+  /**
+   * The score's covariance by batch means, B = Σ_b G_b·G_bᵀ with G_b = Σ_{k∈b} J_kᵀ·r_k over
+   * contiguous batches of about √n rows within each channel of each recording (whitened rows);
+   * summary rows (levels, sines) are batches of one. With white residuals B ≈ s²·JᵀJ; residuals
+   * that are correlated in time (quantisation of a slow signal, an unmodelled ripple) make it
+   * larger, and the sandwich (JᵀJ)⁻¹·B·(JᵀJ)⁻¹ says so. Uses the Jacobian and residuals of the
+   * last `evaluate` with `wantJacobian` (call it at θ first). Returns the p×p matrix and the
+   * number of batches, or null when there is no Jacobian.
+   */
+  scoreCovariance(): { meat: Float64Array; batches: number } | null;
 }
 
 /** Relative step of the central differences on θ (log entries: relative to the constant). */
@@ -331,6 +341,8 @@ export function createDetailedProblem(setup: DetailedSetup): DetailedProblem {
   const rp = new Float64Array(rows);
   const rm = new Float64Array(rows);
   let jac = new Float64Array(0);
+  // Residuals at the point of the last Jacobian (for the score covariance).
+  let jr = new Float64Array(0);
   const work = new Float64Array(p);
   const evalAll = (theta: ArrayLike<number>, out: Float64Array): boolean => {
     const v = valuesAt(theta);
@@ -381,9 +393,49 @@ export function createDetailedProblem(setup: DetailedSetup): DetailedProblem {
         }
       }
       // Leave the base state in the trace buffers (the last call must be the unperturbed one).
+      if (jr.length !== rows) jr = new Float64Array(rows);
+      jr.set(r0);
       accumulateNormalEquations(acc, r0, jac, rows, rows);
       acc.rows += summaryRows;
       return ssr;
+    },
+    scoreCovariance() {
+      if (jac.length !== p * rows) return null;
+      const meat = new Float64Array(p * p);
+      const G = new Float64Array(p);
+      let batches = 0;
+      const flush = (): void => {
+        for (let a = 0; a < p; a++) { const ga = G[a]!; if (ga === 0) continue; for (let b = 0; b < p; b++) meat[a * p + b] = meat[a * p + b]! + ga * G[b]!; }
+        G.fill(0);
+        batches++;
+      };
+      const add = (k: number): void => { const rk = jr[k]!; for (let j = 0; j < p; j++) G[j] = G[j]! + jac[j * rows + k]! * rk; };
+      const series = (from: number, count: number): void => {
+        if (count <= 0) return;
+        const m = Math.max(1, Math.round(Math.sqrt(count)));
+        const nb = Math.max(1, Math.floor(count / m));
+        for (let b = 0; b < nb; b++) {
+          const end = b === nb - 1 ? from + count : from + (b + 1) * m;
+          for (let k = from + b * m; k < end; k++) add(k);
+          flush();
+        }
+      };
+      for (let r = 0; r < recs.length; r++) {
+        const c = counts[r]!;
+        let o = rowStart[r]!;
+        if (recs[r]!.table) {
+          // One row per steady point (current and speed interleaved): independent points.
+          const m = c.current + c.speed + c.terminal;
+          for (let k = o; k < o + m; k++) { add(k); flush(); }
+          o += m;
+        } else {
+          series(o, c.current); o += c.current;
+          series(o, c.speed); o += c.speed;
+          series(o, c.terminal); o += c.terminal;
+        }
+        for (let k = o; k < o + c.levels + c.sines; k++) { add(k); flush(); }
+      }
+      return { meat, batches };
     },
     residualsAt(theta) {
       const v = valuesAt(theta);

@@ -25,6 +25,8 @@ export interface DetailedFitOptions {
   ambient: number;
   solver: SolverOptions;
   keepResiduals: boolean;
+  /** Widen the covariance by the batch-means sandwich where residuals are correlated (default true). */
+  sandwich?: boolean;
   /** Re-estimate the noise SDs from the residuals (off when the caller fixed the weights). */
   reweight: boolean;
   /** θ entries of a previous fit to start from, by name (same transform and scale). */
@@ -103,7 +105,11 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
     notInformed.push({ name: 'J', reason: 'a coast-down from speed alone shows only the deceleration: b/J (and Tc/J) — not J, b or Tc on their own', wouldInform: 'a driven run with current, or J known (--fix J=…)' });
   }
   // No current anywhere and R not pinned: the speed sees R only with J and b.
-  const noCurrent = !hasCurrent && recs.some((r) => r.kind !== 'coast-down' && !r.table) && fix.R === undefined;
+  // Driven runs with voltage and speed but no current. The speed alone shows K/(R·J),
+  // (K²/R + b)/J and Tc/J: with R unknown it enters with J and b; with R known, K and b still
+  // trade along K²/R + b (unless the electrical pole shows, which it rarely does at logging rates).
+  const speedOnlyDriven = !hasCurrent && recs.some((r) => r.kind !== 'coast-down' && !r.table);
+  const noCurrent = speedOnlyDriven && fix.R === undefined;
   // Tables of steady points alone, R not pinned: V = (K + R·b/K)·ω and i = (b/K)·ω — R and K do
   // not part (friction or drag can part them, weakly; the information then says so).
   // Steady points of the linear model: R and K do not part (with drag or Coulomb friction the
@@ -182,9 +188,22 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
     return sl;
   });
   if (opts.warm !== null) {
+    // An input level the previous model pulled far from its own samples (a lumped model bending
+    // the command to mimic a drive's limit) starts again from its samples' mean: from there the
+    // new model's effect has a gradient to follow.
+    const farLevel = new Set<number>();
+    recs.forEach((r, ri) => {
+      if (r.levels === null) return;
+      r.levels.classes.forEach((q, j) => {
+        const k = slots[ri]!.level[j]!;
+        const v = opts.warm!.get(entries[k]!.name);
+        const se = Math.max(r.handling.voltageSigma, 1e-12) / Math.sqrt(Math.max(q.count, 1));
+        if (v !== undefined && Math.abs(v * entries[k]!.scale - q.mean) > 6 * se + 1e-9 * Math.abs(q.mean)) farLevel.add(k);
+      });
+    });
     entries.forEach((e, j) => {
       const v = opts.warm!.get(e.name);
-      if (v !== undefined && Number.isFinite(v)) theta0[j] = v;
+      if (v !== undefined && Number.isFinite(v) && !farLevel.has(j)) theta0[j] = v;
     });
   }
   const sigma = recs.map((r) => ({
@@ -206,6 +225,13 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
       }
     }
     notInformed.push({ name: 'R', reason: 'no recording logs current: from voltage and speed alone R enters only together with J and b', wouldInform: WOULD_INFORM.R! + ' (or pin R with --fix R=…)' });
+  }
+  if (speedOnlyDriven && index.b >= 0) {
+    // b is held at its start (it trades against K along K²/R + b); the informed combinations are
+    // reported below, and K, J, b, Tc apart are said to be unidentified.
+    values.b = Math.exp(theta0[index.b]!);
+    removeEntry(setup, theta0, index.b);
+    notInformed.push({ name: 'b', reason: 'no recording logs current: from voltage and speed alone b trades against K along K²/R + b', wouldInform: 'a recording with current, or b from a coast-down with J known' });
   }
   if (tableOnly && index.R >= 0) {
     values.R = Math.exp(theta0[index.R]!);
@@ -270,11 +296,12 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
   const ranOff = (res: SolverResult, from: Float64Array): boolean =>
     (['R', 'L', 'Kt', 'J', 'b'] as const).some((c) => index[c] >= 0 && Math.abs(res.theta[index[c]]! - from[index[c]]!) > Math.log(1e6));
   let best: SolverResult | null = null;
+  let bestStart = starts[0]!;
   for (const s of starts) {
     const res = solve(s, 'automatic');
     const stuck = ranOff(res, s);
     const better = best === null || (res.converged && !stuck && (!best.converged || res.ssr < best.ssr)) || (!best.converged && res.ssr < best.ssr);
-    if (better) best = res;
+    if (better) { best = res; bestStart = s; }
     if (res.converged && !stuck) break;
   }
   let sol = best!;
@@ -334,6 +361,11 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
       }
     }
   }
+  if (sol.converged && ranOff(sol, bestStart)) {
+    // Every start ran off to a boundary: the model does not describe these data (a rotor that
+    // sticks, fitted without friction, drives b to zero). Said so, not called converged.
+    sol = { ...sol, converged: false, stopReason: 'ran-off' };
+  }
   const theta = sol.theta;
   const v = problem.valuesAt(theta);
   const rows = sol.rows;
@@ -342,7 +374,41 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
   if (dof > 0 && Number.isFinite(sol.ssr)) {
     try { cov = covarianceFromNormalMatrix(sol.JtJ, p, sol.ssr, rows); } catch { cov = null; }
   }
-  const tq = tQuantile(0.975, Math.max(dof, 1));
+  // Residuals correlated in time carry less information than their count: the sandwich with a
+  // batch-means score covariance (see `scoreCovariance`) widens the covariance where they are.
+  // It never narrows it below s²(JᵀJ)⁺ (white residuals give the two alike, up to the batch
+  // estimate's own noise), and its intervals use the batches' degrees of freedom.
+  let intervalDof = dof;
+  if (cov !== null && opts.sandwich !== false) {
+    const accS = createNormalEquations(p);
+    const ssrS = problem.evaluate(Float64Array.from(theta), true, accS);
+    jacobianEvaluations++;
+    const sc = Number.isFinite(ssrS) ? problem.scoreCovariance() : null;
+    if (sc !== null && sc.batches > 2 * p + 2) {
+      const s2 = cov.residualVariance;
+      const C = cov.covariance;
+      const Ap = Float64Array.from(C, (x) => x / s2);
+      const T = new Float64Array(p * p);
+      for (let a = 0; a < p; a++) for (let b = 0; b < p; b++) { let q = 0; for (let k = 0; k < p; k++) q += Ap[a * p + k]! * sc.meat[k * p + b]!; T[a * p + b] = q; }
+      const H = new Float64Array(p * p);
+      for (let a = 0; a < p; a++) for (let b = 0; b < p; b++) { let q = 0; for (let k = 0; k < p; k++) q += T[a * p + k]! * Ap[k * p + b]!; H[a * p + b] = q; }
+      const d = Float64Array.from({ length: p }, (_, j) => {
+        const h = H[j * p + j]!, c = C[j * p + j]!;
+        return h > 0 && c > 0 ? Math.max(1, Math.sqrt(c / h)) : 1;
+      });
+      let widened = false;
+      for (let a = 0; a < p; a++) {
+        for (let b = 0; b < p; b++) {
+          const x = cov.identifiable[a] && cov.identifiable[b] ? H[a * p + b]! * d[a]! * d[b]! : C[a * p + b]!;
+          if (a === b && x > C[a * p + b]! * 1.0001) widened = true;
+          C[a * p + b] = x;
+        }
+      }
+      for (let j = 0; j < p; j++) cov.standardErrors[j] = cov.identifiable[j] ? Math.sqrt(C[j * p + j]!) : NaN;
+      if (widened) intervalDof = Math.min(dof, sc.batches - p);
+    }
+  }
+  const tq = tQuantile(0.975, Math.max(intervalDof, 1));
   const parameters: Record<string, ParameterEstimate> = {};
   const informedBy = recs.map((r) => r.name);
   const report = (name: string, value: number, j: number, derivative: number[] | null = null): void => {
@@ -417,15 +483,20 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
       if (e !== undefined && e.fixed !== true) { e.identified = false; e.unidentifiedReason = 'with R unknown, steady points pin only b/Kt and V/ω = Kt + R·b/Kt (pin R with --fix R=… from a locked-rotor run)'; }
     }
   }
-  if (noCurrent) {
-    // What voltage-to-speed runs do inform: the steady gain ω/V = K/(R·b + K²) and τm′ = R·J/(R·b + K²).
+  if (speedOnlyDriven) {
+    // What voltage-to-speed runs do inform: the steady gain ω/V = K/(R·b + K²) and τm′ = R·J/(R·b + K²)
+    // (and the friction's speed drop R·Tc/(R·b + K²) with Coulomb friction).
     const D = v.R * v.b + v.Kt * v.Ke;
     const wb = (v.R * v.b) / D, wk = (v.Kt * v.Ke) / D;
     report('speed gain', v.Kt / D, -1, logGrad([['Kt', 1 - 2 * wk], ['b', -wb]]));
     report('mechanical time constant', (v.R * v.J) / D, -1, logGrad([['J', 1], ['Kt', -2 * wk], ['b', -wb]]));
-    for (const c of ['Kt', 'Ke', 'J', 'b'] as const) {
+    if (ext.coulomb && index.Tc >= 0) report('friction speed drop', (v.R * v.Tc) / D, -1, logGrad([['Tc', 1], ['Kt', -2 * wk], ['b', -wb]]));
+    const why = noCurrent
+      ? 'without current, voltage and speed pin only the speed gain and the mechanical time constant (pin R with --fix R=…)'
+      : 'without current, voltage and speed pin only the speed gain, the mechanical time constant and the friction\'s speed drop: K and b trade along K²/R + b';
+    for (const c of ['Kt', 'Ke', 'J', 'b', 'Tc', 'Ts', 'c'] as const) {
       const e = parameters[c];
-      if (e !== undefined && e.fixed !== true) { e.identified = false; e.unidentifiedReason = 'without current, voltage and speed pin only the speed gain and the mechanical time constant (pin R with --fix R=…)'; }
+      if (e !== undefined && e.fixed !== true) { e.identified = false; e.unidentifiedReason = why; }
     }
   }
   // The constants' joint statistics (ln p), for every reader.
@@ -441,7 +512,7 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
     const j = index[c];
     maps.push(j >= 0 ? { name: c, value: est.value, status: 'fitted', gradient: [[j, 1]] } : { name: c, value: est.value, status: 'absent', gradient: [] });
   }
-  const constantCovariance = logCovarianceOfConstants(maps, cov === null ? null : cov.covariance, cov === null ? [] : cov.identifiable, p, dof);
+  const constantCovariance = logCovarianceOfConstants(maps, cov === null ? null : cov.covariance, cov === null ? [] : cov.identifiable, p, intervalDof);
   // Residual series and per-channel fit quality.
   const { series } = problem.residualsAt(theta);
   const reports: RecordingReport[] = recs.map((r, i) => {

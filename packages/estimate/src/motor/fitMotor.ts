@@ -201,30 +201,45 @@ function fitPrepared(recs: PreparedRecording[], opts: ReturnType<typeof checkFit
     }
     effectStarts(recs, ext, start, startSource);
     effectStarts(recs, ext, autoStart, {});
-    if (ext.coulomb && !(start.Tc! > 0 && start.Tc! < runningTorque(recs, start.Kt ?? 0.05))) {
+    const noCurrentAtAll = recs.every((r) => r.current === null);
+    if (ext.coulomb && !(start.Tc! > 0 && (noCurrentAtAll || start.Tc! < runningTorque(recs, start.Kt ?? 0.05)))) {
       // 5 % of the torque the rotor runs against (Kt times the smallest running current; common
       // practice, no source: a start, not a guess). A start above the running torque holds the
       // rotor still, where no gradient leads back.
       start.Tc = 0.05 * runningTorque(recs, start.Kt ?? 0.05);
     }
-    if (ext.coulomb) autoStart.Tc = 0.05 * runningTorque(recs, autoStart.Kt ?? 0.05);
+    if (ext.coulomb && !(noCurrentAtAll && autoStart.Tc! > 0)) autoStart.Tc = 0.05 * runningTorque(recs, autoStart.Kt ?? 0.05);
     // A warm start: the previous fit's constants (unless `initial` names them) and nuisances by name.
     let warm: Map<string, number> | null = null;
+    const warmReset = new Set<string>();
+    const nearZero: Partial<Record<DetailedConstant, number>> = {};
     if (opts.warmStart !== null) {
       const w = opts.warmStart;
       warm = new Map(w.fittedNames.map((name, j) => [name, w.theta[j]!]));
       for (const [k, e] of Object.entries(w.parameters)) {
         if (e.fixed || !(DETAILED_NAMES as readonly string[]).includes(k) || opts.initial[k as MotorConstantName] !== undefined) continue;
+        // A constant the previous fit drove towards zero on its log scale has no gradient left
+        // there (another term stood in for it): it starts again from its own guess.
+        const own = autoStart[k as DetailedConstant];
+        if (own !== undefined && e.value < 1e-4 * own) { warmReset.add(k); nearZero[k as DetailedConstant] = e.value; continue; }
         if (Number.isFinite(e.value) && e.value > 0) { start[k as DetailedConstant] = e.value; startSource[k as DetailedConstant] = 'the previous fit (warm start)'; }
       }
       for (const name of [...warm.keys()]) if (/^ln /.test(name)) warm.delete(name);
+      for (const k of warmReset) startSource[k as DetailedConstant] = `${startSource[k as DetailedConstant] ?? 'guess'} (the previous fit had it near zero)`;
       // The heating model's R is the resistance at 20 °C; a fit without it gave R at the run's
       // temperature, taken as the ambient (copper law, k = 234.5 °C, FACTS.md §3).
       if (ext.heating && !(w.variant.extensions ?? []).includes('heating') && start.R !== undefined && opts.initial.R === undefined) {
         start.R = (start.R * (234.5 + 20)) / (234.5 + opts.ambientTemperature);
       }
     }
-    return fitDetailed(recs, { extensions: ext, fix: fixedD, start, startSource, ambient: opts.ambientTemperature, solver: opts.solver, keepResiduals: opts.keepResiduals, reweight: opts.reweight, warm, ...(Object.keys(opts.initial).length > 0 ? { autoStart } : {}) });
+    const run = (s0: typeof start, src: typeof startSource): MotorFit => fitDetailed(recs, { extensions: ext, fix: fixedD, start: s0, startSource: src, ambient: opts.ambientTemperature, solver: opts.solver, keepResiduals: opts.keepResiduals, reweight: opts.reweight, warm, ...(Object.keys(opts.initial).length > 0 ? { autoStart } : {}) });
+    const fresh = run(start, startSource);
+    if (warmReset.size === 0) return fresh;
+    // The near-zero basin may be the right one after all (the new effect may take the role the
+    // vanished constant would have had): both are tried, the lower sum of squares kept.
+    const stay = run({ ...start, ...nearZero }, { ...startSource, ...Object.fromEntries(Object.keys(nearZero).map((k) => [k, 'the previous fit (warm start, near zero)'])) });
+    const better = (a: MotorFit, b: MotorFit): MotorFit => (a.converged !== b.converged ? (a.converged ? a : b) : a.ssr <= b.ssr ? a : b);
+    return stay.rows === fresh.rows ? better(fresh, stay) : fresh;
   }
   const names: LumpedName[] = ['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc'];
   const fixed: Partial<Record<LumpedName, number>> = {};

@@ -47,6 +47,42 @@ export function guessConstants(recs: PreparedRecording[], fixed: Partial<Constan
       const t63 = riseTime(rec.time, i, kStep, i0, iss, 0.632);
       const tau = t63 > rec.h ? t63 : fractionalTau(i, kStep, i0, iss, rec.h);
       set('L', R * tau, `locked-rotor "${rec.name}": L = R·τe (63 % rise)`, true);
+    } else if (rec.current === null && rec.speed !== null && rec.kind !== 'coast-down' && !rec.table && segs !== null && segs.length >= 3) {
+      // Voltage and speed only, several levels: the settled speed of each level on its voltage,
+      // ω = g·(V − V0) over the levels where the rotor runs, g = K/(R·b + K²) ≈ 1/K and a dead
+      // band V0 = R·Tc/K where friction holds the rotor; J from the first running level's 63 % rise.
+      const R = fixed.R ?? g.R?.value ?? NaN;
+      const pts: [number, number][] = [];
+      for (const sg of segs) {
+        const a = sg.start + Math.floor(0.6 * (sg.end - sg.start));
+        if (sg.end - a < 3) continue;
+        const w = mean(rec.speed, a, sg.end);
+        pts.push([sg.level, w]);
+      }
+      const top = Math.max(...pts.map(([, w]) => Math.abs(w)), 0);
+      const run = pts.filter(([v, w]) => Math.abs(w) > 0.05 * top && v * w > 0).map(([v, w]) => [Math.abs(v), Math.abs(w)] as [number, number]);
+      if (run.length >= 2) {
+        let sv = 0, sw = 0, svv = 0, svw = 0;
+        for (const [v, w] of run) { sv += v; sw += w; svv += v * v; svw += v * w; }
+        const m = run.length, den = m * svv - sv * sv;
+        const gain = den > 0 ? (m * svw - sv * sw) / den : sw / sv;
+        const V0 = den > 0 ? Math.max(0, (sv - sw / gain) / m) : 0;
+        const K = 1 / gain;
+        set('Kt', K, `levels of "${rec.name}": K ≈ 1/(dω/dV) across the running levels`);
+        set('Ke', K, `levels of "${rec.name}": Kt = Ke`);
+        const Rg = Number.isFinite(R) ? R : 1;
+        set('b', 0.05 * K * K / Rg, `levels of "${rec.name}": b at 5 % of the electrical damping K²/R (a start)`);
+        set('Tc', (V0 * K) / Rg, `levels of "${rec.name}": Tc = K·V0/R from the dead band V0`);
+        const first = segs.findIndex((sg) => Math.abs(sg.level) > V0 * 1.2 && sg.end - sg.start > 8);
+        if (first >= 0) {
+          const sg = segs[first]!;
+          const w0 = first > 0 ? rec.speed[sg.start - 1]! : 0;
+          const w1 = mean(rec.speed, sg.start + Math.floor(0.6 * (sg.end - sg.start)), sg.end);
+          const tm = riseTime(rec.time, rec.speed, sg.start, w0, w1, 0.632);
+          const tau = tm > rec.h ? tm : 0.1 * (rec.time[sg.end - 1]! - rec.time[sg.start]!);
+          set('J', (tau * (Rg * g.b!.value + K * K)) / Rg, `levels of "${rec.name}": J = τm′·(R·b + K²)/R from the first running level`);
+        }
+      }
     } else if (rec.kind === 'steady-state' && rec.current !== null && rec.speed !== null && segs !== null && segs.length >= 2) {
       const V: number[] = [], I: number[] = [], W: number[] = [];
       for (const s of segs) {

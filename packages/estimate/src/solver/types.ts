@@ -62,7 +62,9 @@ export type StopReason =
   | 'zero-residual'
   | 'stalled'
   | 'max-iterations'
-  | 'non-finite';
+  | 'non-finite'
+  /** A positive constant ran off by more than six decades from every start: a boundary, not an optimum. */
+  | 'ran-off';
 
 /** Options of `solveLeastSquares`; `checkSolverOptions` fills the defaults. */
 export interface SolverOptions {
