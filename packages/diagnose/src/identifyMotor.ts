@@ -86,13 +86,16 @@ export function identifyMotor(recordings: MotorRecordingInput[], options: Identi
     // Coulomb friction before giving up.
     const alt = fitWith({ coulomb: true });
     candidates.push(summary(alt, ['coulomb'], 'coulomb', null, alt.converged, 'the lumped model did not converge; Coulomb friction tried in its place'));
-    if (alt.converged) { fit = alt; model = { coulomb: true }; }
+    // One that ran off to a boundary (b → 0 where a drive limit is the real cause) is no answer,
+    // but it is a place to start the search from; the chosen model must converge in the end.
+    if (alt.converged || (alt.stopReason === 'ran-off' && !fit.converged)) { fit = alt; model = { coulomb: true }; }
   }
+  const searchable = fit.converged || fit.stopReason === 'ran-off';
   progress('checking the fit', 0.25);
   let diagnosis = diagnoseFit(fit, recordings, { alpha });
   candidates.unshift(summary(fit, listOf(model), null, null, fit.converged, forced ? 'the model asked for' : 'the lumped linear model (the start)'));
 
-  if (forced === null && fit.converged) {
+  if (forced === null && searchable) {
     // A candidate turned down is not tried again; one that was supported but lost to a better
     // one is tried again against the grown model (it may have stood in for the winner).
     const rejected = new Set<Extension>();
@@ -138,7 +141,10 @@ export function identifyMotor(recordings: MotorRecordingInput[], options: Identi
         const added = (e === 'coulomb' && drop !== undefined ? [drop] : EFFECT_CONSTANTS[e].map((c) => cand.parameters[c])).filter((x) => x !== undefined);
         const identified = added.length > 0 && added.every((x) => x!.identified !== false && x!.standardError !== undefined && x!.standardError < 0.5 * Math.abs(x!.value));
         const bicDrop = comparison === null ? -Infinity : comparison.bic[0] - comparison.bic[1];
-        const accepted = cand.converged && comparison !== null && comparison.fPValue < alpha && bicDrop > 0 && identified;
+        // From a base that ran off to a boundary the candidate's own intervals are not yet
+        // trustworthy (the refit from the grown model settles them, and the backward check after
+        // the search drops an extension that is then not needed): F and BIC decide alone.
+        const accepted = cand.converged && comparison !== null && comparison.fPValue < alpha && bicDrop > 0 && (identified || !fit.converged);
         const reason = !cand.converged ? `the fit did not converge (${cand.stopReason})`
           : comparison === null ? 'the two fits do not have the same rows, so they cannot be compared'
           : accepted ? `F-test p ${comparison.fPValue.toPrecision(2)} < ${alpha}, BIC lower by ${bicDrop.toPrecision(3)}`
