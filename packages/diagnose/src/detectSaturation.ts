@@ -1,4 +1,4 @@
-import { estimateNoiseLevel } from '@motorprint/estimate';
+import { detectEncoderSpeed, estimateNoiseLevel } from '@motorprint/estimate';
 import { checkRecording, noiseOf, sig } from './internal.js';
 import type { Finding, RecordingLike } from './types.js';
 
@@ -39,8 +39,17 @@ export function detectSaturation(recording: RecordingLike, options: { commandedV
     if (!(sigma > 0)) continue;
     let max = -Infinity, min = Infinity;
     for (let k = 0; k < n; k++) { if (x[k]! > max) max = x[k]!; if (x[k]! < min) min = x[k]!; }
-    const longest = improbableRun(sigma, lvl.quantum ?? 0, n);
-    const pinned = { max: pinnedSamples(x, max, 1, sigma, longest), min: pinnedSamples(x, min, -1, sigma, longest) };
+    // An encoder speed repeats its codes by construction (a slow rotor reads 0 between counts):
+    // only a rail the speed arrives at while moving counts there, not a long run.
+    const encoder = name === 'speed' && detectEncoderSpeed(recording.time, x) !== null;
+    const longest = encoder ? Infinity : improbableRun(sigma, lvl.quantum ?? 0, n);
+    // On a quantised channel (an encoder speed, a quiet ADC) an exponential approach to a plateau
+    // lands on its last code still stepping by a code or so per sample: movement means more than
+    // two codes per sample.
+    const step = Math.max(2 * sigma, 2 * (lvl.quantum ?? 0));
+    // Exactly zero speed or current is a rotor at rest or an open circuit, not a rail.
+    const railAt = (v: number, side: 1 | -1): number => (v === 0 && (name === 'speed' || name === 'current') ? 0 : pinnedSamples(x, v, side, sigma, longest, step));
+    const pinned = { max: railAt(max, 1), min: railAt(min, -1) };
     const worst = Math.max(pinned.max, pinned.min);
     if (worst >= 5 && worst >= 0.002 * n) {
       out.push({
@@ -97,12 +106,12 @@ export function detectSaturation(recording: RecordingLike, options: { commandedV
 /**
  * Samples on runs (of at least 3) at a rail value `rail` that look railed: the signal reaches
  * the rail still moving towards it (a slope of more than 2 noise SDs per sample over the 5 samples
- * before the run that, carried on for half the run, would pass the rail by more than 4 noise
- * SDs), or the run is longer than noise
+ * before the run, and more than two codes per sample on a quantised channel, that carried on for
+ * half the run would pass the rail by more than 4 noise SDs), or the run is longer than noise
  * could hold one value (`longest`). Repeated identical values at the extremes of a quantised
  * signal (an ADC code dithered by noise, or a plateau quieter than one code) are not clipping.
  */
-function pinnedSamples(x: Float64Array, rail: number, side: 1 | -1, sigma: number, longest: number): number {
+function pinnedSamples(x: Float64Array, rail: number, side: 1 | -1, sigma: number, longest: number, minSlope: number): number {
   const n = x.length;
   let total = 0;
   for (let k = 0; k < n; ) {
@@ -117,7 +126,7 @@ function pinnedSamples(x: Float64Array, rail: number, side: 1 | -1, sigma: numbe
         // sample is movement, not noise.
         const slope = (x[k - 1]! - x[k - 6]!) / 5;
         const carried = x[k - 1]! + slope * (len / 2);
-        moving = side * (carried - rail) > 4 * sigma && side * slope > 2 * sigma;
+        moving = side * (carried - rail) > 4 * sigma && side * slope > minSlope;
       }
       // A long run counts only when the signal arrives at it (not one the record starts on: a
       // rotor at rest before a step reads exactly 0 on an encoder).

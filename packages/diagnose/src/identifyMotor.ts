@@ -119,7 +119,7 @@ export function identifyMotor(recordings: MotorRecordingInput[], options: Identi
           rejected.add(e);
           continue;
         }
-        if (!cand.converged && cand.stopReason === 'max-iterations' && cand.rows === fit.rows && cand.ssr < fit.ssr) {
+        if (!cand.converged && cand.stopReason === 'max-iterations' && cand.rows === fit.rows && cand.theta.length > fit.theta.length && cand.ssr < fit.ssr) {
           // Still moving after 40 steps, and already better: an effect that trades against another
           // constant (drag against b) walks a long valley. Let it finish when the gain so far is
           // already clear (F-test), else it stays turned down as not converged.
@@ -131,7 +131,7 @@ export function identifyMotor(recordings: MotorRecordingInput[], options: Identi
             } catch { /* keep the first attempt */ }
           }
         }
-        const comparable = cand.rows === fit.rows && Number.isFinite(cand.ssr) && Number.isFinite(fit.ssr);
+        const comparable = cand.rows === fit.rows && cand.theta.length > fit.theta.length && Number.isFinite(cand.ssr) && Number.isFinite(fit.ssr);
         const comparison = comparable
           ? compareNestedModels(`${listOf(model).join(' + ') || 'lumped'} vs + ${e}`, { name: listOf(model).join(' + ') || 'lumped', ssr: fit.ssr, parameters: fit.theta.length },
             { name: listOf(next).join(' + '), ssr: cand.ssr, parameters: cand.theta.length }, fit.rows, alpha)
@@ -145,7 +145,9 @@ export function identifyMotor(recordings: MotorRecordingInput[], options: Identi
         // trustworthy (the refit from the grown model settles them, and the backward check after
         // the search drops an extension that is then not needed): F and BIC decide alone.
         const accepted = cand.converged && comparison !== null && comparison.fPValue < alpha && bicDrop > 0 && (identified || !fit.converged);
-        const reason = !cand.converged ? `the fit did not converge (${cand.stopReason})`
+        const reason = !cand.converged && cand.stopReason === 'max-iterations' && comparison !== null && !(comparison.fPValue < alpha)
+          ? `not supported: after ${Math.min(base.solver?.maxIterations ?? 40, 40)} steps the fit with it is no better (F-test p ${comparison.fPValue.toPrecision(2)}); its constants drift instead of settling`
+          : !cand.converged ? `the fit did not converge (${cand.stopReason})`
           : comparison === null ? 'the two fits do not have the same rows, so they cannot be compared'
           : accepted ? `F-test p ${comparison.fPValue.toPrecision(2)} < ${alpha}, BIC lower by ${bicDrop.toPrecision(3)}`
           : !identified ? `the recordings do not pin down ${EFFECT_CONSTANTS[e].join(', ')} (relative standard error above 50 %)`
@@ -187,7 +189,7 @@ export function identifyMotor(recordings: MotorRecordingInput[], options: Identi
       try {
         reduced = fitWith(fewer, { initial: { ...(base.initial ?? {}) }, warmStart: fit, noise: noiseOf(fit), reweight: false, solver: { ...(base.solver ?? {}), maxIterations: 60 } });
       } catch { continue; }
-      if (!reduced.converged || reduced.rows !== fit.rows) continue;
+      if (!reduced.converged || reduced.rows !== fit.rows || reduced.theta.length >= fit.theta.length) continue;
       const comparison = compareNestedModels(`${listOf(fewer).join(' + ') || 'lumped'} vs + ${e}`, { name: listOf(fewer).join(' + ') || 'lumped', ssr: reduced.ssr, parameters: reduced.theta.length },
         { name: listOf(model).join(' + '), ssr: fit.ssr, parameters: fit.theta.length }, fit.rows, alpha);
       const bicDrop = comparison.bic[0] - comparison.bic[1];
@@ -266,18 +268,21 @@ function applicable(recordings: MotorRecordingInput[], fit: MotorFit, d: FitDiag
  * so the bound is the upper end of that interval).
  */
 function unsupportedConstants(candidates: ModelCandidate[], model: ModelExtensions): UnsupportedConstant[] {
-  const out: UnsupportedConstant[] = [];
+  const out: (UnsupportedConstant & { fromUnconverged: boolean })[] = [];
   for (const c of candidates) {
     const added = c.added as Extension | null;
     // Only magnitudes that vanish without the effect (friction torques, drag) are "zero"; a limit
     // or a thermal path that is not seen is recorded with the candidates instead.
     if (added === null || c.accepted || model[added] || !['coulomb', 'stiction', 'drag'].includes(added)) continue;
-    if (out.some((u) => u.extension === added)) continue;
+    const seen = out.findIndex((u) => u.extension === added);
+    // A candidate whose fit did not converge sets no bound; a later one that converged does.
+    if (seen >= 0 && !(c.converged && out[seen]!.fromUnconverged)) continue;
     const bounds: UnsupportedConstant['bounds'] = {};
-    for (const [name, e] of Object.entries(c.effects)) bounds[name] = { upper95: e.interval95 !== null ? e.interval95[1] : null, unit: e.unit };
-    out.push({ extension: added, constants: EFFECT_CONSTANTS[added], bounds, reason: c.reason });
+    for (const [name, e] of Object.entries(c.effects)) bounds[name] = { upper95: c.converged && e.interval95 !== null ? e.interval95[1] : null, unit: e.unit };
+    const entry = { extension: added, constants: EFFECT_CONSTANTS[added], bounds, reason: c.reason, fromUnconverged: !c.converged };
+    if (seen >= 0) out[seen] = entry; else out.push(entry);
   }
-  return out;
+  return out.map(({ fromUnconverged: _, ...u }) => u);
 }
 
 /** The findings each extension speaks to (the detectors' codes). */

@@ -41,6 +41,7 @@ export { checkFitMotorOptions } from './motor/checkFitMotorOptions.js';
 export { classifyRecording } from './motor/classifyRecording.js';
 export { detectVoltageSegments } from './motor/detectVoltageSegments.js';
 export { estimateNoiseLevel } from './motor/estimateNoiseLevel.js';
+export { detectEncoderSpeed } from './motor/detectEncoderSpeed.js';
 export { fitInverseDynamics } from './motor/fitInverseDynamics.js';
 export { rebuildCommand } from './motor/rebuildCommand.js';
 export type { RebuiltCommand, SineBasis } from './motor/rebuildCommand.js';

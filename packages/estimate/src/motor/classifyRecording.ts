@@ -1,3 +1,4 @@
+import { detectEncoderSpeed } from './detectEncoderSpeed.js';
 import { detectVoltageSegments } from './detectVoltageSegments.js';
 import { estimateNoiseLevel } from './estimateNoiseLevel.js';
 import type { MotorExperimentKind, RecordingData } from './types.js';
@@ -27,7 +28,10 @@ export function classifyRecording(recording: RecordingData): { kind: MotorExperi
   const n = voltage.length;
   const tail = Math.max(4, Math.floor(n / 10));
   if (!(speed instanceof Float64Array)) return { kind: 'locked-rotor', reason: 'no speed channel: rotor taken as held' };
-  const sw = estimateNoiseLevel(speed).sigma;
+  // An encoder speed's noise is its count quantum over the interval (q/(Δt·√12)); a rotor that
+  // turns shows counts, however coarse.
+  const quantum = detectEncoderSpeed(recording.time, speed);
+  const sw = quantum !== null ? quantum / (medianInterval(recording.time) * Math.sqrt(12)) : estimateNoiseLevel(speed).sigma;
   let wmax = 0;
   for (let k = 0; k < n; k++) wmax = Math.max(wmax, Math.abs(speed[k]!));
   if (wmax < 6 * sw) return { kind: 'locked-rotor', reason: `speed stays within its noise (max |ω| ${wmax.toPrecision(3)} rad/s ≤ 6σ)` };
@@ -93,4 +97,10 @@ function opensCircuit(voltage: Float64Array, speed: Float64Array, sv: number, wm
   let tail = 0;
   for (let k = n - 4; k < n; k++) tail += Math.abs(speed[k]!);
   return mean > 0 && sd < 0.05 * mean && tail / 4 < 0.5 * Math.abs(speed[k1]!);
+}
+
+/** Median sample interval [s]. */
+function medianInterval(t: Float64Array): number {
+  const d = Float64Array.from({ length: Math.max(t.length - 1, 1) }, (_, k) => (t.length > 1 ? t[k + 1]! - t[k]! : 1)).sort();
+  return d[d.length >> 1]!;
 }

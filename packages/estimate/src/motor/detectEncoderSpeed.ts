@@ -47,7 +47,9 @@ export function detectEncoderSpeed(time: Float64Array, speed: Float64Array): num
       used++;
       if (counts.size < 8) counts.add(r);
     }
-    if (bad <= 0.01 * used && counts.size >= 8) return q;
+    // Eight different counts, or — at the smallest step itself — three over a long record (a
+    // coarse encoder at a high logging rate reads 0…4 counts per interval).
+    if (bad <= 0.01 * used && (counts.size >= 8 || (div === 1 && counts.size >= 3 && n >= 200))) return q;
   }
   return null;
 }
