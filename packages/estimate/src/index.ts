@@ -52,3 +52,10 @@ export type {
 } from './motor/types.js';
 export type { InverseDynamicsInput, InverseDynamicsFit } from './motor/fitInverseDynamics.js';
 export type { ModelExtensions } from './detailed/types.js';
+
+// Experiment planning (predicted standard errors, suggestions, locked-rotor budget).
+export { planExperiments } from './plan/planExperiments.js';
+export { simulatePlannedRun } from './plan/simulatePlannedRun.js';
+export type {
+  ExperimentPlan, LockedRotorBudget, PlannedConstant, PlannedNoise, PlannedRecording, PlannedRun, PlanOptions, PlanSuggestion, ResolvedRun,
+} from './plan/types.js';
