@@ -56,6 +56,8 @@ export type { ModelExtensions } from './detailed/types.js';
 // Experiment planning (predicted standard errors, suggestions, locked-rotor budget).
 export { planExperiments } from './plan/planExperiments.js';
 export { simulatePlannedRun } from './plan/simulatePlannedRun.js';
+export { checkLockedRotorHold } from './plan/checkLockedRotorHold.js';
 export type {
   ExperimentPlan, LockedRotorBudget, PlannedConstant, PlannedNoise, PlannedRecording, PlannedRun, PlanOptions, PlanSuggestion, ResolvedRun,
+  LockedRotorHoldCheckOptions, LockedRotorHoldCheck, HoldFinding,
 } from './plan/types.js';

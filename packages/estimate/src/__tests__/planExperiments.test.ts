@@ -71,3 +71,19 @@ describe('planExperiments', () => {
     expect(() => planExperiments(TERN24, [{ ...lr, bitTime: 1e-3 }], { noise: DEMO_NOISE })).toThrow(/bitTime applies to prbs/);
   });
 });
+
+describe('checkLockedRotorHold', () => {
+  it('finds a hold longer than the budget, and none for a short one', async () => {
+    const { checkLockedRotorHold } = await import('../index.js');
+    // Derived here: 6 V on 1.9 Ω holds 3.16 A; adiabatic, Cth 1 J/K gives ≈ 1.0 s for 20 K. A 3 s hold is over.
+    const long = simulatePlannedRun(TERN24, { kind: 'locked-rotor', levels: [0, 6], sampleRate: 2000, duration: 3 / 0.9 }, 3, { noise: DEMO_NOISE });
+    const r = checkLockedRotorHold(long.recording, { R: 1.9, name: 'lr' });
+    expectClose(r.holdSeconds, 3, { rel: 1e-3 }, 'hold');
+    expectClose(r.current, 6 / 1.9, { rel: 0.01 }, 'stall current');
+    expect(r.finding?.code).toBe('locked-rotor-hold-over-budget');
+    expect(r.finding?.advice).toMatch(/local codes/);
+    expect(r.finding?.advice).not.toMatch(/--/);
+    const short = simulatePlannedRun(TERN24, { kind: 'locked-rotor', levels: [0, 6], sampleRate: 50000 }, 3, { noise: DEMO_NOISE });
+    expect(checkLockedRotorHold(short.recording, { R: 1.9 }).finding).toBeUndefined();
+  });
+});

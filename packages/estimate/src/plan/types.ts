@@ -174,3 +174,42 @@ export interface PlannedRecording {
   /** The commanded (noise-free) voltage [V] per sample. */
   command: Float64Array;
 }
+
+/** Options of {@link checkLockedRotorHold}. */
+export interface LockedRotorHoldCheckOptions {
+  /** Winding resistance [Ω] (a fit's R) at `resistanceTemperature`. */
+  R: number;
+  /** Recording name for the finding. @default 'the locked-rotor recording' */
+  name?: string;
+  /** Thermal resistance winding → ambient [K/W]; absent: no cooling (conservative default). */
+  Rth?: number;
+  /** Thermal capacitance [J/K]; absent: the conservative default of `lockedRotorHoldTime`. */
+  Cth?: number;
+  /** Temperature at which R is given [°C]. @default 20 */
+  resistanceTemperature?: number;
+  /** Allowed winding rise [K]. @default 20 */
+  riseK?: number;
+}
+
+/** A finding in the shape the diagnosis and the parameter set use. */
+export interface HoldFinding {
+  code: 'locked-rotor-hold-over-budget';
+  severity: 'warning';
+  title: string;
+  evidence: Record<string, number | string>;
+  advice: string;
+}
+
+/** Result of {@link checkLockedRotorHold}. */
+export interface LockedRotorHoldCheck {
+  /** How long the winding was driven [s]. */
+  holdSeconds: number;
+  /** Current through the stalled winding used for the budget [A]. */
+  current: number;
+  /** Longest hold for the allowed rise [s]. */
+  budgetSeconds: number;
+  /** Where the thermal data came from, in words. */
+  note: string;
+  /** Present when the hold was longer than the budget. */
+  finding?: HoldFinding;
+}
