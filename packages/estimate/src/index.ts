@@ -50,3 +50,12 @@ export type {
   MotorRecordingInput, NoiseLevel, ParameterEstimate, RecordingData, RecordingReport, StartAttempt, UninformedConstant, VoltageSegment,
 } from './motor/types.js';
 export type { ModelExtensions } from './detailed/types.js';
+
+// Experiment planning (predicted standard errors, suggestions, locked-rotor budget).
+export { planExperiments } from './plan/planExperiments.js';
+export { simulatePlannedRun } from './plan/simulatePlannedRun.js';
+export { checkLockedRotorHold } from './plan/checkLockedRotorHold.js';
+export type {
+  ExperimentPlan, LockedRotorBudget, PlannedConstant, PlannedNoise, PlannedRecording, PlannedRun, PlanOptions, PlanSuggestion, ResolvedRun,
+  LockedRotorHoldCheckOptions, LockedRotorHoldCheck, HoldFinding,
+} from './plan/types.js';

@@ -11,6 +11,7 @@ export type {
   SensitivityName, SensitivityState, SensitivityChunk, PoleKind, StepPoint, MotorFigures,
   DetailedOptions, EnergyTotals, DetailedTrace, ExperimentKind, ChannelNoise, RecordingOptions,
   RecordingColumn, CommandedInput, RecordingTruth, GeneratedRecording, HybridPlan, HybridTrace,
+  LockedRotorHoldOptions, LockedRotorHold, LinearModelForms, TransferFunction,
 } from './types.js';
 export { checkMotorParams } from './checkMotorParams.js';
 export { zohInto } from './zohInto.js';
@@ -25,6 +26,8 @@ export { motorFigures } from './motorFigures.js';
 export { lockedRotorResponse } from './lockedRotorResponse.js';
 export { coastDownResponse } from './coastDownResponse.js';
 export { copperResistance } from './copperResistance.js';
+export { lockedRotorHoldTime, DEFAULT_WINDING_CAPACITANCE } from './lockedRotorHoldTime.js';
+export { linearModelForms } from './linearModelForms.js';
 export { simulateDetailed } from './simulateDetailed.js';
 export { simulateHybrid } from './simulateHybrid.js';
 export { simulateHybridInto } from './simulateHybridInto.js';

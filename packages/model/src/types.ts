@@ -404,3 +404,64 @@ export interface HybridTrace {
   /** Number of located events (stick, breakaway, reversal, limit entries and exits). */
   events: number;
 }
+
+/** Options of {@link lockedRotorHoldTime}. */
+export interface LockedRotorHoldOptions {
+  /** Winding resistance [Ω] at `resistanceTemperature`. */
+  R: number;
+  /** Current held through the stalled winding [A] (its magnitude is used). */
+  current: number;
+  /** Allowed rise of the winding temperature ΔT [K], > 0. @default 20 */
+  riseK?: number;
+  /** Thermal resistance winding → ambient [K/W]; absent: no cooling at all (adiabatic). */
+  Rth?: number;
+  /** Thermal capacitance of the winding [J/K]; absent: the conservative default (see below). */
+  Cth?: number;
+  /** Temperature at which R is given [°C]. @default 20 */
+  resistanceTemperature?: number;
+  /** Winding temperature at the start of the hold [°C]. @default resistanceTemperature */
+  startTemperature?: number;
+  /** Copper law constant k [°C]. @default 234.5 */
+  copperConstant?: CopperConstant;
+}
+
+/** Result of {@link lockedRotorHoldTime}. */
+export interface LockedRotorHold {
+  /** Longest hold [s] before the winding has risen by `riseK` (Infinity when it never does). */
+  holdSeconds: number;
+  /** The allowed rise ΔT [K]. */
+  riseK: number;
+  /** Copper loss at the start of the hold, I²·R(T_start) [W]. */
+  powerAtStart: number;
+  /** Thermal resistance used [K/W] (Infinity: no cooling). */
+  Rth: number;
+  /** Thermal capacitance used [J/K]. */
+  Cth: number;
+  /** `given`: both Rth and Cth came from the caller; `default`: the conservative default filled a gap. */
+  thermalData: 'given' | 'default';
+  /** Plain words on the thermal data, for reports. */
+  note: string;
+}
+
+/** A rational transfer function in s: numerator and denominator coefficients, highest power first. */
+export interface TransferFunction {
+  /** Numerator coefficients, highest power of s first. */
+  numerator: number[];
+  /** Denominator coefficients, highest power of s first (monic: the first is 1). */
+  denominator: number[];
+}
+
+/** The lumped model's linear forms (see {@link linearModelForms}). */
+export interface LinearModelForms {
+  /** State, input and output names with their SI units. */
+  signals: { state: string[]; inputs: string[]; outputs: string[] };
+  /** Continuous state space ẋ = A·x + B·u, y = C·x + D·u; matrices as arrays of rows. */
+  stateSpace: { A: number[][]; B: number[][]; C: number[][]; D: number[][] };
+  /** Transfer functions from the terminal voltage (load torque 0). */
+  transfer: { voltageToCurrent: TransferFunction; voltageToSpeed: TransferFunction };
+  /**
+   * Exact zero-order-hold model at the sample time `dt`: x[k+1] = Φ·x[k] + Γ·u[k], y = C·x + D·u,
+   * inputs held over each interval. Present when `dt` was given.
+   */
+  discrete?: { dt: number; Phi: number[][]; Gamma: number[][]; C: number[][]; D: number[][] };
+}

@@ -104,8 +104,9 @@ export function guessConstants(recs: PreparedRecording[], fixed: Partial<Constan
         const s0 = segs[0]!;
         const wEnd = mean(rec.speed, s0.start + Math.floor(0.6 * (s0.end - s0.start)), s0.end);
         const tm = riseTime(rec.time, rec.speed, s0.start, 0, wEnd, 0.632);
-        const R = g.R!.value, b = g.b?.value ?? 0;
-        set('J', (tm * (R * b + K * K)) / R, `steady-state "${rec.name}": J = τm′·(R·b + Kt·Ke)/R`);
+        // R may have no guess (a regression that gave R ≤ 0 on a narrow or noisy staircase): J then keeps its default start.
+        const R = g.R?.value, b = g.b?.value ?? 0;
+        if (R !== undefined) set('J', (tm * (R * b + K * K)) / R, `steady-state "${rec.name}": J = τm′·(R·b + Kt·Ke)/R`);
       }
     } else if ((rec.kind === 'step' || rec.kind === 'loaded') && rec.speed !== null) {
       const kStep = segs !== null && segs.length > 1 ? segs[segs.length - 1]!.start : 0;
