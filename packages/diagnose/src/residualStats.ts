@@ -7,15 +7,14 @@ import type { ResidualStats } from './types.js';
 const Z975 = 1.959963984540054;
 
 /**
- * Residual statistics of one channel: RMS, NRMSE, fit percentage, autocorrelation with its
- * whiteness band, the Ljung–Box test and the runs test.
+ * Residual statistics of one channel: RMS, NRMSE, autocorrelation with its whiteness band, the
+ * Ljung–Box test and the runs test.
  *
  * ## Definitions
  * With e = ŷ − y over the samples where both are finite:
  * - RMS = √(Σe²/n) [channel unit];
  * - **NRMSE = RMS / SD(y)** (SD about the mean of the measurement, divisor n): 0 is a perfect fit,
  *   1 is no better than the mean. This is the figure the command line prints;
- * - fit % = 100·(1 − ‖y − ŷ‖/‖y − ȳ‖) = 100·(1 − NRMSE), shown beside it for readers used to it;
  * - r_k, k = 0…m, the residual autocorrelation; under whiteness |r_k| ≤ 1.96/√n for about 95 %
  *   of the lags;
  * - Ljung–Box Q at lag m and its χ²(m) p-value; the runs test on the signs of e about zero.
@@ -85,7 +84,6 @@ export function residualStats(measured: Float64Array, predicted: Float64Array, m
     mean: se / n,
     rms,
     nrmse,
-    fitPercent: 100 * (1 - nrmse),
     autocorrelation: acf,
     whitenessBand: band,
     lagsOutsideBand: outside,

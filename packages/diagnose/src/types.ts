@@ -117,8 +117,6 @@ export interface ResidualStats {
   rms: number;
   /** RMS residual / standard deviation of the measurement (0 perfect, 1 = no better than the mean). */
   nrmse: number;
-  /** Fit percentage 100·(1 − ‖y − ŷ‖/‖y − ȳ‖). */
-  fitPercent: number;
   /** Autocorrelation r_0…r_m of the residuals (r_0 = 1). */
   autocorrelation: Float64Array;
   /** Half-width z_{0.975}/√n of the approximate 95 % band for r_k under whiteness. */
@@ -231,7 +229,7 @@ export interface ChannelResidualDiagnosis {
   kind: string;
   /** Channel. */
   channel: 'current' | 'speed' | 'angle' | 'voltage';
-  /** RMS, NRMSE, fit %, autocorrelation with its band, Ljung–Box, runs test. */
+  /** RMS, NRMSE, autocorrelation with its band, Ljung–Box, runs test. */
   stats: ResidualStats;
 }
 
