@@ -1,3 +1,4 @@
+import { RENAMED_FIGURE_KEYS } from '@motorprint/report';
 import { checkableKeys } from './checkableKeys.js';
 import { LotError } from './LotError.js';
 import { parseJsonWithPositions } from './parseJsonWithPositions.js';
@@ -68,6 +69,8 @@ export function parseLotSpec(text: string, file: string): LotSpec {
     const path = `limits.${/^[A-Za-z_$][A-Za-z0-9_$]*$/.test(key) ? key : JSON.stringify(key)}`;
     const def = known.find((k) => k.key === key);
     if (def === undefined) {
+      const renamed = Object.hasOwn(RENAMED_FIGURE_KEYS, key) ? RENAMED_FIGURE_KEYS[key] : undefined;
+      if (renamed !== undefined) return bad(path, `"${key}" is now called "${renamed}"; rename the key in the spec`);
       const near = known.filter((k) => k.key.toLowerCase() === key.toLowerCase()).map((k) => k.key);
       return bad(path, `unknown key "${key}"${near.length > 0 ? ` (did you mean "${near[0]}"?)` : ''}. Constants: ${known.filter((k) => k.source === 'constant').map((k) => k.key).join(', ')}; ` +
         `derived figures: ${known.filter((k) => k.source === 'derived').map((k) => k.key).join(', ')}`);

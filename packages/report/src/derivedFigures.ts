@@ -15,7 +15,7 @@ function toValues(v: Float64Array): ConstantValues {
 
 /**
  * The derived datasheet figures of a motor (time constants, no-load and stall values, constants in
- * common units, motor constant, speed–torque gradient, maximum output power, peak efficiency and
+ * common units, motor constant, speed drop per load torque, maximum output power, peak efficiency and
  * where it occurs), each with a 95 % interval when a covariance is given.
  *
  * ## Method

@@ -46,6 +46,15 @@ function efficiencyAt(c: ConstantValues, V: number, w: number): number {
 
 const M = ['R', 'Kt', 'Ke', 'b', 'Tc'] as ConstantName[];
 
+/**
+ * Figure keys renamed since they were first written, old → new. Readers of older parameter sets
+ * and specs map them (the parameter-set reader silently, the lot spec with a hint).
+ */
+export const RENAMED_FIGURE_KEYS: Readonly<Record<string, string>> = {
+  speedTorqueGradient: 'speedDropPerLoadTorque',
+  speedTorqueGradientRpm: 'speedDropPerLoadTorqueRpm',
+};
+
 /** The figures in report order. */
 export const FIGURES: readonly FigureDefinition[] = [
   { key: 'electricalTimeConstant', label: 'electrical time constant τe', unit: 's', formula: 'L/R', uses: ['L', 'R'], needsVoltage: false,
@@ -76,9 +85,9 @@ export const FIGURES: readonly FigureDefinition[] = [
     evaluate: (c) => RPM_PER_RAD_S / c.Ke },
   { key: 'motorConstant', label: 'motor constant Km', unit: 'N·m/√W', formula: 'Kt/√R', uses: ['Kt', 'R'], needsVoltage: false,
     evaluate: (c) => c.Kt / Math.sqrt(c.R) },
-  { key: 'speedTorqueGradient', label: 'speed–torque gradient (speed drop per load torque)', unit: 'rad/s/(N·m)', formula: 'R/(R·b + Kt·Ke)',
+  { key: 'speedDropPerLoadTorque', label: 'speed drop per load torque', unit: 'rad/s/(N·m)', formula: 'R/(R·b + Kt·Ke)',
     uses: ['R', 'Kt', 'Ke', 'b'], needsVoltage: false, evaluate: (c) => c.R / (c.R * c.b + c.Kt * c.Ke) },
-  { key: 'speedTorqueGradientRpm', label: 'speed–torque gradient (speed drop per load torque)', unit: 'r/min/(mN·m)',
+  { key: 'speedDropPerLoadTorqueRpm', label: 'speed drop per load torque', unit: 'r/min/(mN·m)',
     formula: 'R/(R·b + Kt·Ke) · 60/(2π) / 1000', uses: ['R', 'Kt', 'Ke', 'b'], needsVoltage: false,
     evaluate: (c) => ((c.R / (c.R * c.b + c.Kt * c.Ke)) * RPM_PER_RAD_S) / 1000 },
   { key: 'maxOutputPower', label: 'maximum output power', unit: 'W', formula: 'a²/(4·c), a = Kt·V/R − Tc, c = Kt·Ke/R + b', uses: M, needsVoltage: true,

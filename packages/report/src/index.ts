@@ -18,6 +18,7 @@ export { checkProvenance } from './checkProvenance.js';
 export { constantCovariance } from './constantCovariance.js';
 export type { CovarianceSource } from './constantCovariance.js';
 export { derivedFigures } from './derivedFigures.js';
+export { RENAMED_FIGURE_KEYS } from './figureDefinitions.js';
 export { normaliseResistance } from './normaliseResistance.js';
 export { readParameterSet } from './readParameterSet.js';
 export { ParameterSetError } from './ParameterSetError.js';

@@ -1,3 +1,4 @@
+import { FIGURES, RENAMED_FIGURE_KEYS } from './figureDefinitions.js';
 import { ParameterSetError } from './ParameterSetError.js';
 import type { DerivedFigure, ParameterEntry, ParameterSet } from './types.js';
 
@@ -143,7 +144,14 @@ export function readParameterSet(text: string): ParameterSet {
   if (!(intervals.level > 0 && intervals.level < 1)) fail('intervals.level', 'a number between 0 and 1', intervals.level);
   const dobj = obj(r.derived, 'derived');
   const derived: Record<string, DerivedFigure> = {};
-  for (const k of Object.keys(dobj)) derived[k] = readFigure(dobj[k], `derived.${k}`);
+  for (const k of Object.keys(dobj)) {
+    const figure = readFigure(dobj[k], `derived.${k}`);
+    // A figure key renamed since the file was written is read under its current key and label.
+    const renamed = Object.hasOwn(RENAMED_FIGURE_KEYS, k) ? RENAMED_FIGURE_KEYS[k]! : undefined;
+    if (renamed === undefined) { derived[k] = figure; continue; }
+    if (Object.hasOwn(dobj, renamed)) continue;
+    derived[renamed] = { ...figure, label: FIGURES.find((f) => f.key === renamed)?.label ?? figure.label };
+  }
   const fo = obj(r.fit, 'fit');
   if (!Array.isArray(fo.recordings)) fail('fit.recordings', 'an array', fo.recordings);
   const fit: ParameterSet['fit'] = {

@@ -132,7 +132,7 @@ function curvesSection(set: ParameterSet): string {
     figure({
       title: `speed vs load torque at ${formatNumber(V)} V`, xLabel: 'load torque [mN·m]', yLabel: 'speed [r/min]', width: 460, height: 240,
       series: [{ name: 'speed', x: mNm, y: rpm, style: 'solid' }], includeZero: true,
-    }, `Steady state with friction (b${p.Tc ? ' and Tc' : ''}) from no load to stall; slope = speed–torque gradient ${formatNumber(set.derived.speedTorqueGradientRpm?.value ?? null)} r/min per mN·m.`) +
+    }, `Steady state with friction (b${p.Tc ? ' and Tc' : ''}) from no load to stall; the speed drops by ${formatNumber(set.derived.speedDropPerLoadTorqueRpm?.value ?? null)} r/min per mN·m of load.`) +
     figure({
       title: `efficiency and output power at ${formatNumber(V)} V`, xLabel: 'load torque [mN·m]', yLabel: 'efficiency [%] · output power [W]', width: 460, height: 240,
       series: [{ name: 'efficiency [%]', x: mNm, y: eff, style: 'accent' }, { name: 'output power [W]', x: mNm, y: c.outputPower, style: 'dashed' }],

@@ -76,6 +76,13 @@ describe('parseLotSpec', () => {
     expect(e.message).toContain('noLoadSpeedRpm');
   });
 
+  it('refuses a key renamed since, giving its new name', () => {
+    const e = specError('{"name":"x","limits":{"speedTorqueGradientRpm":{"max":3}}}');
+    expect(e.path).toBe('limits.speedTorqueGradientRpm');
+    expect(e.message).toContain('"speedTorqueGradientRpm" is now called "speedDropPerLoadTorqueRpm"');
+    expect(parseLotSpec('{"name":"x","limits":{"speedDropPerLoadTorqueRpm":{"max":3}}}', 'spec.json').limits[0]!.key).toBe('speedDropPerLoadTorqueRpm');
+  });
+
   it.each([
     ['{"name":"x","limits":{"R":{"min":2,"max":1}}}', 'limits.R', '"min" must be below "max"'],
     ['{"name":"x","limits":{"R":{"min":1,"max":1}}}', 'limits.R', '"min" must be below "max"'],

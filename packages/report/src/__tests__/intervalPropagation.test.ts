@@ -69,7 +69,7 @@ describe('derivedFigures intervals', () => {
   // Tolerance: the Monte-Carlo 2.5/97.5 % points of 40 000 draws have a sampling SD of about
   // 1.9 % of the half-width (√(0.025·0.975/n)/φ(1.96)·σ, common practice); we allow 8 %.
   // Measured here (seed 7): 0.7–3.0 % of the half-width.
-  const keys = ['mechanicalTimeConstantViscous', 'noLoadSpeed', 'maxOutputPower', 'peakEfficiency', 'peakEfficiencySpeed', 'speedTorqueGradient'];
+  const keys = ['mechanicalTimeConstantViscous', 'noLoadSpeed', 'maxOutputPower', 'peakEfficiency', 'peakEfficiencySpeed', 'speedDropPerLoadTorque'];
   it('match a seeded Monte-Carlo spread from the covariance (delta method vs sampling, 8 % of the half-width)', () => {
     const V = 12;
     const figs = derivedFigures(cov, V);

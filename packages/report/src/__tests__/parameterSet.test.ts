@@ -147,6 +147,23 @@ describe('formatParameterSetJson / readParameterSet', () => {
     }
   });
 
+  it('reads a file written before the speed-drop figure was renamed under the new key and label', () => {
+    const doc = JSON.parse(formatParameterSetJson(set)) as Record<string, any>;
+    const current = doc.derived.speedDropPerLoadTorqueRpm;
+    expect(current.label).toBe('speed drop per load torque');
+    // An older writer's keys and label for the same figures.
+    const old: Record<string, unknown> = {};
+    for (const [k, v] of Object.entries(doc.derived as Record<string, any>)) {
+      const oldKey = k.replace(/^speedDropPerLoadTorque/, 'speedTorqueGradient');
+      old[oldKey] = oldKey === k ? v : { ...v, label: 'speed–torque gradient (speed drop per load torque)' };
+    }
+    doc.derived = old;
+    const back = readParameterSet(JSON.stringify(doc));
+    expect(Object.keys(back.derived)).not.toContain('speedTorqueGradientRpm');
+    expect(back.derived.speedDropPerLoadTorqueRpm).toEqual(current);
+    expect(back.derived.speedDropPerLoadTorque!.value).toBe(doc.derived.speedTorqueGradient.value);
+  });
+
   it('throws typed errors for text that is not JSON or another schema version', () => {
     expect(() => readParameterSet('{"schema": "motorprint.parameter-set/1",')).toThrow(/readParameterSet: not valid JSON/);
     try { readParameterSet('{"schema": "motorprint.parameter-set/2"}'); } catch (e) {
