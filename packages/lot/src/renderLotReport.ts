@@ -1,4 +1,4 @@
-import { escapeXml as h, formatNumber } from '@motorprint/report';
+import { escapeXml as h, formatInterval, formatNumber } from '@motorprint/report';
 import { OUTLIER_THRESHOLD } from './keyStatistics.js';
 import { LOT_REPORT_CSS } from './lotReportStyles.js';
 import { svgLotDistribution } from './svgLotDistribution.js';
@@ -28,9 +28,9 @@ export interface LotReportInput {
 
 function limitText(l: SpecLimit): string {
   if (l.nominal !== null && l.tolerancePercent !== null) {
-    return `${formatNumber(l.nominal, 6)} ± ${formatNumber(l.tolerancePercent, 4)} % (${formatNumber(l.lower, 6)} … ${formatNumber(l.upper, 6)})`;
+    return `${formatNumber(l.nominal, 6)} ± ${formatNumber(l.tolerancePercent, 4)} % (${formatInterval([l.lower!, l.upper!], { digits: 6 })})`;
   }
-  if (l.lower !== null && l.upper !== null) return `${formatNumber(l.lower, 6)} … ${formatNumber(l.upper, 6)}`;
+  if (l.lower !== null && l.upper !== null) return formatInterval([l.lower, l.upper], { digits: 6 });
   return l.lower !== null ? `≥ ${formatNumber(l.lower, 6)}` : `≤ ${formatNumber(l.upper, 6)}`;
 }
 
@@ -73,7 +73,7 @@ export function renderLotReport(input: LotReportInput): string {
     const cells = spec.limits.map((l) => {
       const k = m.keys.find((x) => x.key === l.key);
       if (k === undefined) return '<td class="num">–</td>';
-      const ci = k.ci95 === null ? 'no interval' : `${formatNumber(k.ci95[0], 6)} … ${formatNumber(k.ci95[1], 6)}`;
+      const ci = formatInterval(k.ci95, { digits: 6, missing: 'no interval' });
       return `<td class="num k-${k.verdict}" title="${h(k.reason)}">${formatNumber(k.value, 6)}${k.verdict === 'pass' ? '' : ` ${k.verdict}`}<span class="ci">${h(ci)}</span></td>`;
     }).join('');
     return `<tr><td class="serial">${h(m.serial)}</td><td><span class="verdict ${m.verdict}">${m.verdict}</span></td>${cells}<td class="note">${m.verdict === 'pass' ? '' : h(m.reason)}</td></tr>`;

@@ -145,7 +145,7 @@ export function buildParameterSet(fit: MotorFit, options: BuildParameterSetOptio
       options.windingTemperature !== undefined ? 'option' : 'temperature channel');
   } else {
     const base = normaliseResistance(1, null, null, referenceTemperature, copperConstant);
-    resistanceAtReference = { ...base, windingTemperature: windingT, note: 'R is not informed: nothing to normalise' };
+    resistanceAtReference = { ...base, windingTemperature: windingT, note: 'not computed: R itself is not informed by these recordings' };
   }
 
   // Rated voltage.

@@ -10,7 +10,9 @@ function n(x: number | null): string {
 /**
  * The parameter set as CSV (RFC 4180 quoting, `\n` line ends): one row per constant, the
  * resistance at the reference temperature, and one row per derived figure. Columns: name, value,
- * unit, low, high, identifiable, note. Numbers at full precision; empty cells for missing ones.
+ * unit, low, high, identifiable, note. Numbers at full precision; empty cells for missing ones (the
+ * identifiable cell of R at the reference temperature is empty when it was not computed; the note
+ * says why).
  *
  * @param set - the parameter set
  * @returns CSV text with a header row
@@ -29,7 +31,7 @@ export function formatParameterSetCsv(set: ParameterSet): string {
   }
   const r = set.resistanceAtReference;
   rows.push([`R_ref(${r.referenceTemperature} °C)`, n(r.value), r.unit, n(r.ci95?.[0] ?? null), n(r.ci95?.[1] ?? null),
-    String(r.value !== null && set.parameters.R.identifiable), r.note]);
+    r.value === null ? '' : String(set.parameters.R.identifiable), r.note]);
   for (const [name, f] of Object.entries(set.derived)) {
     const note = [f.label, f.formula, f.note].filter((s) => s !== '').join('; ');
     rows.push([name, n(f.value), f.unit, n(f.ci95?.[0] ?? null), n(f.ci95?.[1] ?? null), String(f.identifiable), note]);

@@ -1,11 +1,14 @@
+import { formatInterval, intervalDigits } from './formatInterval.js';
 import { formatNumber } from './formatNumber.js';
 import type { ParameterSet } from './types.js';
 
 function esc(s: string): string {
   return s.replace(/\|/g, '\\|').replace(/\r?\n/g, ' ');
 }
-function interval(ci: [number, number] | null): string {
-  return ci === null ? '–' : `${formatNumber(ci[0])} … ${formatNumber(ci[1])}`;
+/** The value and its interval, written with the same number of significant digits (ends that differ). */
+function valueAndInterval(value: number | null, ci: [number, number] | null): [string, string] {
+  const d = intervalDigits(ci);
+  return [formatNumber(value, d), formatInterval(ci, { digits: d })];
 }
 
 /**
@@ -34,16 +37,21 @@ export function formatParameterSetMarkdown(set: ParameterSet): string {
   out.push('## Constants', '', '| constant | value | unit | 95 % interval | identifiable | note |', '|---|---:|---|---|---|---|');
   for (const [name, e] of Object.entries(set.parameters)) {
     if (e === undefined) continue;
-    out.push(`| ${name} | ${formatNumber(e.value)} | ${e.unit} | ${interval(e.ci95)} | ${e.identifiable ? 'yes' : 'no'} | ${esc(e.note)} |`);
+    const [v, ci] = valueAndInterval(e.value, e.ci95);
+    out.push(`| ${name} | ${v} | ${e.unit} | ${ci} | ${e.identifiable ? 'yes' : 'no'} | ${esc(e.note)} |`);
   }
   const r = set.resistanceAtReference;
-  out.push('', `R at ${formatNumber(r.referenceTemperature)} °C: ${r.value === null ? '–' : `${formatNumber(r.value)} Ω (95 %: ${interval(r.ci95)})`}. ${esc(r.note)}.`, '');
+  const [rv, rci] = valueAndInterval(r.value, r.ci95);
+  out.push('', r.value === null
+    ? `R at ${formatNumber(r.referenceTemperature)} °C: ${esc(r.note)}.`
+    : `R at ${formatNumber(r.referenceTemperature)} °C: ${rv} Ω (95 %: ${rci}). ${esc(r.note)}.`, '');
   out.push('## Derived figures', '');
   out.push(`At ${set.ratedVoltage.value === null ? 'no rated voltage' : `${formatNumber(set.ratedVoltage.value)} V`} (${esc(set.ratedVoltage.source)}). ` +
     `Intervals: ${esc(set.intervals.method)}.`, '');
   out.push('| figure | value | unit | 95 % interval | formula | note |', '|---|---:|---|---|---|---|');
   for (const f of Object.values(set.derived)) {
-    out.push(`| ${esc(f.label)} | ${formatNumber(f.value)} | ${f.unit} | ${interval(f.ci95)} | ${esc(f.formula)} | ${esc(f.note)} |`);
+    const [v, ci] = valueAndInterval(f.value, f.ci95);
+    out.push(`| ${esc(f.label)} | ${v} | ${f.unit} | ${ci} | ${esc(f.formula)} | ${esc(f.note)} |`);
   }
   out.push('', '## Findings', '');
   if (set.findings.length === 0) out.push('None reported.');

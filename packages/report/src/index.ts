@@ -23,6 +23,8 @@ export { normaliseResistance } from './normaliseResistance.js';
 export { readParameterSet } from './readParameterSet.js';
 export { ParameterSetError } from './ParameterSetError.js';
 export { formatNumber } from './formatNumber.js';
+export { formatInterval, intervalDigits } from './formatInterval.js';
+export type { FormatIntervalOptions } from './formatInterval.js';
 export { formatParameterSetJson } from './formatParameterSetJson.js';
 export { formatParameterSetCsv } from './formatParameterSetCsv.js';
 export { formatParameterSetMarkdown } from './formatParameterSetMarkdown.js';

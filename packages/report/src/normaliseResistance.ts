@@ -45,7 +45,7 @@ export function normaliseResistance(
     return {
       value: null, unit: 'Ω', ci95: null, referenceTemperature, windingTemperature: null, windingTemperatureSource: 'unknown',
       copperConstant, form, factor: null,
-      note: 'winding temperature unknown (no temperature channel, no windingTemperature option): R is stated as fitted, not normalised',
+      note: 'not computed: the winding temperature is unknown (no temperature channel in the recordings and no winding temperature given), so R is stated as fitted, not normalised',
     };
   }
   if (!Number.isFinite(windingTemperature) || !(windingTemperature > -copperConstant)) {

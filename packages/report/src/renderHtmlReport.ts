@@ -1,6 +1,7 @@
 import { autocorrelationInto } from '@motorprint/diagnose';
 import { measuredChannel } from '@motorprint/estimate';
 import { escapeXml } from './escapeXml.js';
+import { formatInterval, intervalDigits } from './formatInterval.js';
 import { formatNumber } from './formatNumber.js';
 import { operatingCurve } from './operatingCurve.js';
 import { REPORT_CSS } from './reportStyles.js';
@@ -13,7 +14,11 @@ const Z975 = 1.959963984540054;
 const UNIT: Record<string, string> = { current: 'A', speed: 'rad/s' };
 
 function interval(ci: [number, number] | null): string {
-  return ci === null ? '–' : `${formatNumber(ci[0], 5)} … ${formatNumber(ci[1], 5)}`;
+  return formatInterval(ci, { digits: 5 });
+}
+/** A value with as many digits as its interval's ends need (at least 5). */
+function valueText(value: number | null, ci: [number, number] | null): string {
+  return formatNumber(value, intervalDigits(ci, 5));
 }
 function relative(value: number | null, ci: [number, number] | null): string {
   if (value === null || ci === null || value === 0) return '–';
@@ -36,14 +41,14 @@ function constantsTable(set: ParameterSet): string {
   for (const [k, e] of Object.entries(set.parameters) as [string, ParameterEntry | undefined][]) {
     if (e === undefined) continue;
     rows.push(`<tr${e.identifiable ? '' : ' class="no"'}><td class="sym">${h(k)}</td><td>${h(names[k] ?? '')}</td>` +
-      `<td class="num">${formatNumber(e.value, 5)}</td><td>${h(e.unit)}</td><td class="num">${interval(e.ci95)}</td>` +
+      `<td class="num">${valueText(e.value, e.ci95)}</td><td>${h(e.unit)}</td><td class="num">${interval(e.ci95)}</td>` +
       `<td class="num">${relative(e.value, e.ci95)}</td><td>${e.fixed ? 'fixed' : e.identifiable ? 'yes' : 'no'}</td>` +
       `<td class="note">${h(e.note || (e.informedBy.length > 0 ? `from ${e.informedBy.join(', ')}` : ''))}</td></tr>`);
   }
   const r = set.resistanceAtReference;
   rows.push(`<tr${r.value === null ? ' class="no"' : ''}><td class="sym">R<sub>${h(formatNumber(r.referenceTemperature))} °C</sub></td>` +
-    `<td>resistance at ${h(formatNumber(r.referenceTemperature))} °C</td><td class="num">${formatNumber(r.value, 5)}</td><td>Ω</td>` +
-    `<td class="num">${interval(r.ci95)}</td><td class="num">${relative(r.value, r.ci95)}</td><td>${r.value === null ? 'no' : 'yes'}</td>` +
+    `<td>resistance at ${h(formatNumber(r.referenceTemperature))} °C</td><td class="num">${valueText(r.value, r.ci95)}</td><td>Ω</td>` +
+    `<td class="num">${interval(r.ci95)}</td><td class="num">${relative(r.value, r.ci95)}</td><td>${r.value === null ? 'not computed' : set.parameters.R.identifiable ? 'yes' : 'no'}</td>` +
     `<td class="note">${h(r.note)}</td></tr>`);
   return `<table><thead><tr><th>symbol</th><th>constant</th><th>value</th><th>unit</th><th>95 % interval</th><th>± half-width</th>` +
     `<th>identified</th><th>note</th></tr></thead><tbody>${rows.join('')}</tbody></table>`;
@@ -51,7 +56,7 @@ function constantsTable(set: ParameterSet): string {
 
 function derivedTable(set: ParameterSet): string {
   const rows = (Object.values(set.derived) as DerivedFigure[]).map((f) =>
-    `<tr${f.value === null ? ' class="no"' : ''}><td>${h(f.label)}</td><td class="num">${formatNumber(f.value, 5)}</td><td>${h(f.unit)}</td>` +
+    `<tr${f.value === null ? ' class="no"' : ''}><td>${h(f.label)}</td><td class="num">${valueText(f.value, f.ci95)}</td><td>${h(f.unit)}</td>` +
     `<td class="num">${interval(f.ci95)}</td><td><code>${h(f.formula)}</code></td><td class="note">${h(f.note)}</td></tr>`);
   return `<table><thead><tr><th>figure</th><th>value</th><th>unit</th><th>95 % interval</th><th>formula</th><th>note</th></tr></thead>` +
     `<tbody>${rows.join('')}</tbody></table>`;

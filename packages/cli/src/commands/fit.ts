@@ -2,7 +2,7 @@ import { basename, dirname, extname, resolve } from 'node:path';
 import { mkdir, writeFile } from 'node:fs/promises';
 import { identifyMotor, type Identification, type IdentifyOptions } from '@motorprint/diagnose';
 import {
-  buildParameterSet, formatParameterSetCsv, formatParameterSetMarkdown, renderHtmlReport,
+  buildParameterSet, formatInterval as formatIntervalText, formatParameterSetCsv, formatParameterSetMarkdown, renderHtmlReport,
   type BuildParameterSetOptions, type JsonValue, type ParameterSet,
 } from '@motorprint/report';
 import type { FitMotorOptions, ModelExtensions, MotorConstantName, MotorExperimentKind, MotorRecordingInput } from '@motorprint/estimate';
@@ -120,11 +120,9 @@ export function fitDocument(set: ParameterSet): Record<string, unknown> {
   return { ...set };
 }
 
-/** Prints an interval with enough digits that its ends differ (at least 3 significant). */
-function formatInterval([low, high]: [number, number], value: number): string {
-  const width = Math.abs(high - low);
-  const digits = width > 0 && value !== 0 ? Math.min(10, Math.max(3, Math.ceil(Math.log10(Math.abs(value) / width)) + 2)) : 3;
-  return `${formatNumber(low, digits)} … ${formatNumber(high, digits)}`;
+/** An interval with enough digits that its ends differ (the report's writer, plain minus signs). */
+function formatInterval(ci: [number, number]): string {
+  return formatIntervalText(ci, { digits: 3, format: formatNumber });
 }
 
 function formatEvidence(evidence: Record<string, number | string>): string {
@@ -150,7 +148,7 @@ function formatIdentification(id: Identification, set: ParameterSet, paint: Pain
       formatNumber(d.value as number, 5),
       d.unit,
       d.fixed ? 'pinned' : d.standardError !== null ? formatNumber(d.standardError, 2) : '—',
-      d.ci95 ? formatInterval(d.ci95, d.value as number) : '—',
+      d.ci95 ? formatInterval(d.ci95) : '—',
       d.fixed ? '' : (fit.parameters[name]?.informedBy ?? []).map((f) => basename(f)).join(', '),
     ]);
   out.push(paint.bold('Fitted constants'));
@@ -372,7 +370,7 @@ function reportTitle(set: ParameterSet): string {
 
 function formatResistanceAtReference(set: ParameterSet): string {
   const r = set.resistanceAtReference;
-  if (r.value === null) return `R is not carried to ${r.referenceTemperature} °C: ${r.note}\n`;
+  if (r.value === null) return `R at ${r.referenceTemperature} °C: ${r.note}\n`;
   return `R at ${r.referenceTemperature} °C: ${formatNumber(r.value, 5)} Ω (${r.note})\n`;
 }
 

@@ -6,6 +6,7 @@ import {
   appendLotRun, checkLotStore, decisionRule, fitLot, judgeLot, LotError, OUTLIER_THRESHOLD, parseLotSpec, planMotorFolder, renderLotReport, RUNS_TABLE,
   type KeyJudgement, type LotJudgement, type LotSpec, type MotorPlan, type SpecLimit,
 } from '@motorprint/lot';
+import { formatInterval } from '@motorprint/report';
 import { parseSubcommandArgs } from '../args.js';
 import { CAUTIONS } from '../cautions.js';
 import { INGEST_OPTION_HELP, INGEST_OPTIONS, ingestOptionsFrom } from '../readInputs.js';
@@ -78,7 +79,7 @@ function cautionItems(): string[] {
 
 function limitText(l: SpecLimit): string {
   if (l.nominal !== null && l.tolerancePercent !== null) return `${formatNumber(l.nominal, 6)} ± ${formatNumber(l.tolerancePercent, 4)} %`;
-  if (l.lower !== null && l.upper !== null) return `${formatNumber(l.lower, 6)} … ${formatNumber(l.upper, 6)}`;
+  if (l.lower !== null && l.upper !== null) return formatInterval([l.lower, l.upper], { digits: 6, format: formatFinite });
   return l.lower !== null ? `≥ ${formatNumber(l.lower, 6)}` : `≤ ${formatNumber(l.upper, 6)}`;
 }
 
@@ -113,7 +114,7 @@ function formatLot(spec: LotSpec, j: LotJudgement, paint: Paint): string {
       if (m.verdict === 'error') { out.push(`  ${m.serial} ${paintVerdict('error', paint)}: ${inCommandTerms(m.reason)}`); continue; }
       out.push(`  ${m.serial} ${paintVerdict(m.verdict, paint)}:`);
       for (const k of m.keys.filter((x) => x.verdict !== 'pass')) {
-        const ci = k.ci95 === null ? '' : `estimate ${formatNumber(k.value, 6)}, 95 % interval ${formatNumber(k.ci95[0], 6)} … ${formatNumber(k.ci95[1], 6)} ${k.unit}: `;
+        const ci = k.ci95 === null ? '' : `estimate ${formatNumber(k.value, 6)}, 95 % interval ${formatInterval(k.ci95, { digits: 6, format: formatFinite })} ${k.unit}: `;
         out.push(`    ${k.key} ${k.verdict}: ${ci}${k.reason}`);
       }
     }

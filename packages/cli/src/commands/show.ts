@@ -1,6 +1,6 @@
 import { readFile } from 'node:fs/promises';
 import { resolve } from 'node:path';
-import { formatParameterSetCsv, formatParameterSetMarkdown, readParameterSet, type ParameterSet } from '@motorprint/report';
+import { formatInterval, formatParameterSetCsv, formatParameterSetMarkdown, readParameterSet, type ParameterSet } from '@motorprint/report';
 import { parseSubcommandArgs } from '../args.js';
 import { paintFor, type Paint } from '../style.js';
 import { formatNumber, formatTable } from '../table.js';
@@ -18,7 +18,7 @@ Options:
                json (the validated document, re-printed)`;
 
 function interval(ci: [number, number] | null): string {
-  return ci === null ? '—' : `${formatNumber(ci[0], 5)} … ${formatNumber(ci[1], 5)}`;
+  return formatInterval(ci, { digits: 5, format: formatNumber, missing: '—' });
 }
 
 /** Terminal view of a parameter set. */
@@ -39,7 +39,7 @@ export function formatParameterSetText(set: ParameterSet, paint: Paint): string 
   out.push(formatTable(['constant', 'value', 'unit', '95 % interval', 'identified', 'note'], rows, ['left', 'right', 'left', 'left', 'left', 'left']));
   const r = set.resistanceAtReference;
   out.push('');
-  out.push(r.value === null ? `R at ${r.referenceTemperature} °C: not carried (${r.note})` : `R at ${r.referenceTemperature} °C: ${formatNumber(r.value, 5)} Ω, 95 % ${interval(r.ci95)} (${r.note})`);
+  out.push(r.value === null ? `R at ${r.referenceTemperature} °C: ${r.note}` : `R at ${r.referenceTemperature} °C: ${formatNumber(r.value, 5)} Ω, 95 % ${interval(r.ci95)} (${r.note})`);
   out.push('');
   out.push(paint.bold(`Datasheet figures at ${set.ratedVoltage.value === null ? '—' : formatNumber(set.ratedVoltage.value, 4)} V (${set.ratedVoltage.source})`));
   const figures = Object.values(set.derived).map((f) => [f.label, f.value === null ? '—' : formatNumber(f.value, 5), f.unit, interval(f.ci95), f.formula]);

@@ -23,6 +23,9 @@ describe('normaliseResistance', () => {
     expect(r.windingTemperatureSource).toBe('unknown');
     expect(r.referenceTemperature).toBe(25);
     expect(r.note).toContain('not normalised');
+    // Says it was not computed and why, in words a library user and a command-line user both read.
+    expect(r.note).toMatch(/^not computed: the winding temperature is unknown/);
+    expect(r.note).not.toMatch(/option|--/);
   });
 
   it('rejects a temperature at or below −k and an unknown copper constant', () => {
