@@ -15,20 +15,35 @@ export function parseSubcommandArgs<T extends NonNullable<ParseArgsConfig['optio
   try {
     return parseArgs({ args, options, allowPositionals: true, strict: true });
   } catch (err) {
-    let message = (err as Error).message.replace(/\. To specify a positional.*$/s, '.');
-    // A near miss of a known option: suggest it.
-    const typed = /Unknown option '(--?[^']+)'/.exec(message)?.[1];
-    if (typed !== undefined) {
-      const name = typed.replace(/^-+/, '');
-      let best: string | null = null, bestD = 3;
-      for (const known of Object.keys(options)) {
-        const d = editDistance(name, known);
-        if (d < bestD) { bestD = d; best = known; }
-      }
-      message = `unknown option ${typed}${best !== null ? `; did you mean --${best}?` : ''}`;
-    }
-    throw new UsageError(message, subcommand);
+    throw new UsageError(parseErrorText((err as Error).message, Object.keys(options), subcommand), subcommand);
   }
+}
+
+/**
+ * node:util parseArgs's error in our words: a near miss of a known option gets "did you mean
+ * --check?" (edit distance ≤ 2, ≤ 1 for short names), any other unknown option the list of this subcommand's options, a
+ * missing value "--id needs a value".
+ */
+function parseErrorText(raw: string, known: string[], subcommand: string): string {
+  const typed = /Unknown option '(--?[^']+)'/.exec(raw)?.[1];
+  if (typed !== undefined) {
+    const name = typed.replace(/^-+/, '').replace(/=.*$/, '');
+    // Up to 2 edits (1 for a name of 3 letters or fewer, where 2 would match almost anything).
+    let best: string | null = null, bestD = name.length <= 3 ? 2 : 3;
+    for (const k of known) {
+      const d = editDistance(name, k);
+      if (d < bestD) { bestD = d; best = k; }
+    }
+    if (best !== null) return `unknown option ${typed}; did you mean --${best}?`;
+    return `unknown option ${typed}; the options of ${subcommand} are ${known.map((k) => `--${k}`).join(', ')}`;
+  }
+  const missing = /Option '(--[\w-]+)(?: <value>)?' argument missing/.exec(raw)?.[1];
+  if (missing !== undefined) return `${missing} needs a value`;
+  const noValue = /Option '(--[\w-]+)' does not take an argument/.exec(raw)?.[1];
+  if (noValue !== undefined) return `${noValue} takes no value`;
+  const ambiguous = /Option '(--[\w-]+)' argument is ambiguous/.exec(raw)?.[1];
+  if (ambiguous !== undefined) return `${ambiguous} needs a value (the next word starts with "-"; write ${ambiguous}=VALUE for a value that does)`;
+  return raw.replace(/\. To specify a positional.*$/s, '.');
 }
 
 /** Levenshtein distance (small strings: option names). */

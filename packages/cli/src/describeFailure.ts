@@ -1,14 +1,31 @@
 import type { IngestFix } from '@motorprint/ingest';
 import { fixFlags } from './ingestFixFlags.js';
+import { fileErrorText, fsReason, InputFileError } from './inputFiles.js';
+
+/** The errno-style code of an error or of its cause (`ENOENT`, …), when there is one. */
+function fsCode(err: Error): string | undefined {
+  for (const e of [err, (err as { cause?: unknown }).cause]) {
+    const code = (e as { code?: unknown } | null | undefined)?.code;
+    if (typeof code === 'string' && /^E[A-Z]+$/.test(code)) return code;
+  }
+  return undefined;
+}
 
 /**
  * Turns a thrown value into one line a person can act on. Typed errors from the packages carry a
  * `code` and, for data problems, the file, line and column; those are printed in that order. An
- * ingest error that names the options settling it gets the command-line flags that do so.
+ * ingest error that names the options settling it gets the command-line flags that do so. A
+ * file-system error becomes "file not found: PATH" and the like, never Node's raw text.
  */
 export function describeFailure(err: unknown): string {
+  if (err instanceof InputFileError) return err.message;
   if (err instanceof Error) {
-    const e = err as Error & { code?: unknown; file?: unknown; line?: unknown; column?: unknown; fix?: unknown };
+    const e = err as Error & { code?: unknown; file?: unknown; line?: unknown; column?: unknown; fix?: unknown; path?: unknown };
+    const fs = fsCode(err);
+    const file = typeof e.file === 'string' ? e.file : typeof e.path === 'string' ? e.path : undefined;
+    if (fs !== undefined && file !== undefined) {
+      return fs === 'ENOENT' || fs === 'EISDIR' || fs === 'EACCES' ? fileErrorText(file, { code: fs }) : `${file}: ${fsReason(fs) ?? fs}`;
+    }
     const where = [
       typeof e.file === 'string' ? e.file : undefined,
       typeof e.line === 'number' ? `line ${e.line}` : undefined,

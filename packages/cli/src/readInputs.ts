@@ -24,7 +24,10 @@ export const CLI_ROLES: Readonly<Record<string, ChannelRole>> = {
   temperature: 'temperature',
 };
 
-/** Help lines for the ingest options shared by `inspect` and `fit`. */
+/** Synopsis words of the ingest options shared by `inspect`, `fit` and `lot`. */
+export const INGEST_OPTION_SYNOPSIS = '[--map ROLE=COLUMN] [--unit COLUMN=UNIT] [--counts-per-rev N] [--drive-gain K] [--supply-voltage V] [--pwm-max N]';
+
+/** Help lines for the ingest options shared by `inspect`, `fit` and `lot`. */
 export const INGEST_OPTION_HELP = `  --map ROLE=COLUMN     use COLUMN (header text or 0-based index) for ROLE, overriding detection;
                         ROLE is time, voltage (= terminal: measured at the motor), supply (bus,
                         battery or supply voltage), command (voltage command, reference, set-point

@@ -1,4 +1,5 @@
 import { CAUTIONS } from './cautions.js';
+import { inCliTerms } from './cliTerms.js';
 import { SUBCOMMANDS } from './commands/index.js';
 import { paintFor } from './style.js';
 import { EXIT, TOOL_VERSION, type CliIo } from './types.js';
@@ -31,7 +32,9 @@ export function overallHelp(): string {
  * @param io - where to read and write
  * @returns the process exit code (see {@link EXIT})
  */
-export async function runCli(argv: string[], io: CliIo): Promise<number> {
+export async function runCli(argv: string[], rawIo: CliIo): Promise<number> {
+  // Whatever a subcommand prints from the libraries is put in command-line terms on the way out.
+  const io: CliIo = { ...rawIo, stdout: (t) => rawIo.stdout(inCliTerms(t)), stderr: (t) => rawIo.stderr(inCliTerms(t)) };
   const paint = paintFor(io);
   const [name, ...rest] = argv;
   if (name === undefined || name === '--help' || name === '-h' || name === 'help') {

@@ -99,7 +99,7 @@ export function detectFriction(
   const coulombFinding = (tcKt: number, se: number, p: number, how: string, rows: number): Finding => ({
     code: 'coulomb-friction', severity: 'warning', title: 'Current needed beyond viscous friction: Coulomb friction',
     evidence: { [`Tc/Kt [${unit}]`]: sig(tcKt), [`SE [${unit}]`]: sig(se), 'p-value': sig(p), test: how, rows },
-    advice: 'The steady current–speed relation has an intercept: add Coulomb friction Tc to the model (fit with coulomb: true), otherwise b absorbs it and varies with the speed range.',
+    advice: 'The steady current–speed relation has an intercept: add Coulomb friction Tc to the model, otherwise b absorbs it and varies with the speed range.',
   });
   const { voltage } = recording.channels;
   const steady = voltage && (options.kind === 'steady-state' || options.kind === 'unknown' || options.kind === undefined)

@@ -62,6 +62,6 @@ export function detectResidualCoulomb(speed: Float64Array, residual: Float64Arra
       [channel === 'current' ? 'Tc/Kt seen [A]' : `speed shortfall while moving [${unit}]`]: sig(Math.abs(g)),
       'z (serial-corrected)': sig(z), 'lag-1 autocorrelation': sig(r1), 'moving samples': pos + neg, 'still samples': rest,
     },
-    advice: 'Fit with Coulomb friction (fitMotor option coulomb: true) and compare the two fits; a constant friction torque otherwise biases b, J and the current offset.',
+    advice: 'Fit with Coulomb friction in the model and compare the two fits; a constant friction torque otherwise biases b, J and the current offset.',
   };
 }

@@ -24,7 +24,9 @@ export async function readRecording(path: string, options: IngestOptions = {}): 
     if (!info.isFile()) throw new Error('not a regular file');
     size = info.size;
   } catch (error) {
-    throw new IngestError('file-unreadable', fileName, `cannot read the file (${(error as Error).message})`, { cause: error });
+    const code = (error as NodeJS.ErrnoException).code;
+    const why = code === 'ENOENT' ? 'file not found' : code === 'EISDIR' ? 'it is a folder, not a file' : `cannot read the file (${(error as Error).message})`;
+    throw new IngestError('file-unreadable', fileName, why, { cause: error });
   }
   const ingestor = createIngestor({ ...options, fileName, sizeHint: options.sizeHint ?? size });
   const stream = createReadStream(path, { highWaterMark: 1 << 20 });

@@ -136,8 +136,8 @@ describe('motorprint lot refuses what it cannot use before fitting anything', ()
     [['lot', LOT], /--spec SPEC\.json is required/],
     [['lot', '--spec', SPEC], /give exactly one lot folder DIR \(got 0\)/],
     [['lot', LOT, '--spec', SPEC, '--jobs', '0'], /--jobs must be a whole number ≥ 1 \(got "0"\)/],
-    [['lot', LOT, '--spec', 'fixtures/lot/no-such-spec.json'], /fixtures\/lot\/no-such-spec\.json: cannot read the spec \(ENOENT\)/],
-    [['lot', 'fixtures/lot/no-such-lot', '--spec', SPEC], /cannot read the lot folder fixtures\/lot\/no-such-lot \(ENOENT\)/],
+    [['lot', LOT, '--spec', 'fixtures/lot/no-such-spec.json'], /file not found: fixtures\/lot\/no-such-spec\.json \(the --spec file\)/],
+    [['lot', 'fixtures/lot/no-such-lot', '--spec', SPEC], /folder not found: fixtures\/lot\/no-such-lot/],
     [['lot', 'fixtures/demo', '--spec', SPEC], /fixtures\/demo has no motor folders/],
     [['lot', LOT, '--spec', SPEC, '--speed'], /unknown option --speed/],
   ])('%j', async (args, message) => {

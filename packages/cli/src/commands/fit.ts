@@ -8,7 +8,9 @@ import {
 import type { FitMotorOptions, ModelExtensions, MotorConstantName, MotorExperimentKind, MotorRecordingInput } from '@motorprint/estimate';
 import type { IngestResult } from '@motorprint/ingest';
 import { keyValuePairs, numberOption, parseSubcommandArgs } from '../args.js';
-import { INGEST_OPTION_HELP, INGEST_OPTIONS, ingestOptionsFrom, readInput } from '../readInputs.js';
+import { INGEST_OPTION_HELP, INGEST_OPTION_SYNOPSIS, INGEST_OPTIONS, ingestOptionsFrom, readInput } from '../readInputs.js';
+import { documentInCliTerms } from '../cliTerms.js';
+import { checkInputFiles, outputPathProblem } from '../inputFiles.js';
 import { createProgress, type Progress } from '../progress.js';
 import { paintFor, type Paint } from '../style.js';
 import { formatNumber, formatTable } from '../table.js';
@@ -25,7 +27,8 @@ const HELP = `motorprint fit FILE... [--kind FILE=KIND] [--fix P=V] [--guess P=V
                [--model auto|lumped|EXT,EXT…] [--coulomb auto|yes|no] [--measured-voltage]
                [--json] [--out FILE] [--format json|md|csv] [--report FILE.html]
                [--rated-voltage V] [--winding-temp C] [--reference-temp C] [--copper-k K]
-               [--ambient-temp C] [--id KEY=VALUE] [ingest options]
+               [--ambient-temp C] [--id KEY=VALUE]
+               ${INGEST_OPTION_SYNOPSIS.replace(' [--supply-voltage', '\n               [--supply-voltage')}
 
 Fits one consistent set of motor constants to one or more bench recordings at once: R [Ω], L [H],
 Kt [N·m/A], Ke [V·s/rad], J [kg·m²], b [N·m·s/rad], and — where the data support them — the terms of
@@ -73,8 +76,10 @@ Options:
   --id KEY=VALUE      identification for the report, e.g. --id motor="Tern 24" --id serial=A113
 ${INGEST_OPTION_HELP}
 
-Exit codes: 0 converged fit; 1 data problem, or a fit that did not converge (no constants are
-reported then); 2 command-line mistake.`;
+Exit codes: 0 converged fit; 1 an input file not found or unreadable, a data problem (the message
+names file, line and column), or a fit that did not converge (no constants are reported then);
+2 command-line mistake (unknown option, bad value, --out or --report naming a folder): every option
+is checked before any file is read.`;
 
 const UNIT: Record<string, string> = {
   R: 'Ω', L: 'H', Kt: 'N·m/A', Ke: 'V·s/rad', J: 'kg·m²', b: 'N·m·s/rad', Tc: 'N·m', Ts: 'N·m', c: 'N·m·s²/rad²', Vmax: 'V', Imax: 'A', Rth: 'K/W', Cth: 'J/K',
@@ -120,8 +125,8 @@ export function fitDocument(set: ParameterSet): Record<string, unknown> {
   return { ...set };
 }
 
-/** An interval with enough digits that its ends differ (the report's writer, plain minus signs). */
-function formatInterval(ci: [number, number]): string {
+/** An interval with enough digits that its ends differ (the report's writer, plain minus signs; the value is not needed). */
+function formatInterval(ci: [number, number], _value?: number): string {
   return formatIntervalText(ci, { digits: 3, format: formatNumber });
 }
 
@@ -272,6 +277,12 @@ async function fitJob(args: string[], io: CliIo, progress: Progress): Promise<nu
   if (!['json', 'md', 'csv'].includes(outFormat)) throw new UsageError(`--format must be json, md or csv (got "${outFormat}")`, 'fit');
   if (values.format !== undefined && values.out === undefined) throw new UsageError('--format applies to --out FILE; give --out as well', 'fit');
   const identification = Object.fromEntries(keyValuePairs('fit', 'id', values.id));
+  for (const out of [values.out, values.report]) {
+    const problem = out === undefined ? null : await outputPathProblem(io.cwd, out);
+    if (problem !== null) throw new UsageError(problem, 'fit');
+  }
+  // Every input file is there before the first one is read.
+  await checkInputFiles(io.cwd, [...positionals, ...(values.check ?? [])]);
   const paint = paintFor(io);
 
   const inputs: { file: string; result: IngestResult }[] = [];
@@ -327,7 +338,7 @@ async function fitJob(args: string[], io: CliIo, progress: Progress): Promise<nu
   if (referenceTemp !== undefined) setOptions.referenceTemperature = referenceTemp;
   if (copperK !== undefined) setOptions.copperConstant = copperK;
   progress.update('writing the parameter set', STAGE.write);
-  const set = buildParameterSet(fit, setOptions);
+  const set = documentInCliTerms(buildParameterSet(fit, setOptions));
   const doc = fitDocument(set);
   if (values.json) io.stdout(`${JSON.stringify(doc, null, 2)}\n`);
   else io.stdout(`${formatIdentification(id, set, paint)}\n${formatResistanceAtReference(set)}`);

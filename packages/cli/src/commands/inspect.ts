@@ -3,6 +3,7 @@ import { describeRecording, IngestError, UNIT_SOURCE_WORDS, type Recording, type
 import { parseSubcommandArgs } from '../args.js';
 import { cliRole, INGEST_OPTION_HELP, INGEST_OPTIONS, ingestOptionsFrom, readInput } from '../readInputs.js';
 import { describeFailure, withFlags } from '../describeFailure.js';
+import { checkInputFiles, InputFileError } from '../inputFiles.js';
 import { paintFor, type Paint } from '../style.js';
 import { formatNumber, formatTable } from '../table.js';
 import { EXIT, type CliIo, type Subcommand } from '../types.js';
@@ -22,8 +23,9 @@ Options:
 ${INGEST_OPTION_HELP}
   --json                print one JSON document on stdout ({ "files": [...] })
 
-Exit codes: 0 every file read, 1 a file could not be read (the message names file, line and
-column), 2 command-line mistake.`;
+Exit codes: 0 every file read; 1 a file not found or not readable ("file not found: PATH"), or not
+understood (the message names file, line and column) — the other files are still shown; 2
+command-line mistake.`;
 
 /** What inspect shows for one file: the ingest description plus the experiment kind. */
 export type InspectedFile = RecordingDescription & { kind: { kind: string; reason: string } };
@@ -51,6 +53,7 @@ interface FileFailure {
 }
 
 function failureOf(file: string, err: unknown): FileFailure {
+  if (err instanceof InputFileError) return { file, error: { code: 'file-not-usable', message: err.message } };
   if (err instanceof IngestError) {
     const e: FileFailure['error'] = { code: err.code, message: `${err.message}${withFlags(err.fix)}` };
     if (err.line !== undefined) e.line = err.line;
@@ -72,6 +75,15 @@ function formatSeconds(s: number): string {
 
 function percent(x: number): string {
   return `${formatNumber(x * 100, 2)} %`;
+}
+
+/** Jitter below this share of the sample interval is rounding of the written times: shown as none. */
+export const JITTER_NONE = 1e-6;
+
+/** The jitter of a time base in words: "none" below {@link JITTER_NONE}, else σ and max in %. */
+export function jitterText(jitterStd: number, jitterMax: number): string {
+  if (jitterMax < JITTER_NONE) return 'jitter none (below 1e-6 of the interval)';
+  return `jitter σ ${percent(jitterStd)}, max ${percent(jitterMax)} of the interval`;
 }
 
 function unitRead(c: RecordingDescription['columns'][number]): string {
@@ -116,7 +128,7 @@ export function formatDescription(d: InspectedFile, paint: Paint): string {
   } else {
     out.push(
       `  sampling: ${formatNumber(s.sampleRate)} Hz (interval ${formatSeconds(s.sampleInterval)}), ` +
-        `jitter σ ${percent(s.jitterStd)}, max ${percent(s.jitterMax)} of the interval` +
+        `${jitterText(s.jitterStd, s.jitterMax)}` +
         `${s.gaps > 0 ? paint.warn(`, ${s.gaps} gap(s), longest ${formatSeconds(s.maxInterval)}`) : ''}`,
     );
     out.push(`  time span: ${formatNumber(span.start)} s to ${formatNumber(span.end)} s (${formatSeconds(span.duration)})`);
@@ -186,6 +198,7 @@ async function run(args: string[], io: CliIo): Promise<number> {
   let failed = 0;
   for (const file of positionals) {
     try {
+      await checkInputFiles(io.cwd, [file]);
       const result = await readInput(io.cwd, file, options);
       results.push({ ...describeRecording(result), kind: experimentKindOf(result.recording) });
     } catch (err) {
@@ -206,6 +219,7 @@ async function run(args: string[], io: CliIo): Promise<number> {
 }
 
 function failureText(f: FileFailure): string {
+  if (f.error.code === 'file-not-usable') return f.error.message;
   const where = [f.file, f.error.line !== undefined ? `line ${f.error.line}` : '', f.error.column !== undefined ? `column "${f.error.column}"` : '']
     .filter(Boolean)
     .join(', ');

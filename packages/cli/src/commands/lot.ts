@@ -9,13 +9,16 @@ import {
 import { formatInterval } from '@motorprint/report';
 import { parseSubcommandArgs } from '../args.js';
 import { CAUTIONS } from '../cautions.js';
-import { INGEST_OPTION_HELP, INGEST_OPTIONS, ingestOptionsFrom } from '../readInputs.js';
+import { inCliTerms } from '../cliTerms.js';
+import { fileErrorText, outputPathProblem } from '../inputFiles.js';
+import { INGEST_OPTION_HELP, INGEST_OPTION_SYNOPSIS, INGEST_OPTIONS, ingestOptionsFrom } from '../readInputs.js';
 import { paintFor, type Paint } from '../style.js';
 import { formatNumber as formatFinite, formatTable } from '../table.js';
 import { EXIT, TOOL_VERSION, type CliIo, type Subcommand } from '../types.js';
 import { UsageError } from '../UsageError.js';
 
 const HELP = `motorprint lot DIR --spec SPEC.json [--db FILE.sqlite] [--jobs N] [--json] [--report FILE.html]
+              ${INGEST_OPTION_SYNOPSIS.replace(' [--supply-voltage', '\n              [--supply-voltage')}
 
 Incoming inspection of a lot: fits every motor of DIR, judges each checked constant or derived
 figure against the spec with its 95 % interval, and prints the verdicts and the lot statistics.
@@ -57,14 +60,6 @@ function formatNumber(x: number | null | undefined, digits = 4): string {
   return x === null || x === undefined ? '–' : formatFinite(x, digits);
 }
 
-/** Rewrites library option names in messages from the packages into this command's options. */
-function inCommandTerms(text: string): string {
-  return text
-    .replace(/pass options\.map\.(\w+)/g, (_m, role: string) => `give --map ${role}=COLUMN`)
-    .replace(/options\.map\.(\w+)/g, (_m, role: string) => `--map ${role}=COLUMN`)
-    .replace(/options\.units/g, '--unit COLUMN=UNIT')
-    .replace(/options\.countsPerRevolution/g, '--counts-per-rev N');
-}
 
 /** The cautions as list items (each "- …" item of CAUTIONS with its continuation lines). */
 function cautionItems(): string[] {
@@ -111,7 +106,7 @@ function formatLot(spec: LotSpec, j: LotJudgement, paint: Paint): string {
     out.push('');
     out.push(paint.bold('Why not passed'));
     for (const m of open) {
-      if (m.verdict === 'error') { out.push(`  ${m.serial} ${paintVerdict('error', paint)}: ${inCommandTerms(m.reason)}`); continue; }
+      if (m.verdict === 'error') { out.push(`  ${m.serial} ${paintVerdict('error', paint)}: ${inCliTerms(m.reason)}`); continue; }
       out.push(`  ${m.serial} ${paintVerdict(m.verdict, paint)}:`);
       for (const k of m.keys.filter((x) => x.verdict !== 'pass')) {
         const ci = k.ci95 === null ? '' : `estimate ${formatNumber(k.value, 6)}, 95 % interval ${formatInterval(k.ci95, { digits: 6, format: formatFinite })} ${k.unit}: `;
@@ -178,7 +173,7 @@ async function planLot(io: CliIo, dir: string): Promise<{ plans: MotorPlan[]; ig
     entries = await readdir(root, { withFileTypes: true });
   } catch (error) {
     if (error instanceof UsageError) throw error;
-    throw new UsageError(`cannot read the lot folder ${dir} (${(error as NodeJS.ErrnoException).code ?? (error as Error).message})`, 'lot');
+    throw new UsageError((error as NodeJS.ErrnoException).code === 'ENOENT' ? `folder not found: ${dir}` : `cannot read the lot folder ${dir} (${(error as NodeJS.ErrnoException).code ?? (error as Error).message})`, 'lot');
   }
   const folders = entries.filter((e) => e.isDirectory()).map((e) => e.name).sort();
   const ignored = entries.filter((e) => !e.isDirectory()).map((e) => e.name).sort();
@@ -250,7 +245,7 @@ async function run(args: string[], io: CliIo): Promise<number> {
   try {
     specText = await readFile(resolve(io.cwd, values.spec), 'utf8');
   } catch (error) {
-    throw new UsageError(`${values.spec}: cannot read the spec (${(error as NodeJS.ErrnoException).code ?? (error as Error).message})`, 'lot');
+    throw new UsageError(`${fileErrorText(values.spec, error)} (the --spec file)`, 'lot');
   }
   let spec: LotSpec;
   try {
@@ -265,7 +260,7 @@ async function run(args: string[], io: CliIo): Promise<number> {
       storeBytes = await readFile(resolve(io.cwd, values.db));
     } catch (error) {
       if ((error as NodeJS.ErrnoException).code !== 'ENOENT') {
-        throw new UsageError(`${values.db}: cannot read the store (${(error as NodeJS.ErrnoException).code ?? (error as Error).message})`, 'lot');
+        throw new UsageError(`${fileErrorText(values.db, error)} (the --db store)`, 'lot');
       }
     }
     try {
@@ -274,6 +269,10 @@ async function run(args: string[], io: CliIo): Promise<number> {
       if (error instanceof LotError) throw new UsageError(error.message.replace(/use another store file$/, 'give another --db file'), 'lot');
       throw error;
     }
+  }
+  if (values.report !== undefined) {
+    const problem = await outputPathProblem(io.cwd, values.report);
+    if (problem !== null) throw new UsageError(problem, 'lot');
   }
   const { plans, ignored } = await planLot(io, dir);
 
@@ -288,7 +287,7 @@ async function run(args: string[], io: CliIo): Promise<number> {
     onProgress: io.isTty ? (done, total, o) => io.stderr(`\r\u001b[K[${done}/${total}] ${o.serial} ${o.status === 'fitted' ? 'fitted' : paint.error('error')}`) : undefined,
   });
   if (io.isTty) io.stderr('\r\u001b[K');
-  for (const o of outcomes) o.reason = inCommandTerms(o.reason);
+  for (const o of outcomes) o.reason = inCliTerms(o.reason);
   const judgement = judgeLot(spec, outcomes);
   const finishedAt = new Date().toISOString();
   const rule = decisionRule();

@@ -2,6 +2,7 @@ import { readFile } from 'node:fs/promises';
 import { resolve } from 'node:path';
 import { formatInterval, formatParameterSetCsv, formatParameterSetMarkdown, readParameterSet, type ParameterSet } from '@motorprint/report';
 import { parseSubcommandArgs } from '../args.js';
+import { fileErrorText } from '../inputFiles.js';
 import { paintFor, type Paint } from '../style.js';
 import { formatNumber, formatTable } from '../table.js';
 import { EXIT, type CliIo, type Subcommand } from '../types.js';
@@ -15,7 +16,10 @@ numbers came from. The file is checked against the published schema first (docs/
 
 Options:
   --format F   text (default, for a terminal), md (Markdown), csv (one row per constant and figure),
-               json (the validated document, re-printed)`;
+               json (the validated document, re-printed)
+
+Exit codes: 0 printed; 1 the file not found, or not a valid parameter set (the message names the
+path in the document); 2 command-line mistake.`;
 
 function interval(ci: [number, number] | null): string {
   return formatInterval(ci, { digits: 5, format: formatNumber, missing: '—' });
@@ -68,7 +72,7 @@ async function run(args: string[], io: CliIo): Promise<number> {
   try {
     text = await readFile(resolve(io.cwd, file), 'utf8');
   } catch (err) {
-    throw new Error(`${file}: cannot read the parameter set (${(err as NodeJS.ErrnoException).code ?? (err as Error).message})`);
+    throw new Error(fileErrorText(file, err));
   }
   let set: ParameterSet;
   try {

@@ -2,13 +2,17 @@ import { mkdir, readFile, writeFile } from 'node:fs/promises';
 import { basename, dirname, resolve } from 'node:path';
 import { formatRecordingCsv, generateRecording, type ExperimentKind, type RecordingOptions } from '@motorprint/model';
 import { numberOption, parseSubcommandArgs } from '../args.js';
+import { fileErrorText, outputPathProblem } from '../inputFiles.js';
 import { readParamsFile } from '../readParamsFile.js';
 import { EXIT, type CliIo, type Subcommand } from '../types.js';
 import { UsageError } from '../UsageError.js';
 
 const KINDS: readonly ExperimentKind[] = ['locked-rotor', 'step', 'coast-down', 'steady-state', 'prbs', 'multisine', 'loaded'];
 
-const HELP = `motorprint simulate PARAMS.json --experiment KIND --out FILE.csv [options]
+const HELP = `motorprint simulate PARAMS.json --experiment KIND --out FILE.csv [--sample-rate HZ] [--duration S]
+                   [--volts V] [--noise-voltage V] [--noise-current A] [--noise-speed RAD_S]
+                   [--noise-torque NM] [--noise-temperature C] [--encoder-counts N] [--log-speed]
+                   [--jitter S] [--seed N] [--json]
 
 Writes an INVENTED bench recording of a motor with known constants, for tests, demos and for
 planning a bench run. Beside FILE.csv it writes FILE.truth.json with the true constants, the
@@ -38,7 +42,24 @@ Options:
   --log-speed              with --encoder-counts, log speed as well
   --jitter S               σ of the sample-time jitter (must be < a quarter sample interval)
   --seed N                 seed of the noise generator (default 1)
-  --json                   print the truth sidecar on stdout as well`;
+  --json                   print the truth sidecar on stdout as well
+
+Exit codes: 0 written; 1 PARAMS.json not found or not valid (the message names the key), or the
+files could not be written; 2 command-line mistake (unknown option, bad value, or settings the
+generator refuses, such as jitter above a quarter of the sample interval).`;
+
+/** The generator's option names (`options.timeJitter`) as this command's options (`--jitter`). */
+const GENERATOR_OPTIONS: Readonly<Record<string, string>> = {
+  sampleRate: '--sample-rate', duration: '--duration', volts: '--volts', timeJitter: '--jitter', seed: '--seed',
+  encoderCounts: '--encoder-counts', logSpeed: '--log-speed',
+};
+
+function inSimulateTerms(message: string): string {
+  return message
+    .replace(/^generateRecording: /, '')
+    .replace(/options\.noise\.(\w+)/g, (_m, ch: string) => `--noise-${ch}`)
+    .replace(/options\.(\w+)/g, (m, name: string) => GENERATOR_OPTIONS[name] ?? m);
+}
 
 async function run(args: string[], io: CliIo): Promise<number> {
   const { values, positionals } = parseSubcommandArgs('simulate', args, {
@@ -89,19 +110,21 @@ async function run(args: string[], io: CliIo): Promise<number> {
   }
   if (Object.keys(noise).length > 0) options.noise = noise;
 
+  const outProblem = await outputPathProblem(io.cwd, values.out);
+  if (outProblem !== null) throw new UsageError(outProblem, 'simulate');
   const paramsPath = resolve(io.cwd, positionals[0] as string);
   let text: string;
   try {
     text = await readFile(paramsPath, 'utf8');
   } catch (err) {
-    throw new Error(`${positionals[0]}: cannot read the parameter file (${(err as NodeJS.ErrnoException).code ?? (err as Error).message})`);
+    throw new Error(fileErrorText(positionals[0] as string, err));
   }
   const params = readParamsFile(text, positionals[0] as string);
   let generated;
   try {
     generated = generateRecording(params, kind as ExperimentKind, options);
   } catch (err) {
-    if (err instanceof RangeError || err instanceof TypeError) throw new UsageError(err.message, 'simulate');
+    if (err instanceof RangeError || err instanceof TypeError) throw new UsageError(inSimulateTerms(err.message), 'simulate');
     throw err;
   }
   const outPath = resolve(io.cwd, values.out);

@@ -102,7 +102,7 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
   const ratioJ = onlyRatios ? (opts.start.J ?? 1e-4) : NaN;
   if (onlyRatios) {
     fix.J = ratioJ;
-    notInformed.push({ name: 'J', reason: 'a coast-down from speed alone shows only the deceleration: b/J (and Tc/J) — not J, b or Tc on their own', wouldInform: 'a driven run with current, or J known (--fix J=…)' });
+    notInformed.push({ name: 'J', reason: 'a coast-down from speed alone shows only the deceleration: b/J (and Tc/J) — not J, b or Tc on their own', wouldInform: 'a driven run with current, or J pinned to a known value' });
   }
   // No current anywhere and R not pinned: the speed sees R only with J and b.
   // Driven runs with voltage and speed but no current. The speed alone shows K/(R·J),
@@ -224,7 +224,7 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
         removeEntry(setup, theta0, j);
       }
     }
-    notInformed.push({ name: 'R', reason: 'no recording logs current: from voltage and speed alone R enters only together with J and b', wouldInform: WOULD_INFORM.R! + ' (or pin R with --fix R=…)' });
+    notInformed.push({ name: 'R', reason: 'no recording logs current: from voltage and speed alone R enters only together with J and b', wouldInform: WOULD_INFORM.R! + ' (or R pinned to a known value)' });
   }
   if (speedOnlyDriven && index.b >= 0) {
     // b is held at its start (it trades against K along K²/R + b); the informed combinations are
@@ -236,7 +236,7 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
   if (tableOnly && index.R >= 0) {
     values.R = Math.exp(theta0[index.R]!);
     removeEntry(setup, theta0, index.R);
-    notInformed.push({ name: 'R', reason: 'steady points alone give V = (K + R·b/K)·ω and i = (b/K)·ω: R and K do not part', wouldInform: 'a locked-rotor step (then pin R with --fix R=…)' });
+    notInformed.push({ name: 'R', reason: 'steady points alone give V = (K + R·b/K)·ω and i = (b/K)·ω: R and K do not part', wouldInform: 'a locked-rotor step, or R pinned to a known value' });
   }
   const p = entries.length;
   const names = entries.map((e) => e.name);
@@ -480,7 +480,7 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
     report('V/ω slope', slopeV, -1, logGrad([['Kt', (v.Kt - (v.R * v.b) / v.Kt) / slopeV], ['b', wR]]));
     for (const c of ['Kt', 'Ke', 'b'] as const) {
       const e = parameters[c];
-      if (e !== undefined && e.fixed !== true) { e.identified = false; e.unidentifiedReason = 'with R unknown, steady points pin only b/Kt and V/ω = Kt + R·b/Kt (pin R with --fix R=… from a locked-rotor run)'; }
+      if (e !== undefined && e.fixed !== true) { e.identified = false; e.unidentifiedReason = 'with R unknown, steady points pin only b/Kt and V/ω = Kt + R·b/Kt (R pinned to a known value, e.g. from a locked-rotor run, parts them)'; }
     }
   }
   if (speedOnlyDriven) {
@@ -492,7 +492,7 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
     report('mechanical time constant', (v.R * v.J) / D, -1, logGrad([['J', 1], ['Kt', -2 * wk], ['b', -wb]]));
     if (ext.coulomb && index.Tc >= 0) report('friction speed drop', (v.R * v.Tc) / D, -1, logGrad([['Tc', 1], ['Kt', -2 * wk], ['b', -wb]]));
     const why = noCurrent
-      ? 'without current, voltage and speed pin only the speed gain and the mechanical time constant (pin R with --fix R=…)'
+      ? 'without current, voltage and speed pin only the speed gain and the mechanical time constant (R pinned to a known value parts the rest)'
       : 'without current, voltage and speed pin only the speed gain, the mechanical time constant and the friction\'s speed drop: K and b trade along K²/R + b';
     for (const c of ['Kt', 'Ke', 'J', 'b', 'Tc', 'Ts', 'c'] as const) {
       const e = parameters[c];

@@ -267,7 +267,7 @@ function fitPrepared(recs: PreparedRecording[], opts: ReturnType<typeof checkFit
     } else if (informedBy[c].length === 0) {
       notInformed.push({ name: c, reason: 'the model needs it but no given recording pins it down', wouldInform: WOULD_INFORM[c] });
     } else if ((c === 'b' || c === 'Tc' || c === 'J') && !jKnown && informedBy[c].every((n) => recs.find((r) => r.name === n)?.kind === 'coast-down')) {
-      notInformed.push({ name: c, reason: 'a coast-down informs only b/J and Tc/J; J is not known from another recording or options.fix', wouldInform: WOULD_INFORM.J });
+      notInformed.push({ name: c, reason: 'a coast-down informs only b/J and Tc/J; J is neither informed by another recording nor pinned to a known value', wouldInform: WOULD_INFORM.J });
     }
   }
   const guesses = guessConstants(recs, fixed);

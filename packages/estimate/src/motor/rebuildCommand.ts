@@ -91,7 +91,7 @@ export function rebuildCommand(time: Float64Array, voltage: Float64Array, mode: 
   if (mode === 'measured') {
     return {
       voltage: Float64Array.from(voltage),
-      handling: { method: 'measured', reason: 'asked for the raw measured voltage (options.voltage = "measured"); its noise biases the constants', stepTime: isPiecewise ? stepTime : null, residualRatio: 0, voltageSigma: sigma },
+      handling: { method: 'measured', reason: 'the raw measured voltage, as asked (no rebuilt command); its noise biases the constants', stepTime: isPiecewise ? stepTime : null, residualRatio: 0, voltageSigma: sigma },
       segments: isPiecewise ? segs : null,
     };
   }
