@@ -20,14 +20,13 @@ const CHANNELS: readonly ChannelName[] = ['voltage', 'current', 'speed', 'positi
  * interval and whether the recordings identify it (with the reason and the recording that would
  * when they do not); the correlation and conditioning of the estimate; residual statistics per
  * recording and channel; findings from the recordings and from the fit; the model comparisons
- * behind them; and, when a finding says Coulomb friction and the fit has none, a re-fit with Tc
- * and the verdict which model the data support.
+ * behind them.
  *
  * ## Method
- * - Intervals: cov = s²(JᵀJ)⁺ from `fit.normalMatrix`, `fit.ssr`, `fit.rows`
- *   (`covarianceFromNormalMatrix`, s² = SSR/(rows − p)); Student-t with rows − p degrees of freedom
- *   on the fitted scale (θ = ln p for the positive constants, so the interval is
- *   [p·e^{−t·SE(θ)}, p·e^{t·SE(θ)}], SE(p) = p·SE(θ) by the delta method; Tc is linear).
+ * - Intervals: read from the estimator (`fit.parameters[c].standardError`/`interval95`), which
+ *   states them once from s²(JᵀJ)⁺ at the optimum (widened by its sandwich where residuals are
+ *   correlated); the conditioning from `fit.information`. The diagnosis does not refit: the model
+ *   choice is `identifyMotor`'s.
  * - Identifiability: the constants in `fit.notInformed` (with the estimator's reason), the rules of
  *   `assessIdentifiability` on the recordings' kinds, channels and sample intervals (τe = L/R from
  *   the fit), and the rank of the covariance; an unidentifiable constant gets no interval.

@@ -1,6 +1,4 @@
-import { covarianceFromNormalMatrix } from '@motorprint/estimate';
 import type { CovarianceSummary, MotorFit } from '@motorprint/estimate';
-import tQuantile from '@stdlib/stats-base-dists-t-quantile';
 import { assessIdentifiability } from './assessIdentifiability.js';
 import { correlationFromCovariance } from './correlationFromCovariance.js';
 import type { ParameterDiagnosis, RecordingDescription } from './types.js';
@@ -26,15 +24,11 @@ export interface ParameterPart {
 const finite = (x: number): number | null => (Number.isFinite(x) ? x : null);
 
 /**
- * The parameter part of `diagnoseFit` (not exported from the package): covariance from the fit's
- * normal matrix, Student-t intervals on the fitted scale transformed back, identifiability from
- * the covariance, the structural rules and the estimator's `notInformed`.
- *
- * ## Method
- * cov = s²(JᵀJ)⁺ with s² = SSR/(rows − p) (`covarianceFromNormalMatrix`). For θ = ln p:
- * SE(p) = p·SE(θ) (delta method) and the interval [p·e^{−t·SE(θ)}, p·e^{t·SE(θ)}], t = t_{0.975, rows−p};
- * for Tc (fitted on a linear scale θ = Tc/scale) the interval is symmetric, the scale recovered as
- * Tc/θ. Kt/Ke (both fitted): var(ln Kt − ln Ke) = C_tt + C_ee − 2·C_te.
+ * The parameter part of `diagnoseFit` (not exported from the package): reads the estimator's
+ * standard errors, intervals and information at the optimum (`MotorFit.parameters`,
+ * `MotorFit.information`, `MotorFit.covariance`), adds the structural rules and the estimator's
+ * `notInformed`, and the correlation of the fitted constants. Nothing here recomputes the
+ * covariance or parses θ names.
  *
  * @param fit - the fit
  * @param descriptions - one description per recording, in the fit's order
@@ -42,23 +36,17 @@ const finite = (x: number): number | null => (Number.isFinite(x) ? x : null);
  */
 export function diagnoseParameters(fit: MotorFit, descriptions: RecordingDescription[]): ParameterPart {
   const p = fit.theta.length;
-  const names = fit.fittedNames;
   const tied = fit.variant.torqueConstant === 'equal';
-  const thetaIndex = (c: string): number => {
-    if (c === 'Tc') return names.indexOf('Tc');
-    if (tied && (c === 'Kt' || c === 'Ke')) return names.indexOf('ln K');
-    return names.indexOf(`ln ${c}`);
-  };
-  let summary: CovarianceSummary | null = null;
+  // Where each constant sits in θ, as the estimator laid it out (no name parsing here).
+  const info = fit.information;
+  const thetaIndex = (c: string): number => info?.constantIndex[c] ?? -1;
   const dof = fit.rows - p;
-  if (p > 0 && dof >= 1 && Number.isFinite(fit.ssr) && fit.normalMatrix.length === p * p) {
-    try {
-      summary = covarianceFromNormalMatrix(fit.normalMatrix, p, fit.ssr, fit.rows);
-    } catch {
-      summary = null;
-    }
-  }
-  const t = dof >= 1 ? tQuantile(0.975, dof) : NaN;
+  // The estimator's one analysis of the information at the optimum, read, not recomputed.
+  const summary: CovarianceSummary | null = info !== undefined && fit.covariance instanceof Float64Array && fit.covariance.length === p * p ? {
+    residualVariance: fit.residualVariance, degreesOfFreedom: dof, covariance: fit.covariance,
+    standardErrors: Float64Array.from({ length: p }, (_, j) => (info.identifiable[j] ? Math.sqrt(fit.covariance![j * p + j]!) : NaN)),
+    singularValues: info.singularValues, conditionNumber: info.conditionNumber, identifiable: info.identifiable, rank: info.rank,
+  } : null;
   // Structural verdicts: with Kt = Ke imposed, ask about Kt only (the rule on Kt apart from Ke does not apply).
   const fitted = CONSTANTS.filter((c) => thetaIndex(c) >= 0 && !(tied && c === 'Ke'));
   const mapped = summary === null ? null : { ...summary, identifiable: fitted.map((c) => summary!.identifiable[thetaIndex(c)] === true) };

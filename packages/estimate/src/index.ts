@@ -42,15 +42,13 @@ export { classifyRecording } from './motor/classifyRecording.js';
 export { detectVoltageSegments } from './motor/detectVoltageSegments.js';
 export { estimateNoiseLevel } from './motor/estimateNoiseLevel.js';
 export { detectEncoderSpeed } from './motor/detectEncoderSpeed.js';
-export { fitInverseDynamics } from './motor/fitInverseDynamics.js';
 export { rebuildCommand } from './motor/rebuildCommand.js';
 export type { RebuiltCommand, SineBasis } from './motor/rebuildCommand.js';
 export { zeroPhaseLowPass } from './motor/zeroPhaseLowPass.js';
 export type {
-  ChannelFit, ConstantCovariance, FitMotorOptions, InputHandling, MotorChannel, MotorConstantName, MotorExperimentKind, MotorFit,
+  ChannelFit, ConstantCovariance, FitInformation, FitMotorOptions, InputHandling, MotorChannel, MotorConstantName, MotorExperimentKind, MotorFit,
   MotorRecordingInput, NoiseLevel, ParameterEstimate, RecordingData, RecordingReport, StartAttempt, UninformedConstant, VoltageSegment,
 } from './motor/types.js';
-export type { InverseDynamicsInput, InverseDynamicsFit } from './motor/fitInverseDynamics.js';
 export type { ModelExtensions } from './detailed/types.js';
 
 // Experiment planning (predicted standard errors, suggestions, locked-rotor budget).

@@ -557,6 +557,10 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
       description: `DC motor, Kt = Ke imposed (SI)${extNames.length ? `, with ${extNames.map(describeExtension).join(', ')}` : ', lumped linear model, viscous friction only'}`,
     },
     fittedNames: names, theta: Array.from(theta), normalMatrix: Float64Array.from(sol.JtJ), covariance: cov === null ? null : Float64Array.from(cov.covariance), constantCovariance,
+    ...(cov === null ? {} : { information: {
+      constantIndex: Object.fromEntries(Object.entries(index).filter(([, j]) => j >= 0)),
+      singularValues: cov.singularValues, conditionNumber: cov.conditionNumber, identifiable: cov.identifiable, rank: cov.rank,
+    } }),
     ssr: sol.ssr, rows, residualVariance: dof > 0 ? sol.ssr / dof : NaN, degreesOfFreedom: dof, start, starts: attempts,
     iterations, jacobianEvaluations, functionEvaluations, converged: sol.converged, stopReason: sol.stopReason,
   };

@@ -19,7 +19,7 @@ import type { ModelExtensions } from '../detailed/types.js';
 import type { PreparedRecording } from './prepareRecording.js';
 import tQuantile from '@stdlib/stats-base-dists-t-quantile';
 import type {
-  ChannelFit, FitMotorOptions, MotorConstantName, NoiseLevel, MotorExperimentKind, MotorFit, MotorRecordingInput,
+  ChannelFit, FitInformation, FitMotorOptions, MotorConstantName, NoiseLevel, MotorExperimentKind, MotorFit, MotorRecordingInput,
   ParameterEstimate, RecordingReport, StartAttempt, UninformedConstant,
 } from './types.js';
 
@@ -502,12 +502,16 @@ function fitPrepared(recs: PreparedRecording[], opts: ReturnType<typeof checkFit
   let se: Float64Array | null = null;
   let covariance: Float64Array | null = null;
   let identifiable: boolean[] = new Array<boolean>(p).fill(true);
+  let information: FitInformation | undefined;
   if (dof > 0 && Number.isFinite(sol.ssr)) {
     try {
       const cov = covarianceFromNormalMatrix(sol.JtJ, p, sol.ssr, sol.rows);
       se = cov.standardErrors;
       covariance = cov.covariance;
       identifiable = cov.identifiable;
+      const constantIndex: Record<string, number> = {};
+      for (const [c, i] of [['R', layout.iR], ['L', layout.iL], ['Kt', layout.iKt], ['Ke', layout.iKe], ['J', layout.iJ], ['b', layout.iB], ['Tc', layout.iTc]] as const) if (i >= 0) constantIndex[c] = i;
+      information = { constantIndex, singularValues: cov.singularValues, conditionNumber: cov.conditionNumber, identifiable: cov.identifiable, rank: cov.rank };
     } catch {
       se = null;
     }
@@ -573,7 +577,7 @@ function fitPrepared(recs: PreparedRecording[], opts: ReturnType<typeof checkFit
   });
   return {
     parameters, notInformed, variant, recordings: reports,
-    fittedNames: thetaNames, theta: Array.from(sol.theta), normalMatrix: sol.JtJ, covariance, constantCovariance, degreesOfFreedom: dof,
+    fittedNames: thetaNames, theta: Array.from(sol.theta), normalMatrix: sol.JtJ, covariance, constantCovariance, ...(information ? { information } : {}), degreesOfFreedom: dof,
     ssr: sol.ssr, rows: sol.rows, residualVariance: dof > 0 ? sol.ssr / dof : NaN, start,
     iterations, jacobianEvaluations, functionEvaluations, starts: attempts,
     converged: sol.converged, stopReason: sol.stopReason,

@@ -121,6 +121,20 @@ export interface ParameterEstimate {
   unidentifiedReason?: string;
 }
 
+/** The information at a fit's optimum (see `MotorFit.information`). */
+export interface FitInformation {
+  /** θ index of each fitted constant (Kt and Ke share one index when Kt = Ke is imposed; Ts's is that of ln(Ts − Tc)). */
+  constantIndex: Record<string, number>;
+  /** Singular values of the column-scaled Jacobian, largest first. */
+  singularValues: Float64Array;
+  /** Largest over smallest singular value (Infinity when one is 0). */
+  conditionNumber: number;
+  /** Per θ entry: false when it loads on a direction whose singular value was dropped. */
+  identifiable: boolean[];
+  /** Number of singular values kept. */
+  rank: number;
+}
+
 /** A constant that the given recordings do not inform. */
 export interface UninformedConstant {
   /** Constant name. */
@@ -205,6 +219,12 @@ export interface MotorFit {
    * derived figures): the covariance of their logarithms, ln p, at the optimum.
    */
   constantCovariance?: ConstantCovariance;
+  /**
+   * The information at the optimum as the estimator saw it (one analysis of JᵀJ, read by the
+   * diagnosis): where each constant sits in θ, the singular values and which θ entries the
+   * covariance could resolve. Absent when no covariance could be formed.
+   */
+  information?: FitInformation;
   /** Degrees of freedom rows − p of the intervals. */
   degreesOfFreedom?: number;
   /** Sum of squared whitened residuals at the optimum. */
