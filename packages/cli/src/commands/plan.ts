@@ -152,7 +152,7 @@ export function formatPlan(plan: ExperimentPlan, paint: Paint): string {
   }
   const missed = plan.constants.filter((c) => !c.met && c.status !== 'not-informed' && !plan.suggestions.some((s) => s.constant === c.name));
   if (missed.length > 0 && plan.suggestions.length + missed.length > 0) {
-    out.push(`  ${missed.map((c) => c.name).join(', ')}: no change of duration, sample rate or bit time tried reaches the target (or the search was skipped); add a run that informs ${missed.length === 1 ? 'it' : 'them'}`);
+    out.push(`  ${missed.map((c) => c.name).join(', ')}: no change of duration, sample rate, bit time or level tried reaches the target (or the search was skipped); add a run that informs ${missed.length === 1 ? 'it' : 'them'}`);
   }
   if (plan.lockedRotor.length > 0) out.push('');
   for (const lr of plan.lockedRotor) {

@@ -110,8 +110,8 @@ export interface PlanSuggestion {
   constant: string;
   /** The run changed. */
   run: string;
-  /** Changes made: knob, old and new value. */
-  changes: { knob: 'duration' | 'sampleRate' | 'bitTime'; from: number; to: number }[];
+  /** Changes made: knob, old and new value (`levels`: the top level [V]; all levels scale with it). */
+  changes: { knob: 'duration' | 'sampleRate' | 'bitTime' | 'levels'; from: number; to: number }[];
   /** Relative SE of the constant before and after. */
   from: number;
   to: number;
