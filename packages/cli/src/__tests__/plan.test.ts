@@ -73,7 +73,7 @@ describe('motorprint plan', () => {
   it('exits 1 with the CLI names when a run is unusable', async () => {
     const c = capture(dir);
     expect(await runCli(['plan', join(ROOT, 'fixtures/tern24.params.json'), '--run', 'step'], c.io)).toBe(EXIT.dataProblem);
-    expect(c.stderr()).toMatch(/--run 1 : give the noise/);
+    expect(c.stderr()).toMatch(/--run 1: give the noise or resolution of the current or speed \(noise-current, noise-speed, step-current, step-speed or counts\)/);
     expect(c.stderr()).not.toMatch(/runs\[/);
   });
 });

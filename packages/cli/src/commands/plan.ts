@@ -238,8 +238,8 @@ async function run(args: string[], io: CliIo): Promise<number> {
     plan = planExperiments(draft as unknown as MotorParams, runs, options);
   } catch (err) {
     // The library names runs[i].field; the command line names --run i.
-    const msg = (err as Error).message.replace(/^planExperiments: /, '').replace(/runs\[(\d+)\]\.?/g, (_, i: string) => `--run ${Number(i) + 1} `)
-      .replace(/options\.target/, '--target').replace(/noise\.(\w+)/g, 'noise-$1').replace(/resolution\.(\w+)/g, 'step-$1').replace(/sampleRate/g, 'rate').replace(/bitTime/g, 'bit').replace(/encoderCounts/g, 'counts');
+    const msg = (err as Error).message.replace(/^planExperiments: /, '').replace(/runs\[(\d+)\]\./g, (_, i: string) => `--run ${Number(i) + 1} `).replace(/runs\[(\d+)\]/g, (_, i: string) => `--run ${Number(i) + 1}`)
+      .replace(/options\.target/, '--target').replace(/noise\.current \(or resolution\.current\)/g, 'noise-current (or step-current)').replace(/noise\.speed \(or resolution\.speed, encoderCounts\)/g, 'noise-speed (or step-speed, counts)').replace(/noise\.(\w+)/g, 'noise-$1').replace(/resolution\.(\w+)/g, 'step-$1').replace(/sampleRate/g, 'rate').replace(/bitTime/g, 'bit').replace(/encoderCounts/g, 'counts');
     if (err instanceof RangeError || err instanceof TypeError) throw new Error(`the plan cannot be computed: ${msg}`);
     throw err;
   }

@@ -158,7 +158,8 @@ export function planExperiments(draft: MotorParams, runs: PlannedRun[], options:
       return m;
     } catch { return new Map<string, number>(); }
   });
-  const tied = constants.includes('K');
+  // Kt = Ke unless a loaded run separates them (as in the fit).
+  const tied = !resolved.some((r) => r.kind === 'loaded');
   const valueOf = (c: string): number => (c === 'K' ? draft.Kt : (draft as unknown as Record<string, number>)[c]!);
   const allNames = tied ? ['R', 'L', 'K', 'J', 'b'] : ['R', 'L', 'Kt', 'Ke', 'J', 'b'];
   const planned: PlannedConstant[] = allNames.map((c) => {

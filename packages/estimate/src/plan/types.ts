@@ -35,7 +35,7 @@ export interface PlannedRun {
   levels?: number[];
   /** PRBS bit time [s]. @default max(τm/2, one sample) */
   bitTime?: number;
-  /** Noise σ per channel; the quantisation of `resolution` adds q/√12. @default `PlanOptions.noise` */
+  /** Noise σ per channel; the quantisation of `resolution` adds q/√12. @default `PlanOptions.noise`, channel by channel */
   noise?: PlannedNoise;
   /** Quantisation step per channel [V, A, rad/s]: contributes σ = q/√12. */
   resolution?: { voltage?: number; current?: number; speed?: number };
