@@ -5,6 +5,7 @@ import { readParameterSet } from '../readParameterSet.js';
 import { formatParameterSetMarkdown } from '../formatParameterSetMarkdown.js';
 import { formatParameterSetCsv } from '../formatParameterSetCsv.js';
 import { buildParameterSet } from '../buildParameterSet.js';
+import { renderHtmlReport } from '../renderHtmlReport.js';
 import type { ConstantCovariance, ConstantName } from '../types.js';
 import { INVENTED_PROVENANCE, inventedFit } from './inventedFit.js';
 
@@ -70,6 +71,10 @@ describe('loopTuning', () => {
     expect(again.tuning).toEqual(JSON.parse(JSON.stringify(set.tuning)));
     expect(formatParameterSetMarkdown(set)).toMatch(/## Loop tuning/);
     expect(formatParameterSetCsv(set)).toMatch(/tuning\.speedLoop\.Kp/);
+    const fit = inventedFit();
+    const html = renderHtmlReport({ parameterSet: buildParameterSet(fit, { provenance: INVENTED_PROVENANCE, tuning: {} }), fit });
+    expect(html).toMatch(/<h2>Loop tuning<\/h2>/);
+    expect(html).toMatch(/current-loop bandwidth 1000 Hz \(default\)/);
     expect(buildParameterSet(inventedFit(), { provenance: INVENTED_PROVENANCE }).tuning).toBeUndefined();
   });
 });
