@@ -183,7 +183,8 @@ export function planExperiments(draft: MotorParams, runs: PlannedRun[], options:
   const notes: string[] = [];
   for (const r of resolved) {
     const h = 1 / r.sampleRate;
-    if ((r.kind === 'locked-rotor' || r.kind === 'step' || r.kind === 'prbs' || r.kind === 'multisine' || r.kind === 'loaded') && h > tc.electrical / 5) {
+    if ((r.kind === 'locked-rotor' || r.kind === 'step' || r.kind === 'prbs' || r.kind === 'multisine' || r.kind === 'loaded') && h > tc.electrical / 2) {
+      // The same line as the fit's slow-sampling finding: τe shorter than two sample intervals.
       notes.push(`${r.name}: the sample interval ${show('duration', h)} is ${(h / tc.electrical).toPrecision(2)} τe (τe = L/R = ${show('duration', tc.electrical)}); L is seen in few samples per transient`);
     }
     if (r.kind === 'prbs' && r.bitTime !== null && (r.bitTime < tc.mechanical / 10 || r.bitTime > 3 * tc.mechanical)) {
