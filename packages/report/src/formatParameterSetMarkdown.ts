@@ -1,5 +1,6 @@
 import { formatNumber } from './formatNumber.js';
 import type { ParameterSet } from './types.js';
+import { tuningRows } from './tuningRows.js';
 
 function esc(s: string): string {
   return s.replace(/\|/g, '\\|').replace(/\r?\n/g, ' ');
@@ -10,7 +11,7 @@ function interval(ci: [number, number] | null): string {
 
 /**
  * The parameter set as a Markdown page: identification, constants with 95 % intervals, R at the
- * reference temperature, derived figures, findings, constants not informed, fit summary and
+ * reference temperature, derived figures, loop tuning (when present), findings, constants not informed, fit summary and
  * provenance. Numbers to 4 significant digits (the JSON and CSV keep full precision).
  *
  * @param set - the parameter set
@@ -44,6 +45,14 @@ export function formatParameterSetMarkdown(set: ParameterSet): string {
   out.push('| figure | value | unit | 95 % interval | formula | note |', '|---|---:|---|---|---|---|');
   for (const f of Object.values(set.derived)) {
     out.push(`| ${esc(f.label)} | ${formatNumber(f.value)} | ${f.unit} | ${interval(f.ci95)} | ${esc(f.formula)} | ${esc(f.note)} |`);
+  }
+  if (set.tuning !== undefined) {
+    const t = tuningRows(set.tuning);
+    out.push('', '## Loop tuning', '', `${esc(t.settings)}. Method: ${esc(set.tuning.method)}.`, '');
+    out.push('| gain | value | unit | 95 % interval | formula |', '|---|---:|---|---|---|');
+    for (const g of t.rows) out.push(`| ${g.label} | ${formatNumber(g.value)} | ${g.unit} | ${interval(g.ci95)} | ${esc(g.formula)} |`);
+    out.push('', ...set.tuning.assumptions.map((a) => `- Assumed: ${esc(a)}.`));
+    for (const w of set.tuning.warnings) out.push(`- **warning**: ${esc(w)}.`);
   }
   out.push('', '## Findings', '');
   if (set.findings.length === 0) out.push('None reported.');

@@ -11,13 +11,15 @@ export type {
   BuildParameterSetOptions, ConstantCovariance, ConstantName, ConstantValues, CopperLawConstant, DerivedFigure,
   DiagnosisComparisonLike, DiagnosisLike, DiagnosisParameterLike, DiagnosisResidualLike, HtmlReportInput, InputFile, JsonValue,
   OperatingCurve, ParameterEntry, ParameterSet, ParameterSetSchemaId, PlotOptions, PlotResult, PlotSeries, Provenance,
-  RecordingSummary, ReportFinding, ResistanceAtReference,
+  RecordingSummary, ReportFinding, ResistanceAtReference, LoopTuningOptions, TuningGain, TuningSection,
 } from './types.js';
 export { buildParameterSet } from './buildParameterSet.js';
 export { checkProvenance } from './checkProvenance.js';
 export { constantCovariance } from './constantCovariance.js';
 export type { CovarianceSource } from './constantCovariance.js';
 export { derivedFigures } from './derivedFigures.js';
+export { loopTuning } from './loopTuning.js';
+export { tuningRows } from './tuningRows.js';
 export { normaliseResistance } from './normaliseResistance.js';
 export { readParameterSet } from './readParameterSet.js';
 export { ParameterSetError } from './ParameterSetError.js';

@@ -38,7 +38,10 @@ Options:
   --log-speed              with --encoder-counts, log speed as well
   --jitter S               σ of the sample-time jitter (must be < a quarter sample interval)
   --seed N                 seed of the noise generator (default 1)
-  --json                   print the truth sidecar on stdout as well`;
+  --json                   print the truth sidecar on stdout as well
+
+Exit codes: 0 written; 1 the parameter file cannot be read or the output cannot be written;
+2 command-line mistake, including constants or options the generator cannot use.`;
 
 async function run(args: string[], io: CliIo): Promise<number> {
   const { values, positionals } = parseSubcommandArgs('simulate', args, {
