@@ -21,7 +21,9 @@ export function informs(rec: PreparedRecording): LumpedName[] {
   switch (rec.kind) {
     case 'locked-rotor': return ['R', 'L'];
     case 'coast-down': return ['b', 'Tc'];
-    case 'steady-state': return ['R', 'Kt', 'Ke', 'J', 'b', 'Tc'];
+    // A logged staircase (not a table of points) also holds the transients between its levels:
+    // with current sampled through them L is informed too (the covariance says how well).
+    case 'steady-state': return !rec.table && hasI ? ['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc'] : ['R', 'Kt', 'Ke', 'J', 'b', 'Tc'];
     // With current logged, a driven run informs Tc when the model has it: it acts as a load torque
     // that, unlike b·ω, does not scale with speed (the covariance says when the speed range is too
     // narrow to tell them apart).
