@@ -21,14 +21,20 @@ export type {
 } from '@motorprint/ingest';
 export {
   simulate, simulateDetailed, stepResponse, motorFigures, copperResistance, generateRecording, formatRecordingCsv,
+  lockedRotorHoldTime, linearModelForms,
 } from '@motorprint/model';
-export type { MotorParams, DetailedParams, RecordingOptions, GeneratedRecording } from '@motorprint/model';
-export { fitMotor, solveLeastSquares, fitCurve } from '@motorprint/estimate';
-export type { MotorFit, FitMotorOptions, MotorRecordingInput, ParameterEstimate } from '@motorprint/estimate';
+export type {
+  MotorParams, DetailedParams, RecordingOptions, GeneratedRecording, LockedRotorHold, LockedRotorHoldOptions, LinearModelForms, TransferFunction,
+} from '@motorprint/model';
+export { fitMotor, solveLeastSquares, fitCurve, planExperiments, simulatePlannedRun, checkLockedRotorHold } from '@motorprint/estimate';
+export type {
+  MotorFit, FitMotorOptions, MotorRecordingInput, ParameterEstimate, ExperimentPlan, PlannedRun, PlanOptions, PlannedConstant,
+  PlanSuggestion, LockedRotorBudget, LockedRotorHoldCheck,
+} from '@motorprint/estimate';
 export { diagnoseFit, residualStats } from '@motorprint/diagnose';
 export type { FitDiagnosis, DiagnosisFinding, ParameterDiagnosis } from '@motorprint/diagnose';
 export {
-  buildParameterSet, readParameterSet, derivedFigures, normaliseResistance,
+  buildParameterSet, readParameterSet, derivedFigures, normaliseResistance, loopTuning,
   formatParameterSetJson, formatParameterSetCsv, formatParameterSetMarkdown, renderHtmlReport,
 } from '@motorprint/report';
-export type { ParameterSet, DerivedFigure, BuildParameterSetOptions } from '@motorprint/report';
+export type { ParameterSet, DerivedFigure, BuildParameterSetOptions, LoopTuningOptions, TuningSection } from '@motorprint/report';

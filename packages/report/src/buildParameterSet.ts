@@ -2,6 +2,7 @@ import type { MotorFit, RecordingData } from '@motorprint/estimate';
 import { checkProvenance } from './checkProvenance.js';
 import { constantCovariance } from './constantCovariance.js';
 import { derivedFigures } from './derivedFigures.js';
+import { loopTuning } from './loopTuning.js';
 import { normaliseResistance } from './normaliseResistance.js';
 import type { BuildParameterSetOptions, ModelChoiceRecord, ParameterEntry, ParameterSet, ReportFinding } from './types.js';
 
@@ -190,6 +191,7 @@ export function buildParameterSet(fit: MotorFit, options: BuildParameterSetOptio
       tQuantile: finiteOrNull(cov.tQuantile),
     },
     derived,
+    ...(options.tuning !== undefined ? { tuning: loopTuning(cov, options.tuning) } : {}),
     fit: {
       converged: fit.converged,
       stopReason: String(fit.stopReason),

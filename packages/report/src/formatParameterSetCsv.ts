@@ -1,4 +1,5 @@
 import type { ParameterSet } from './types.js';
+import { tuningRows } from './tuningRows.js';
 
 function cell(v: string): string {
   return /[",\r\n]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v;
@@ -9,10 +10,10 @@ function n(x: number | null): string {
 
 /**
  * The parameter set as CSV (RFC 4180 quoting, `\n` line ends): one row per constant, the
- * resistance at the reference temperature, and one row per derived figure. Columns: name, value,
- * unit, low, high, identifiable, note. Numbers at full precision; empty cells for missing ones (the
- * identifiable cell of R at the reference temperature is empty when it was not computed; the note
- * says why).
+ * resistance at the reference temperature, one row per derived figure, and one per loop-tuning gain
+ * when the set has them (`tuning.currentLoop.Kp`, …). Columns: name, value, unit, low, high,
+ * identifiable, note. Numbers at full precision; empty cells for missing ones (the identifiable
+ * cell of R at the reference temperature is empty when it was not computed; the note says why).
  *
  * @param set - the parameter set
  * @returns CSV text with a header row
@@ -35,6 +36,10 @@ export function formatParameterSetCsv(set: ParameterSet): string {
   for (const [name, f] of Object.entries(set.derived)) {
     const note = [f.label, f.formula, f.note].filter((s) => s !== '').join('; ');
     rows.push([name, n(f.value), f.unit, n(f.ci95?.[0] ?? null), n(f.ci95?.[1] ?? null), String(f.identifiable), note]);
+  }
+  if (set.tuning !== undefined) {
+    const t = tuningRows(set.tuning);
+    for (const g of t.rows) rows.push([`tuning.${g.key}`, n(g.value), g.unit, n(g.ci95?.[0] ?? null), n(g.ci95?.[1] ?? null), String(g.ci95 !== null), `${g.label}; ${g.formula}; ${t.settings}`]);
   }
   return `${rows.map((row) => row.map(cell).join(',')).join('\n')}\n`;
 }

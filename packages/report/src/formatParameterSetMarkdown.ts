@@ -1,6 +1,7 @@
 import { formatInterval, intervalDigits } from './formatInterval.js';
 import { formatNumber } from './formatNumber.js';
 import type { ParameterSet } from './types.js';
+import { tuningRows } from './tuningRows.js';
 
 function esc(s: string): string {
   return s.replace(/\|/g, '\\|').replace(/\r?\n/g, ' ');
@@ -13,7 +14,7 @@ function valueAndInterval(value: number | null, ci: [number, number] | null): [s
 
 /**
  * The parameter set as a Markdown page: identification, constants with 95 % intervals, R at the
- * reference temperature, derived figures, findings, constants not informed, fit summary and
+ * reference temperature, derived figures, loop tuning (when present), findings, constants not informed, fit summary and
  * provenance. Numbers to 4 significant digits (the JSON and CSV keep full precision).
  *
  * @param set - the parameter set
@@ -52,6 +53,17 @@ export function formatParameterSetMarkdown(set: ParameterSet): string {
   for (const f of Object.values(set.derived)) {
     const [v, ci] = valueAndInterval(f.value, f.ci95);
     out.push(`| ${esc(f.label)} | ${v} | ${f.unit} | ${ci} | ${esc(f.formula)} | ${esc(f.note)} |`);
+  }
+  if (set.tuning !== undefined) {
+    const t = tuningRows(set.tuning);
+    out.push('', '## Loop tuning', '', `${esc(t.settings)}. Method: ${esc(set.tuning.method)}.`, '');
+    out.push('| gain | value | unit | 95 % interval | formula |', '|---|---:|---|---|---|');
+    for (const g of t.rows) {
+      const [v, ci] = valueAndInterval(g.value, g.ci95);
+      out.push(`| ${g.label} | ${v} | ${g.unit} | ${ci} | ${esc(g.formula)} |`);
+    }
+    out.push('', ...set.tuning.assumptions.map((a) => `- Assumed: ${esc(a)}.`));
+    for (const w of set.tuning.warnings) out.push(`- **warning**: ${esc(w)}.`);
   }
   out.push('', '## Findings', '');
   if (set.findings.length === 0) out.push('None reported.');

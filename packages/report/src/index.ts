@@ -11,7 +11,7 @@ export type {
   BuildParameterSetOptions, ConstantCovariance, ConstantName, ConstantValues, CopperLawConstant, DerivedFigure,
   DiagnosisComparisonLike, DiagnosisLike, DiagnosisParameterLike, DiagnosisResidualLike, HtmlReportInput, InputFile, JsonValue,
   OperatingCurve, ParameterEntry, ParameterSet, ParameterSetSchemaId, PlotOptions, PlotResult, PlotSeries, Provenance,
-  RecordingSummary, ReportFinding, ResistanceAtReference,
+  RecordingSummary, ReportFinding, ResistanceAtReference, LoopTuningOptions, TuningGain, TuningSection,
 } from './types.js';
 export { buildParameterSet } from './buildParameterSet.js';
 export { checkProvenance } from './checkProvenance.js';
@@ -19,6 +19,8 @@ export { constantCovariance } from './constantCovariance.js';
 export type { CovarianceSource } from './constantCovariance.js';
 export { derivedFigures } from './derivedFigures.js';
 export { RENAMED_FIGURE_KEYS } from './figureDefinitions.js';
+export { loopTuning } from './loopTuning.js';
+export { tuningRows } from './tuningRows.js';
 export { normaliseResistance } from './normaliseResistance.js';
 export { readParameterSet } from './readParameterSet.js';
 export { ParameterSetError } from './ParameterSetError.js';

@@ -1,6 +1,6 @@
 import { FIGURES, RENAMED_FIGURE_KEYS } from './figureDefinitions.js';
 import { ParameterSetError } from './ParameterSetError.js';
-import type { DerivedFigure, ParameterEntry, ParameterSet } from './types.js';
+import type { DerivedFigure, ParameterEntry, ParameterSet, TuningGain } from './types.js';
 
 const FN = 'readParameterSet';
 type Obj = Record<string, unknown>;
@@ -213,9 +213,40 @@ export function readParameterSet(text: string): ParameterSet {
   };
   // The model choice and the held-out checks are records kept as written (their shapes are in the schema).
   if (r.model !== undefined) out.model = readJson(obj(r.model, 'model'), 'model', 0) as unknown as NonNullable<ParameterSet['model']>;
+  if (r.tuning !== undefined) out.tuning = readTuning(r.tuning);
   if (r.checks !== undefined) {
     if (!Array.isArray(r.checks)) fail('checks', 'an array', r.checks);
     out.checks = readJson(r.checks, 'checks', 0) as unknown as NonNullable<ParameterSet['checks']>;
   }
   return out;
+}
+
+/** The tuning section: every gain and setting checked, the texts kept. */
+function readTuning(v: unknown): NonNullable<ParameterSet['tuning']> {
+  const o = obj(v, 'tuning');
+  const st = obj(o.settings, 'tuning.settings');
+  const setting = (k: string, sources: readonly string[]): { value: number; source: 'default' | 'given' } => {
+    const e = obj(st[k], `tuning.settings.${k}`);
+    return { value: num(e, 'value', `tuning.settings.${k}.`), source: oneOf(e, 'source', `tuning.settings.${k}.`, sources) as 'default' | 'given' };
+  };
+  const rate = obj(st.controllerRateHz, 'tuning.settings.controllerRateHz');
+  const gain = (path: string, g: unknown): TuningGain => {
+    const e = obj(g, path);
+    return { value: numOrNull(e, 'value', `${path}.`), unit: str(e, 'unit', `${path}.`), ci95: interval(e, 'ci95', `${path}.`), formula: str(e, 'formula', `${path}.`) };
+  };
+  const loop = (k: 'currentLoop' | 'speedLoop'): { Kp: TuningGain; Ki: TuningGain } => {
+    const l = obj(o[k], `tuning.${k}`);
+    return { Kp: gain(`tuning.${k}.Kp`, l.Kp), Ki: gain(`tuning.${k}.Ki`, l.Ki) };
+  };
+  return {
+    settings: {
+      currentBandwidthHz: setting('currentBandwidthHz', ['default', 'given']),
+      speedBandwidthHz: setting('speedBandwidthHz', ['default', 'given']),
+      phaseMarginDeg: setting('phaseMarginDeg', ['default', 'given']),
+      controllerRateHz: { value: numOrNull(rate, 'value', 'tuning.settings.controllerRateHz.'), source: oneOf(rate, 'source', 'tuning.settings.controllerRateHz.', ['given', 'none'] as const) },
+      maxBandwidthFraction: num(st, 'maxBandwidthFraction', 'tuning.settings.'),
+    },
+    currentLoop: loop('currentLoop'), speedLoop: loop('speedLoop'),
+    assumptions: strings(o, 'assumptions', 'tuning.'), method: str(o, 'method', 'tuning.'), warnings: strings(o, 'warnings', 'tuning.'),
+  };
 }

@@ -1,4 +1,5 @@
 import { autocorrelationInto } from '@motorprint/diagnose';
+import { tuningRows } from './tuningRows.js';
 import { measuredChannel } from '@motorprint/estimate';
 import { escapeXml } from './escapeXml.js';
 import { formatInterval, intervalDigits } from './formatInterval.js';
@@ -60,6 +61,16 @@ function derivedTable(set: ParameterSet): string {
     `<td class="num">${interval(f.ci95)}</td><td><code>${h(f.formula)}</code></td><td class="note">${h(f.note)}</td></tr>`);
   return `<table><thead><tr><th>figure</th><th>value</th><th>unit</th><th>95 % interval</th><th>formula</th><th>note</th></tr></thead>` +
     `<tbody>${rows.join('')}</tbody></table>`;
+}
+
+function tuningSection(set: ParameterSet): string {
+  if (set.tuning === undefined) return '';
+  const t = tuningRows(set.tuning);
+  const rows = t.rows.map((g) => `<tr${g.value === null ? ' class="no"' : ''}><td>${h(g.label)}</td><td class="num">${formatNumber(g.value, 5)}</td><td>${h(g.unit)}</td>` +
+    `<td class="num">${interval(g.ci95)}</td><td><code>${h(g.formula)}</code></td></tr>`).join('');
+  const items = [...set.tuning.assumptions.map((a) => `<li>Assumed: ${h(a)}.</li>`), ...set.tuning.warnings.map((w) => `<li><strong>Warning:</strong> ${h(w)}.</li>`)].join('');
+  return `<section><h2>Loop tuning</h2><p>${h(t.settings)}. ${h(set.tuning.method)}.</p>` +
+    `<table><thead><tr><th>gain</th><th>value</th><th>unit</th><th>95 % interval</th><th>formula</th></tr></thead><tbody>${rows}</tbody></table><ul>${items}</ul></section>`;
 }
 
 function tracesSection(input: HtmlReportInput): string {
@@ -253,6 +264,7 @@ ${varianceWarning(set)}${constantsTable(set)}</section>
 <section><h2>Derived figures</h2>
 <p>At ${V.value === null ? 'no rated voltage' : `<strong>${formatNumber(V.value)} V</strong>`} (${h(V.source)}). Intervals by the delta method on ln f with a central-difference gradient w.r.t. the fitted parameters, nuisances marginalised (docs/derived-figures.md).</p>
 ${derivedTable(set)}</section>
+${tuningSection(set)}
 <section><h2>Operating curves</h2>${curvesSection(set)}</section>
 <section><h2>Recordings: measured and fitted</h2>${tracesSection(input)}</section>
 <section><h2>Held-out checks</h2>${checksSection(set)}</section>

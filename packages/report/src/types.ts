@@ -166,6 +166,8 @@ export interface ParameterSet {
   notInformed: { name: string; reason: string; wouldInform: string }[];
   /** Findings with evidence and advice. */
   findings: ReportFinding[];
+  /** Loop-tuning figures (current- and speed-loop PI gains with intervals), when asked for. */
+  tuning?: TuningSection;
   /** Where it came from. */
   provenance: Provenance;
 }
@@ -273,6 +275,8 @@ export interface BuildParameterSetOptions {
   referenceTemperature?: number;
   /** Copper law constant k [°C]. @default 234.5 */
   copperConstant?: CopperLawConstant;
+  /** Add the loop-tuning section with these settings (`{}`: the defaults, stated as such). @default none */
+  tuning?: LoopTuningOptions;
   /** Provenance: tool, date, inputs, options. Required: the library reads no clock and no files. */
   provenance: Provenance;
   /** The model choice to record (from `identifyMotor`). @default none */
@@ -385,4 +389,51 @@ export interface HtmlReportInput {
   diagnosis?: DiagnosisLike;
   /** Report title. @default 'DC motor parameter report' */
   title?: string;
+}
+
+/** Options of `loopTuning` (and the `tuning` option of `buildParameterSet`). */
+export interface LoopTuningOptions {
+  /** Current-loop bandwidth [Hz]. @default 1000 */
+  currentBandwidthHz?: number;
+  /** Speed-loop bandwidth (crossover) [Hz]. @default 100 */
+  speedBandwidthHz?: number;
+  /** Speed-loop phase margin [°], between 0 and 90. @default 60 */
+  phaseMarginDeg?: number;
+  /** Controller sample rate [Hz], for the bandwidth check; absent: not checked. */
+  controllerRateHz?: number;
+}
+
+/** One controller gain with its propagated interval. */
+export interface TuningGain {
+  /** Gain [unit], or null when the constants it needs are missing or the design has no solution. */
+  value: number | null;
+  /** Unit text. */
+  unit: string;
+  /** 95 % interval (delta method on ln of the gain), or null. */
+  ci95: [number, number] | null;
+  /** Formula in words. */
+  formula: string;
+}
+
+/** The loop-tuning section of a parameter set. */
+export interface TuningSection {
+  /** The design inputs, each marked `default` or `given`. */
+  settings: {
+    currentBandwidthHz: { value: number; source: 'default' | 'given' };
+    speedBandwidthHz: { value: number; source: 'default' | 'given' };
+    phaseMarginDeg: { value: number; source: 'default' | 'given' };
+    controllerRateHz: { value: number | null; source: 'given' | 'none' };
+    /** Largest bandwidth as a fraction of the controller rate before a warning. */
+    maxBandwidthFraction: number;
+  };
+  /** Current-loop PI: V = Kp·e + Ki·∫e, e = i* − i. */
+  currentLoop: { Kp: TuningGain; Ki: TuningGain };
+  /** Speed-loop PI: i* = Kp·e + Ki·∫e, e = ω* − ω. */
+  speedLoop: { Kp: TuningGain; Ki: TuningGain };
+  /** Assumptions of the design, in words. */
+  assumptions: string[];
+  /** Method and its source. */
+  method: string;
+  /** Warnings (bandwidths against the controller rate and each other, an unreachable phase margin). */
+  warnings: string[];
 }

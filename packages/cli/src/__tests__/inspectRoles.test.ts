@@ -49,11 +49,11 @@ describe('inspect shows where each unit came from', () => {
     expect(row(text, 'Bus voltage').slice(0, 3)).toEqual(['Bus voltage', 'supply', 'V (units row)']);
   });
 
-  it('a time-less table: layout line instead of sampling, the kind steady-state-table, SD columns', async () => {
+  it('a time-less table: layout line instead of sampling, the kind steady-state, SD columns', async () => {
     const c = capture();
     expect(await runCli(['inspect', `${FIXTURES}/steady-table.csv`], c.io)).toBe(EXIT.ok);
     const text = c.stdout();
-    expect(text).toContain('experiment kind: steady-state-table');
+    expect(text).toContain('experiment kind: steady-state — a table of operating points');
     expect(text).toContain('layout: table of 4 operating points');
     expect(text).not.toMatch(/sampling:|time span:/);
     expect(row(text, 'speed_sd_rpm').slice(0, 4)).toEqual(['speed_sd_rpm', 'sd of speed', 'rpm (suffix)', 'rad/s']);
@@ -69,7 +69,7 @@ describe('inspect shows where each unit came from', () => {
     const c = capture();
     expect(await runCli(['inspect', `${FIXTURES}/steady-table.csv`, `${FIXTURES}/units-row.csv`, '--json'], c.io)).toBe(EXIT.ok);
     const doc = JSON.parse(c.stdout());
-    expect(doc.files[0]).toMatchObject({ schema: 'motorprint.inspect/2', layout: 'table', sampling: null, kind: { kind: 'steady-state-table' } });
+    expect(doc.files[0]).toMatchObject({ schema: 'motorprint.inspect/2', layout: 'table', sampling: null, kind: { kind: 'steady-state' } });
     expect(doc.files[1].columns.map((x: { unitSource: string }) => x.unitSource)).toEqual(['units-row', 'units-row', 'units-row', 'units-row', 'units-row']);
   });
 });
@@ -109,9 +109,9 @@ describe('inspect errors name the command-line flags that fix them', () => {
 });
 
 describe('the experiment kind inspect shows', () => {
-  it('is steady-state-table for a table, unknown with a reason without voltage or speed, coast-down from speed alone', () => {
+  it('is steady-state for a table, unknown with a reason without voltage or speed, coast-down from speed alone', () => {
     const table = ingestText('voltage [V],current [A],speed [rad/s]\n2,0.1,35\n4,0.2,72\n').recording;
-    expect(experimentKindOf(table)).toEqual({ kind: 'steady-state-table', reason: 'a table of operating points (one row per point, no time column)' });
+    expect(experimentKindOf(table)).toEqual({ kind: 'steady-state', reason: 'a table of operating points (one row per point, no time column), fitted as steady-state points' });
     const noVoltage = ingestText('time [s],current [A]\n0,0\n1,1\n2,1\n').recording;
     expect(experimentKindOf(noVoltage).kind).toBe('unknown');
     expect(experimentKindOf(noVoltage).reason).toMatch(/no voltage .*and no speed/);

@@ -36,7 +36,7 @@ describe('the command line loads a subcommand only when it runs', () => {
     expect(commands, 'subcommand modules imported on the way to --help').toEqual([]);
   });
   it('lists each subcommand under the name and summary its module gives', async () => {
-    expect(SUBCOMMANDS.map((c) => c.name)).toEqual(['fit', 'inspect', 'lot', 'show', 'simulate']);
+    expect(SUBCOMMANDS.map((c) => c.name)).toEqual(['fit', 'inspect', 'lot', 'plan', 'show', 'simulate']);
     for (const entry of SUBCOMMANDS) {
       const sub = await entry.load();
       expect(sub.name).toBe(entry.name);

@@ -2,10 +2,11 @@ import { basename, dirname, extname, resolve } from 'node:path';
 import { mkdir, writeFile } from 'node:fs/promises';
 import { identifyMotor, type Identification, type IdentifyOptions } from '@motorprint/diagnose';
 import {
-  buildParameterSet, formatInterval as formatIntervalText, formatParameterSetCsv, formatParameterSetMarkdown, renderHtmlReport,
-  type BuildParameterSetOptions, type JsonValue, type ParameterSet,
+  buildParameterSet, formatInterval as formatIntervalText, formatParameterSetCsv, formatParameterSetMarkdown, renderHtmlReport, tuningRows,
+  type BuildParameterSetOptions, type JsonValue, type LoopTuningOptions, type ParameterSet,
 } from '@motorprint/report';
-import type { FitMotorOptions, ModelExtensions, MotorConstantName, MotorExperimentKind, MotorRecordingInput } from '@motorprint/estimate';
+import { checkLockedRotorHold } from '@motorprint/estimate';
+import type { HoldFinding, FitMotorOptions, ModelExtensions, MotorConstantName, MotorExperimentKind, MotorRecordingInput } from '@motorprint/estimate';
 import type { IngestResult } from '@motorprint/ingest';
 import { keyValuePairs, numberOption, parseSubcommandArgs } from '../args.js';
 import { INGEST_OPTION_HELP, INGEST_OPTION_SYNOPSIS, INGEST_OPTIONS, ingestOptionsFrom, readInput } from '../readInputs.js';
@@ -28,6 +29,8 @@ const HELP = `motorprint fit FILE... [--kind FILE=KIND] [--fix P=V] [--guess P=V
                [--json] [--out FILE] [--format json|md|csv] [--report FILE.html]
                [--rated-voltage V] [--winding-temp C] [--reference-temp C] [--copper-k K]
                [--ambient-temp C] [--id KEY=VALUE]
+               [--current-bandwidth HZ] [--speed-bandwidth HZ] [--phase-margin DEG]
+               [--controller-rate HZ] [--no-tuning] [--thermal Rth=V,Cth=V] [--rise K]
                ${INGEST_OPTION_SYNOPSIS.replace(' [--supply-voltage', '\n               [--supply-voltage')}
 
 Fits one consistent set of motor constants to one or more bench recordings at once: R [Ω], L [H],
@@ -74,6 +77,18 @@ Options:
   --copper-k K        copper law constant: 234.5 (IEEE Std 113 form, default) or 235 (IEC 60034-1 form)
   --ambient-temp C    ambient (and starting winding) temperature of the heating model (default 25 °C)
   --id KEY=VALUE      identification for the report, e.g. --id motor="Tern 24" --id serial=A113
+  --current-bandwidth HZ  current-loop bandwidth of the loop-tuning figures (default 1000 Hz): PI by
+                      pole–zero cancellation, Kp = L·ωc, Ki = R·ωc
+  --speed-bandwidth HZ    speed-loop bandwidth (default 100 Hz): PI on Kt/(J·s + b), current loop
+                      taken as ideal, no delay
+  --phase-margin DEG  speed-loop phase margin (default 60°)
+  --controller-rate HZ    controller sample rate: a bandwidth above 1/10 of it is warned about
+  --no-tuning         leave the loop-tuning figures out of the parameter set
+  --thermal Rth=V,Cth=V   winding thermal resistance [K/W] and capacitance [J/K] for the locked-rotor
+                      time budget (default: the heating model's, else no cooling and Cth 1 J/K — a
+                      conservative assumption, not this motor's data)
+  --rise K            allowed winding rise of the locked-rotor budget (default 20 K); a locked-rotor
+                      recording that held longer is warned about and listed as a finding
 ${INGEST_OPTION_HELP}
 
 Exit codes: 0 converged fit; 1 an input file not found or unreadable, a data problem (the message
@@ -246,6 +261,13 @@ async function fitJob(args: string[], io: CliIo, progress: Progress): Promise<nu
     'copper-k': { type: 'string' },
     'ambient-temp': { type: 'string' },
     id: { type: 'string', multiple: true },
+    'current-bandwidth': { type: 'string' },
+    'speed-bandwidth': { type: 'string' },
+    'phase-margin': { type: 'string' },
+    'controller-rate': { type: 'string' },
+    'no-tuning': { type: 'boolean' },
+    thermal: { type: 'string' },
+    rise: { type: 'string' },
     ...INGEST_OPTIONS,
   });
   // Every option is checked before any file is read or any fit is run.
@@ -277,6 +299,18 @@ async function fitJob(args: string[], io: CliIo, progress: Progress): Promise<nu
   if (!['json', 'md', 'csv'].includes(outFormat)) throw new UsageError(`--format must be json, md or csv (got "${outFormat}")`, 'fit');
   if (values.format !== undefined && values.out === undefined) throw new UsageError('--format applies to --out FILE; give --out as well', 'fit');
   const identification = Object.fromEntries(keyValuePairs('fit', 'id', values.id));
+  const tuning: LoopTuningOptions = {};
+  const setTuning = (key: keyof LoopTuningOptions, name: string, test: (x: number) => boolean, rule: string): void => {
+    const v = numberOption('fit', name, (values as Record<string, string | undefined>)[name], test, rule);
+    if (v !== undefined) tuning[key] = v;
+  };
+  setTuning('currentBandwidthHz', 'current-bandwidth', (x) => x > 0, 'a bandwidth > 0 [Hz]');
+  setTuning('speedBandwidthHz', 'speed-bandwidth', (x) => x > 0, 'a bandwidth > 0 [Hz]');
+  setTuning('phaseMarginDeg', 'phase-margin', (x) => x > 0 && x < 90, 'an angle between 0 and 90 [°]');
+  setTuning('controllerRateHz', 'controller-rate', (x) => x > 0, 'a sample rate > 0 [Hz]');
+  if (values['no-tuning'] && Object.keys(tuning).length > 0) throw new UsageError('--no-tuning leaves the tuning out; drop the bandwidth, phase-margin and controller-rate options or --no-tuning', 'fit');
+  const thermal = thermalOption('fit', values.thermal);
+  const rise = numberOption('fit', 'rise', values.rise, (x) => x > 0, 'a temperature rise > 0 [K]');
   for (const out of [values.out, values.report]) {
     const problem = out === undefined ? null : await outputPathProblem(io.cwd, out);
     if (problem !== null) throw new UsageError(problem, 'fit');
@@ -337,11 +371,29 @@ async function fitJob(args: string[], io: CliIo, progress: Progress): Promise<nu
   if (windingTemp !== undefined) setOptions.windingTemperature = windingTemp;
   if (referenceTemp !== undefined) setOptions.referenceTemperature = referenceTemp;
   if (copperK !== undefined) setOptions.copperConstant = copperK;
+  if (!values['no-tuning']) setOptions.tuning = tuning;
+  // Locked-rotor recordings: the hold against the time budget (a warning and a finding when over).
+  const holdFindings: HoldFinding[] = [];
+  const Rfit = fit.parameters.R?.value;
+  fit.recordings.forEach((r, i) => {
+    if (r.kind !== 'locked-rotor' || !(typeof Rfit === 'number' && Rfit > 0)) return;
+    const Rth = thermal.Rth ?? fit.parameters.Rth?.value, Cth = thermal.Cth ?? fit.parameters.Cth?.value;
+    const chk = checkLockedRotorHold(inputs[i]!.result.recording, {
+      R: Rfit, name: r.name, ...(rise !== undefined ? { riseK: rise } : {}),
+      ...(Rth !== undefined && Rth > 0 ? { Rth } : {}), ...(Cth !== undefined && Cth > 0 ? { Cth } : {}),
+      ...(windingTemp !== undefined ? { resistanceTemperature: windingTemp } : {}),
+    });
+    if (chk.finding !== undefined) {
+      holdFindings.push(chk.finding);
+      io.stderr(`${paint.warn('warning:')} ${chk.finding.title} (${chk.note}). ${chk.finding.advice}\n`);
+    }
+  });
+  if (holdFindings.length > 0) setOptions.findings = holdFindings;
   progress.update('writing the parameter set', STAGE.write);
   const set = documentInCliTerms(buildParameterSet(fit, setOptions));
   const doc = fitDocument(set);
   if (values.json) io.stdout(`${JSON.stringify(doc, null, 2)}\n`);
-  else io.stdout(`${formatIdentification(id, set, paint)}\n${formatResistanceAtReference(set)}`);
+  else io.stdout(`${formatIdentification(id, set, paint)}\n${formatResistanceAtReference(set)}${formatTuning(set, paint)}`);
   if (values.out !== undefined) {
     const text = outFormat === 'md' ? formatParameterSetMarkdown(set) : outFormat === 'csv' ? formatParameterSetCsv(set) : `${JSON.stringify(doc, null, 2)}\n`;
     await writeOut(io, values.out, text);
@@ -377,6 +429,28 @@ function reportTitle(set: ParameterSet): string {
   const id = set.identification;
   const name = id.motor ?? id.name ?? id.serial;
   return name ? `Motor constants — ${name}` : 'Motor constants from bench recordings';
+}
+
+/** `--thermal Rth=V,Cth=V` (either or both). */
+function thermalOption(sub: string, raw: string | undefined): { Rth?: number; Cth?: number } {
+  const out: { Rth?: number; Cth?: number } = {};
+  if (raw === undefined) return out;
+  for (const [key, value] of keyValuePairs(sub, 'thermal', raw.split(',').map((x) => x.trim()).filter(Boolean))) {
+    if (key !== 'Rth' && key !== 'Cth') throw new UsageError(`--thermal: unknown key "${key}"; give Rth=V [K/W] and/or Cth=V [J/K]`, sub);
+    const x = Number(value);
+    if (!Number.isFinite(x) || !(x > 0)) throw new UsageError(`--thermal ${key}= must be a number > 0 in ${key === 'Rth' ? 'K/W' : 'J/K'} (got "${value}")`, sub);
+    out[key] = x;
+  }
+  return out;
+}
+
+function formatTuning(set: ParameterSet, paint: Paint): string {
+  if (set.tuning === undefined) return '';
+  const t = tuningRows(set.tuning);
+  const rows = t.rows.map((g) => [g.label, g.value === null ? '—' : formatNumber(g.value, 4), g.unit, g.ci95 === null ? '—' : formatInterval(g.ci95, g.value ?? 0)]);
+  const warn = set.tuning.warnings.map((w) => `  ${paint.warn('warning:')} ${w}\n`).join('');
+  return `\n${paint.bold('Loop tuning')} (${t.settings}; current loop taken as ideal for the speed loop, no delay)\n` +
+    `${formatTable(['gain', 'value', 'unit', '95 % interval'], rows, ['left', 'right', 'left', 'left'])}\n${warn}`;
 }
 
 function formatResistanceAtReference(set: ParameterSet): string {

@@ -33,6 +33,11 @@ export const SUBCOMMANDS: readonly SubcommandEntry[] = [
     load: async () => (await import('./lot.js')).lotCommand,
   },
   {
+    name: 'plan',
+    summary: 'predict the standard errors of planned bench runs, suggest changes, and give the locked-rotor time budget',
+    load: async () => (await import('./plan.js')).planCommand,
+  },
+  {
     name: 'show',
     summary: 'print a parameter set written by "fit --out" (text, Markdown, CSV or JSON)',
     load: async () => (await import('./show.js')).showCommand,

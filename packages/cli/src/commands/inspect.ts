@@ -31,12 +31,12 @@ command-line mistake.`;
 export type InspectedFile = RecordingDescription & { kind: { kind: string; reason: string } };
 
 /**
- * The experiment kind inspect shows: `steady-state-table` for a table of operating points;
+ * The experiment kind inspect shows, in the estimator's vocabulary: `steady-state` for a table of operating points;
  * otherwise the estimator's classifier on the recording's input voltage (terminal, else command,
  * else supply), and `unknown` with the reason when it cannot tell.
  */
 export function experimentKindOf(recording: Recording): { kind: string; reason: string } {
-  if (recording.layout === 'table') return { kind: 'steady-state-table', reason: 'a table of operating points (one row per point, no time column)' };
+  if (recording.layout === 'table') return { kind: 'steady-state', reason: 'a table of operating points (one row per point, no time column), fitted as steady-state points' };
   try {
     const g = classifyRecording(recording);
     const c = recording.channels;

@@ -1,7 +1,7 @@
 import { readFile } from 'node:fs/promises';
 import { resolve } from 'node:path';
-import { formatInterval, formatParameterSetCsv, formatParameterSetMarkdown, readParameterSet, type ParameterSet } from '@motorprint/report';
-import { parseSubcommandArgs } from '../args.js';
+import { formatInterval, formatParameterSetCsv, formatParameterSetMarkdown, readParameterSet, tuningRows, type ParameterSet } from '@motorprint/report';
+import { numberOption, parseSubcommandArgs } from '../args.js';
 import { fileErrorText } from '../inputFiles.js';
 import { paintFor, type Paint } from '../style.js';
 import { formatNumber, formatTable } from '../table.js';
@@ -9,6 +9,7 @@ import { EXIT, type CliIo, type Subcommand } from '../types.js';
 import { UsageError } from '../UsageError.js';
 
 const HELP = `motorprint show PARAMS.json [--format text|md|csv|json]
+                        [--export state-space|transfer|discrete [--dt T]]
 
 Prints a parameter set written by "motorprint fit --out PARAMS.json" (or --json): the constants with
 their intervals, R at the reference temperature, the datasheet figures, the findings and where the
@@ -17,9 +18,15 @@ numbers came from. The file is checked against the published schema first (docs/
 Options:
   --format F   text (default, for a terminal), md (Markdown), csv (one row per constant and figure),
                json (the validated document, re-printed)
+  --export F   instead of the set, print the lumped model R, L, Kt, Ke, J, b as JSON for simulation
+               and controller design: state-space (continuous A, B, C, D; state [current, speed],
+               inputs [voltage, load torque]), transfer (voltage → current and voltage → speed,
+               coefficients highest power of s first), discrete (the exact zero-order-hold model,
+               needs --dt)
+  --dt T       sample time [s] of the discrete model (with --export discrete; optional with the others)
 
-Exit codes: 0 printed; 1 the file not found, or not a valid parameter set (the message names the
-path in the document); 2 command-line mistake.`;
+Exit codes: 0 printed; 1 the file not found or unreadable, not a valid parameter set (the message
+names the path in the document), or lacking a constant the export needs; 2 command-line mistake.`;
 
 function interval(ci: [number, number] | null): string {
   return formatInterval(ci, { digits: 5, format: formatNumber, missing: '—' });
@@ -49,6 +56,14 @@ export function formatParameterSetText(set: ParameterSet, paint: Paint): string 
   const figures = Object.values(set.derived).map((f) => [f.label, f.value === null ? '—' : formatNumber(f.value, 5), f.unit, interval(f.ci95), f.formula]);
   out.push(formatTable(['figure', 'value', 'unit', '95 % interval', 'formula'], figures, ['left', 'right', 'left', 'left', 'left']));
   out.push('');
+  if (set.tuning !== undefined) {
+    const t = tuningRows(set.tuning);
+    out.push(paint.bold('Loop tuning'), `  ${t.settings}`);
+    out.push(formatTable(['gain', 'value', 'unit', '95 % interval', 'formula'], t.rows.map((g) => [g.label, g.value === null ? '—' : formatNumber(g.value, 5), g.unit, interval(g.ci95), g.formula]), ['left', 'right', 'left', 'left', 'left']));
+    for (const a of set.tuning.assumptions) out.push(`  assumed: ${a}`);
+    for (const w of set.tuning.warnings) out.push(`  ${paint.bold('warning')}: ${w}`);
+    out.push('');
+  }
   if (set.notInformed.length > 0) {
     out.push(paint.bold('Not informed'));
     for (const u of set.notInformed) out.push(`  ${u.name}: ${u.reason} — ${u.wouldInform}`);
@@ -63,10 +78,18 @@ export function formatParameterSetText(set: ParameterSet, paint: Paint): string 
 }
 
 async function run(args: string[], io: CliIo): Promise<number> {
-  const { values, positionals } = parseSubcommandArgs('show', args, { format: { type: 'string' } });
+  const { values, positionals } = parseSubcommandArgs('show', args, { format: { type: 'string' }, export: { type: 'string' }, dt: { type: 'string' } });
   if (positionals.length !== 1) throw new UsageError(`expected one parameter-set file (got ${positionals.length})`, 'show');
   const format = values.format ?? 'text';
   if (!['text', 'md', 'csv', 'json'].includes(format)) throw new UsageError(`--format must be text, md, csv or json (got "${format}")`, 'show');
+  const exportForm = values.export;
+  if (exportForm !== undefined && !['state-space', 'transfer', 'discrete'].includes(exportForm)) {
+    throw new UsageError(`--export must be state-space, transfer or discrete (got "${exportForm}")`, 'show');
+  }
+  if (exportForm !== undefined && values.format !== undefined) throw new UsageError('--export prints JSON of its own; leave out --format', 'show');
+  const dt = numberOption('show', 'dt', values.dt, (x) => x > 0, 'a sample time > 0 [s]');
+  if (dt !== undefined && exportForm === undefined) throw new UsageError('--dt goes with --export', 'show');
+  if (exportForm === 'discrete' && dt === undefined) throw new UsageError('--export discrete needs --dt T (the sample time [s])', 'show');
   const file = positionals[0] as string;
   let text: string;
   try {
@@ -80,6 +103,26 @@ async function run(args: string[], io: CliIo): Promise<number> {
   } catch (err) {
     const e = err as Error & { path?: string };
     throw new Error(`${file}: not a motorprint parameter set${e.path ? ` (at ${e.path})` : ''}: ${e.message}`);
+  }
+  if (exportForm !== undefined) {
+    const c: Record<string, number> = {};
+    for (const k of ['R', 'L', 'Kt', 'Ke', 'J', 'b'] as const) {
+      const v = set.parameters[k]?.value;
+      if (typeof v !== 'number' || !(v > 0 || (k === 'b' && v === 0))) throw new Error(`${file}: cannot export the model: ${k} has no usable value (${v === null || v === undefined ? 'none' : v})`);
+      c[k] = v;
+    }
+    const { linearModelForms } = await import('@motorprint/model');
+    const forms = linearModelForms(c as unknown as Parameters<typeof linearModelForms>[0], dt);
+    const out: Record<string, unknown> = {
+      model: 'lumped DC motor: V = R·i + L·di/dt + Ke·ω, J·dω/dt = Kt·i − b·ω − τ_load (SI)',
+      source: file, constants: c, signals: forms.signals,
+    };
+    if (exportForm === 'state-space') out.stateSpace = forms.stateSpace;
+    if (exportForm === 'transfer') out.transfer = { ...forms.transfer, variable: 's [1/s]', order: 'coefficients highest power first; denominators monic' };
+    if (exportForm === 'discrete') out.discrete = forms.discrete;
+    else if (forms.discrete !== undefined) out.discrete = forms.discrete;
+    io.stdout(`${JSON.stringify(out, null, 2)}\n`);
+    return EXIT.ok;
   }
   if (format === 'md') io.stdout(formatParameterSetMarkdown(set));
   else if (format === 'csv') io.stdout(formatParameterSetCsv(set));

@@ -57,6 +57,15 @@ describe('planExperiments', () => {
     const again = planExperiments(TERN24, [{ kind: 'step', levels: [0, 24], sampleRate: changed.sampleRate!, duration: changed.duration! }], { noise: DEMO_NOISE, suggest: false });
     expect(again.constants.find((c) => c.name === 'b')!.relativeError!).toBeLessThanOrEqual(0.01);
   }, 60_000);
+  it('raises the levels only up to the stated supply', () => {
+    // A 12 V step with a 24 V supply stated (invented plan): L misses 0.5 % and the full supply meets it.
+    const runs = [{ kind: 'step' as const, levels: [0, 12], sampleRate: 2000, duration: 0.3 }];
+    const plan = planExperiments(TERN24, runs, { noise: DEMO_NOISE, volts: 24, target: 0.005 });
+    const s = plan.suggestions.find((x) => x.constant === 'L')!;
+    expect(s.changes).toEqual([{ knob: 'levels', from: 12, to: 24 }]);
+    const without = planExperiments(TERN24, runs, { noise: DEMO_NOISE, target: 0.005 });
+    expect(without.suggestions.flatMap((x) => x.changes).some((c) => c.knob === 'levels')).toBe(false);
+  }, 60_000);
   it('gives the locked-rotor budget with the conservative default stated', () => {
     const plan = planExperiments(TERN24, [lr], { noise: DEMO_NOISE, suggest: false });
     const lb = plan.lockedRotor[0]!;

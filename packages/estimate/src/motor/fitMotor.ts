@@ -1,4 +1,3 @@
-import { covarianceFromNormalMatrix } from '../solver/covarianceFromNormalMatrix.js';
 import type { StopReason } from '../solver/types.js';
 import { createNormalEquations } from '../solver/createNormalEquations.js';
 import { resetNormalEquations } from '../solver/resetNormalEquations.js';
@@ -8,18 +7,19 @@ import { createMotorProblem } from './createMotorProblem.js';
 import type { Constants, ParameterLayout, RecordingSlots, ResidualSeries } from './createMotorProblem.js';
 import { guessConstants } from './guessConstants.js';
 import { prepareRecording } from './prepareRecording.js';
-import { solveSymmetricSystem } from './solveSymmetricSystem.js';
-import { logCovarianceOfConstants } from './logCovarianceOfConstants.js';
-import { estimateSourceResistance } from './estimateSourceResistance.js';
-import type { ConstantMap } from './logCovarianceOfConstants.js';
 import { fitDetailed } from '../detailed/fitDetailed.js';
 import { DETAILED_CONSTANTS as DETAILED_NAMES } from '../detailed/createDetailedProblem.js';
 import type { DetailedConstant } from '../detailed/createDetailedProblem.js';
-import type { ModelExtensions } from '../detailed/types.js';
 import type { PreparedRecording } from './prepareRecording.js';
-import tQuantile from '@stdlib/stats-base-dists-t-quantile';
+import { addSupplyTerms } from './addSupplyTerms.js';
+import { effectStarts, needsDetailedModel, runningTorque } from './detailedStarts.js';
+import { informs, uses, WOULD_INFORM } from './informationMap.js';
+import type { LumpedName } from './informationMap.js';
+import { polishJointly } from './polishJointly.js';
+import { windowOf } from './windowOf.js';
+import { lumpedStatistics } from './lumpedStatistics.js';
 import type {
-  ChannelFit, FitInformation, FitMotorOptions, MotorConstantName, NoiseLevel, MotorExperimentKind, MotorFit, MotorRecordingInput,
+  ChannelFit, FitMotorOptions, MotorConstantName, NoiseLevel, MotorFit, MotorRecordingInput,
   ParameterEstimate, RecordingReport, StartAttempt, UninformedConstant,
 } from './types.js';
 
@@ -31,65 +31,9 @@ import type {
  */
 const PREFIT_THRESHOLD = 65536;
 const PREFIT_MIN_WINDOW = 16384;
-/** SSR mismatch (whitened units) under which a joint Gauss–Newton step counts as landing. */
-const LANDING_SLACK = 1e-2;
-
-/**
- * The first `len` samples of a recording from just before its first command switch (the rotor is
- * at rest there), for the windowed starts; coast-downs and short recordings are kept whole.
- */
-function windowOf(r: PreparedRecording, len: number): PreparedRecording {
-  const n = r.time.length;
-  if (n <= len || r.kind === 'coast-down') return r;
-  let k0 = 0;
-  if (r.handling.stepTime !== null) {
-    while (k0 < n && r.time[k0]! < r.handling.stepTime) k0++;
-    k0 = Math.min(Math.max(k0 - 8, 0), n - len);
-  }
-  const cut = (x: Float64Array | null): Float64Array | null => (x === null ? null : x.subarray(k0, k0 + len));
-  return {
-    ...r, time: r.time.subarray(k0, k0 + len), timeBase: typeof r.timeBase === 'number' ? r.timeBase : r.time.subarray(k0, k0 + len),
-    input: r.input.subarray(k0, k0 + len), current: cut(r.current), speed: cut(r.speed),
-    levels: r.levels === null ? null : { ...r.levels, classOf: r.levels.classOf.subarray(k0, k0 + len) },
-  };
-}
-
-/** The lumped model's constants (the streamed linear kernel fits these). */
-type LumpedName = Extract<MotorConstantName, 'R' | 'L' | 'Kt' | 'Ke' | 'J' | 'b' | 'Tc'>;
 
 const UNITS: Record<LumpedName, string> = { R: 'Ω', L: 'H', Kt: 'N·m/A', Ke: 'V·s/rad', J: 'kg·m²', b: 'N·m·s/rad', Tc: 'N·m' };
 const DEFAULTS: Constants = { R: 1, L: 1e-3, Kt: 0.05, Ke: 0.05, J: 1e-5, b: 1e-6, Tc: 0 };
-const WOULD_INFORM: Record<LumpedName, string> = {
-  R: 'a locked-rotor step, or a free-run step / PRBS with current',
-  L: 'a locked-rotor step sampled faster than L/R, or a PRBS / multisine with current',
-  Kt: 'a free-run step, PRBS, multisine or steady-state sweep with speed (apart from Ke: a loaded run with torque)',
-  Ke: 'a free-run step, PRBS, multisine or steady-state sweep with speed',
-  J: 'a free-run step, PRBS or multisine with speed',
-  b: 'a steady-state sweep or a free-run step (or a coast-down once J is known)',
-  Tc: 'a coast-down (with J known), a steady-state sweep, or a step / PRBS / multisine with current and speed',
-};
-
-/** Which constants a recording informs (before the coast-down rule on J). */
-function informs(rec: PreparedRecording): LumpedName[] {
-  const hasI = rec.current !== null;
-  switch (rec.kind) {
-    case 'locked-rotor': return ['R', 'L'];
-    case 'coast-down': return ['b', 'Tc'];
-    case 'steady-state': return ['R', 'Kt', 'Ke', 'J', 'b', 'Tc'];
-    // With current logged, a driven run informs Tc when the model has it: it acts as a load torque
-    // that, unlike b·ω, does not scale with speed (the covariance says when the speed range is too
-    // narrow to tell them apart).
-    case 'loaded': return ['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc'];
-    default: return hasI ? ['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc'] : ['Kt', 'Ke', 'J', 'b'];
-  }
-}
-
-/** Which constants the model of a recording uses. */
-function uses(kind: MotorExperimentKind, coulomb: boolean): LumpedName[] {
-  if (kind === 'locked-rotor') return ['R', 'L'];
-  if (kind === 'coast-down') return ['J', 'b', 'Tc'];
-  return coulomb ? ['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc'] : ['R', 'L', 'Kt', 'Ke', 'J', 'b'];
-}
 
 /**
  * Fits the DC-motor constants R, L, Kt/Ke, J, b (and Coulomb friction Tc where coast-down or
@@ -499,72 +443,9 @@ function fitPrepared(recs: PreparedRecording[], opts: ReturnType<typeof checkFit
   }
   const constants = problem.constantsAt(sol.theta);
   const dof = sol.rows - p;
-  let se: Float64Array | null = null;
-  let covariance: Float64Array | null = null;
-  let identifiable: boolean[] = new Array<boolean>(p).fill(true);
-  let information: FitInformation | undefined;
-  if (dof > 0 && Number.isFinite(sol.ssr)) {
-    try {
-      const cov = covarianceFromNormalMatrix(sol.JtJ, p, sol.ssr, sol.rows);
-      se = cov.standardErrors;
-      covariance = cov.covariance;
-      identifiable = cov.identifiable;
-      const constantIndex: Record<string, number> = {};
-      for (const [c, i] of [['R', layout.iR], ['L', layout.iL], ['Kt', layout.iKt], ['Ke', layout.iKe], ['J', layout.iJ], ['b', layout.iB], ['Tc', layout.iTc]] as const) if (i >= 0) constantIndex[c] = i;
-      information = { constantIndex, singularValues: cov.singularValues, conditionNumber: cov.conditionNumber, identifiable: cov.identifiable, rank: cov.rank };
-    } catch {
-      se = null;
-    }
-  }
-  const tq = tQuantile(0.975, Math.max(dof, 1));
-  const uninformed = new Set(notInformed.map((u) => u.name));
-  const parameters: Record<string, ParameterEstimate> = {};
-  for (const c of names) {
-    if (!coulomb && c === 'Tc' && fixed.Tc === 0 && opts.fix.Tc === undefined) continue;
-    if (fixed[c] !== undefined) { parameters[c] = { value: fixed[c]!, unit: UNITS[c], fixed: true }; continue; }
-    if (uninformed.has(c)) continue;
-    const i = c === 'R' ? layout.iR : c === 'L' ? layout.iL : c === 'Kt' ? layout.iKt : c === 'Ke' ? layout.iKe : c === 'J' ? layout.iJ : c === 'b' ? layout.iB : layout.iTc;
-    if (i < 0) continue;
-    const value = constants[c];
-    const est: ParameterEstimate = { value, unit: UNITS[c], informedBy: informedBy[c] };
-    if (se !== null && identifiable[i] && Number.isFinite(se[i]!)) {
-      const s = se[i]!;
-      if (c === 'Tc') {
-        est.standardError = s * layout.tcScale;
-        est.interval95 = [value - tq * s * layout.tcScale, value + tq * s * layout.tcScale];
-      } else {
-        est.standardError = value * s;
-        est.interval95 = [value * Math.exp(-tq * s), value * Math.exp(tq * s)];
-      }
-    }
-    parameters[c] = est;
-  }
-  // Kt/Ke when both are fitted apart: var(ln Kt − ln Ke) = C_tt + C_ee − 2·C_te (delta method).
-  if (separate && layout.iKt >= 0 && layout.iKe >= 0 && layout.iKt !== layout.iKe) {
-    const a = layout.iKt, b = layout.iKe;
-    const value = constants.Kt / constants.Ke;
-    const est: ParameterEstimate = { value, unit: '1 (N·m/A per V·s/rad)', informedBy: informedBy.Kt };
-    if (covariance !== null && identifiable[a] && identifiable[b]) {
-      const v = covariance[a * p + a]! + covariance[b * p + b]! - 2 * covariance[a * p + b]!;
-      if (v >= 0 && Number.isFinite(v)) {
-        est.standardError = value * Math.sqrt(v);
-        est.interval95 = [value * Math.exp(-tq * Math.sqrt(v)), value * Math.exp(tq * Math.sqrt(v))];
-      }
-    }
-    parameters['Kt/Ke'] = est;
-  }
-  // The constants' joint statistics (ln p), for every reader.
-  const maps: ConstantMap[] = (['R', 'L', 'Kt', 'Ke', 'J', 'b', 'Tc'] as const)
-    .filter((c) => parameters[c] !== undefined)
-    .map((c) => {
-      const est = parameters[c]!;
-      if (est.fixed === true) return { name: c, value: est.value, status: 'pinned' as const, gradient: [] };
-      const i = c === 'R' ? layout.iR : c === 'L' ? layout.iL : c === 'Kt' ? layout.iKt : c === 'Ke' ? layout.iKe : c === 'J' ? layout.iJ : c === 'b' ? layout.iB : layout.iTc;
-      if (i < 0) return { name: c, value: est.value, status: 'absent' as const, gradient: [] };
-      // θ = ln p, except Tc = θ·scale: d ln Tc/dθ = scale/Tc.
-      return { name: c, value: est.value, status: 'fitted' as const, gradient: [[i, c === 'Tc' ? layout.tcScale / est.value : 1]] as [number, number][] };
-    });
-  const constantCovariance = logCovarianceOfConstants(maps, covariance, identifiable, p, dof);
+  const { parameters, covariance, constantCovariance, information } = lumpedStatistics({
+    sol, constants, layout, names, fixed, pinnedByCaller: opts.fix, coulomb, separate, notInformed, informedBy,
+  });
   const residuals = sol.residuals ?? problem.residualsAt(sol.theta);
   const reports = reportsFor(residuals);
   recs.forEach((r, i) => {
@@ -584,152 +465,3 @@ function fitPrepared(recs: PreparedRecording[], opts: ReturnType<typeof checkFit
   };
 }
 
-/**
- * Gauss–Newton steps on the full joint problem (constants and input coefficients together) from
- * the optimum found with the input coefficients held. The residuals are linear in the input
- * coefficients and the start lies within a few standard errors of the joint optimum, so one step
- * normally lands on it. A step counts as landing when its actual SSR reduction matches the linear
- * prediction to 0.01 + 1e-4·prediction (whitened units, so the point is within about 0.1 standard
- * error of the joint optimum in any direction): the model is then linear over the step, the
- * gradient left at the new point is negligible, and JᵀJ from the start of the step (returned
- * with it) differs from JᵀJ at the new point by terms of the step's size. The trial SSR is
- * evaluated with the coefficients held at their trial values (the cheap pass). Returns the point
- * with that JᵀJ.
- */
-function polishJointly(
-  recs: PreparedRecording[], layout: ParameterLayout, frozen: boolean[], theta0: Float64Array,
-): {
-  theta: Float64Array; JtJ: Float64Array; ssr: number; rows: number; linear: boolean;
-  /** Residual series at `theta` when the last step landed there, else null. */
-  residuals: ResidualSeries[] | null; jacobianEvaluations: number; functionEvaluations: number;
-} {
-  let theta = Float64Array.from(theta0);
-  const full = createMotorProblem(recs, layout, theta, null);
-  const p = full.parameterCount;
-  let acc = createNormalEquations(p);
-  let ssr = full.evaluate(theta, true, acc);
-  let jEvals = 1, fEvals = 0;
-  let linear = false;
-  let residuals: ResidualSeries[] | null = null;
-  for (let it = 0; it < 5 && Number.isFinite(ssr); it++) {
-    // Solve with the columns scaled to unit norm (the nuisances and the log-constants differ by
-    // orders of magnitude in JᵀJ).
-    const d = Float64Array.from({ length: p }, (_, j) => { const v = Math.sqrt(acc.JtJ[j * p + j]!); return v > 0 ? v : 1; });
-    const scaled = Float64Array.from(acc.JtJ, (v, ij) => v / (d[Math.floor(ij / p)]! * d[ij % p]!));
-    const z = solveSymmetricSystem(scaled, Float64Array.from(acc.Jtr, (g, j) => -g / d[j]!), p);
-    if (z === null) break;
-    const step = Float64Array.from(z, (v, j) => v / d[j]!);
-    let predicted = 0;
-    for (let j = 0; j < p; j++) predicted -= step[j]! * acc.Jtr[j]!;
-    const trial = Float64Array.from(theta, (t, j) => t + step[j]!);
-    // The trial pass also keeps the residual series: when the step lands they are the ones of
-    // the reported point, and the caller skips a pass of its own.
-    const held = createMotorProblem(recs, layout, trial, frozen);
-    const tried = held.ssrWithResiduals(trial, createNormalEquations(held.parameterCount));
-    const ssr2 = tried.ssr;
-    fEvals++;
-    if (!(ssr2 <= ssr)) { linear = predicted <= LANDING_SLACK; break; }
-    const actual = ssr - ssr2;
-    theta = trial;
-    if (Math.abs(actual - predicted) <= LANDING_SLACK + 1e-4 * predicted) { ssr = ssr2; linear = true; residuals = tried.residuals; break; }
-    acc = createNormalEquations(p);
-    ssr = full.evaluate(theta, true, acc);
-    jEvals++;
-  }
-  return { theta, JtJ: Float64Array.from(acc.JtJ), ssr, rows: acc.rows, linear, residuals, jacobianEvaluations: jEvals, functionEvaluations: fEvals };
-}
-
-/**
- * Whether the fit needs the detailed model's simulator rather than the streamed linear kernel:
- * any extension (Coulomb friction included), or a recording the linear kernel does not model (a
- * coast-down, an encoder angle, a jittered clock, a table of steady points, no voltage at all).
- */
-function needsDetailedModel(recs: PreparedRecording[], ext: ModelExtensions): boolean {
-  // Friction of either sign (reversals, sticking at rest) needs the event-locating simulator.
-  if (ext.coulomb || ext.stiction || ext.drag || ext.voltageLimit || ext.currentLimit || ext.heating) return true;
-  return recs.some((r) => r.kind === 'coast-down' || r.encoder !== null || r.grid !== null || r.table || r.source === 'none');
-}
-
-/** Kt·|i| over the last tenth of the driven recordings that log current (or of a coast-down's plateau); the smallest. */
-function runningTorque(recs: PreparedRecording[], Kt: number): number {
-  let best = Infinity;
-  for (const r of recs) {
-    if (r.current === null || r.kind === 'locked-rotor') continue;
-    const n = r.current.length;
-    const [a, b] = r.kind === 'coast-down' ? [0, Math.max(1, r.first - 1)] : [Math.floor(0.9 * n), n];
-    let s = 0;
-    for (let k = a; k < b; k++) s += r.current[k]!;
-    const i = Math.abs(s / Math.max(b - a, 1));
-    if (i > 0) best = Math.min(best, Kt * i);
-  }
-  return Number.isFinite(best) ? best : 1e-3 * Kt;
-}
-
-/**
- * Starting values of the effect constants the caller did not give (common practice, no source:
- * starts, not guesses — each puts the effect at a modest share of what the data show, where the
- * fit has a gradient to follow): drag c at 10 % of the viscous torque at the top speed; the
- * voltage limit at 95 % of the largest commanded level; the current limit at 95 % of the largest
- * current; stiction 30 % above Coulomb friction; a thermal time constant of a third of the longest
- * record, with Rth for a 10 K rise at its mean copper loss.
- */
-function effectStarts(recs: PreparedRecording[], ext: ModelExtensions, start: Partial<Record<DetailedConstant, number>>, src: Partial<Record<DetailedConstant, string>>): void {
-  const set = (k: DetailedConstant, v: number, why: string): void => {
-    if (start[k] === undefined && Number.isFinite(v) && v > 0) { start[k] = v; src[k] = why; }
-  };
-  let wmax = 0, imax = 0, vmax = 0, power = 0, count = 0, longest = 0;
-  for (const r of recs) {
-    if (r.speed !== null) for (let k = 0; k < r.speed.length; k++) wmax = Math.max(wmax, Math.abs(r.speed[k]!));
-    if (r.current !== null) for (let k = 0; k < r.current.length; k++) { const i = r.current[k]!; imax = Math.max(imax, Math.abs(i)); power += i * i; count++; }
-    if (r.source === 'command') for (let k = 0; k < r.input.length; k++) vmax = Math.max(vmax, Math.abs(r.input[k]!));
-    longest = Math.max(longest, r.time[r.time.length - 1]! - r.time[0]!);
-  }
-  if (ext.drag) set('c', (0.1 * (start.b ?? 1e-6)) / Math.max(wmax, 1e-6), 'start: drag at 10 % of the viscous torque at the top speed');
-  if (ext.voltageLimit) set('Vmax', 0.95 * vmax, 'start: 95 % of the largest commanded level');
-  if (ext.currentLimit) set('Imax', 0.95 * imax, 'start: 95 % of the largest current');
-  if (ext.stiction && start.Tc !== undefined) set('Ts', 1.3 * start.Tc, 'start: 30 % above Coulomb friction');
-  if (ext.heating) {
-    const p = (start.R ?? 1) * (count > 0 ? power / count : 1);
-    const Rth = 10 / Math.max(p, 1e-9);
-    set('Rth', Rth, 'start: a 10 K rise at the mean copper loss');
-    set('Cth', Math.max(longest, 1e-3) / 3 / Rth, 'start: a thermal time constant of a third of the longest record');
-  }
-}
-
-/**
- * The supply side: Rs from recordings that log both the supply and the terminal voltage; and when
- * the supply alone drove a recording, R is R + Rs, said so and stated under that name too.
- */
-function addSupplyTerms(fit: MotorFit, recordings: MotorRecordingInput[], recs: PreparedRecording[]): void {
-  const rs = estimateSourceResistance(recordings.map((r) => r.recording), recs.map((r) => r.name));
-  if (rs !== null) fit.parameters.Rs = rs;
-  const supplyOnly = recs.filter((r) => r.source === 'supply');
-  const R = fit.parameters.R;
-  if (supplyOnly.length === 0 || R === undefined || R.fixed === true) return;
-  fit.parameters['R+Rs'] = { ...R };
-  // Every driven recording ran from the supply with the terminal voltage logged beside it: the
-  // winding's R is R + Rs less Rs (two independent regressions: their variances add).
-  const driven = recs.filter((r) => r.source !== 'none' && !r.table);
-  if (rs === null || rs.identified === false || !driven.every((r) => r.supplyDrives)) return;
-  const value = R.value - rs.value;
-  if (!(value > 0)) return;
-  const est: ParameterEstimate = { value, unit: R.unit, informedBy: [...new Set([...(R.informedBy ?? []), ...(rs.informedBy ?? [])])] };
-  if (R.standardError !== undefined && rs.standardError !== undefined) {
-    const se = Math.hypot(R.standardError, rs.standardError);
-    const t = fit.constantCovariance?.tQuantile ?? 1.96;
-    est.standardError = se;
-    est.interval95 = [value - t * se, value + t * se];
-    if (!(se < 0.5 * value)) est.identified = false;
-  }
-  fit.parameters.R = est;
-  // The constants' covariance follows: ln R = ln(R + Rs) − ln(1 − Rs/(R + Rs)), to first order
-  // d ln R = g·d ln(R + Rs) − dRs/R with g = (R + Rs)/R.
-  const cc = fit.constantCovariance;
-  const j = cc?.names.indexOf('R') ?? -1;
-  if (cc !== undefined && j >= 0) {
-    const m = cc.names.length, g = R.value / value, C = cc.logCovariance;
-    for (let q = 0; q < m; q++) { if (q !== j) { C[j * m + q] = C[j * m + q]! * g; C[q * m + j] = C[j * m + q]!; } }
-    C[j * m + j] = C[j * m + j]! * g * g + ((rs.standardError ?? 0) / value) ** 2;
-    cc.values[j] = value;
-  }
-}

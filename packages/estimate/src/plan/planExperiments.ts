@@ -83,11 +83,12 @@ function predict(info: Information): { rel: Map<string, number>; aside: Map<stri
 
 const pct = (x: number): string => `${x >= 0.1 ? (100 * x).toPrecision(2) : (100 * x).toPrecision(2)} %`;
 /** A duration or rate with a readable unit. */
-function show(knob: 'duration' | 'sampleRate' | 'bitTime', v: number): string {
+function show(knob: 'duration' | 'sampleRate' | 'bitTime' | 'levels', v: number): string {
+  if (knob === 'levels') return `${+v.toPrecision(3)} V`;
   if (knob === 'sampleRate') return v >= 1e3 ? `${+(v / 1e3).toPrecision(3)} kHz` : `${+v.toPrecision(3)} Hz`;
   return v >= 1 ? `${+v.toPrecision(3)} s` : v >= 1e-3 ? `${+(v * 1e3).toPrecision(3)} ms` : `${+(v * 1e6).toPrecision(3)} µs`;
 }
-const KNOB_WORDS = { duration: 'duration', sampleRate: 'sample rate', bitTime: 'bit time' } as const;
+const KNOB_WORDS = { duration: 'duration', sampleRate: 'sample rate', bitTime: 'bit time', levels: 'top level' } as const;
 
 /**
  * Predicts, before a bench session, how well planned runs will pin each motor constant down:
@@ -108,8 +109,8 @@ const KNOB_WORDS = { duration: 'duration', sampleRate: 'sample rate', bitTime: '
  * A run's share of a constant's information is its diagonal entry from a fit of that run alone
  * over the sum of those entries. Suggestions, for each constant that misses the target: the
  * smallest power-of-two increase of one run's duration or sample rate (or a shorter or longer
- * PRBS bit time) that meets it, else the cheapest pair of duration and sample rate, each change
- * evaluated anew.
+ * PRBS bit time, or levels raised towards `options.volts` when it was given and is above them)
+ * that meets it, else the cheapest pair of duration and sample rate, each change evaluated anew.
  *
  * ## References
  * C. R. Rao (1945), "Information and the accuracy attainable in the estimation of statistical
@@ -157,7 +158,8 @@ export function planExperiments(draft: MotorParams, runs: PlannedRun[], options:
       return m;
     } catch { return new Map<string, number>(); }
   });
-  const tied = constants.includes('K');
+  // Kt = Ke unless a loaded run separates them (as in the fit).
+  const tied = !resolved.some((r) => r.kind === 'loaded');
   const valueOf = (c: string): number => (c === 'K' ? draft.Kt : (draft as unknown as Record<string, number>)[c]!);
   const allNames = tied ? ['R', 'L', 'K', 'J', 'b'] : ['R', 'L', 'Kt', 'Ke', 'J', 'b'];
   const planned: PlannedConstant[] = allNames.map((c) => {
@@ -181,7 +183,8 @@ export function planExperiments(draft: MotorParams, runs: PlannedRun[], options:
   const notes: string[] = [];
   for (const r of resolved) {
     const h = 1 / r.sampleRate;
-    if ((r.kind === 'locked-rotor' || r.kind === 'step' || r.kind === 'prbs' || r.kind === 'multisine' || r.kind === 'loaded') && h > tc.electrical / 5) {
+    if ((r.kind === 'locked-rotor' || r.kind === 'step' || r.kind === 'prbs' || r.kind === 'multisine' || r.kind === 'loaded') && h > tc.electrical / 2) {
+      // The same line as the fit's slow-sampling finding: τe shorter than two sample intervals.
       notes.push(`${r.name}: the sample interval ${show('duration', h)} is ${(h / tc.electrical).toPrecision(2)} τe (τe = L/R = ${show('duration', tc.electrical)}); L is seen in few samples per transient`);
     }
     if (r.kind === 'prbs' && r.bitTime !== null && (r.bitTime < tc.mechanical / 10 || r.bitTime > 3 * tc.mechanical)) {
@@ -202,7 +205,10 @@ export function planExperiments(draft: MotorParams, runs: PlannedRun[], options:
       const order = resolved.map((_, i) => i).sort((a, b) => (pc.shares[resolved[b]!.name] ?? 0) - (pc.shares[resolved[a]!.name] ?? 0));
       const tryChange = (i: number, changes: PlanSuggestion['changes']): number => {
         const r = { ...resolved[i]! };
-        for (const ch of changes) (r as unknown as Record<string, number>)[ch.knob] = ch.to;
+        for (const ch of changes) {
+          if (ch.knob === 'levels') r.levels = r.levels.map((v) => (v * ch.to) / ch.from);
+          else (r as unknown as Record<string, number>)[ch.knob] = ch.to;
+        }
         if (r.duration * r.sampleRate > MAX_SAMPLES) return Infinity;
         try {
           const next = predict(informationOf(draft, resolved.map((x, j) => (j === i ? r : x)), seed));
@@ -216,14 +222,19 @@ export function planExperiments(draft: MotorParams, runs: PlannedRun[], options:
         for (const f of FACTORS) single.push([{ knob: 'duration', from: r.duration, to: r.duration * f }]);
         for (const f of FACTORS.slice(0, 4)) single.push([{ knob: 'sampleRate', from: r.sampleRate, to: r.sampleRate * f }]);
         if (r.bitTime !== null) for (const f of [0.25, 0.5, 2, 4]) single.push([{ knob: 'bitTime', from: r.bitTime, to: r.bitTime * f }]);
+        // Levels: only up to the supply the caller stated (options.volts), never beyond it.
+        const top = Math.max(...r.levels.map(Math.abs));
+        if (options.volts !== undefined && top > 0 && options.volts > top) {
+          for (const v of [...new Set([Math.min(1.5 * top, options.volts), options.volts])]) single.push([{ knob: 'levels', from: top, to: v }]);
+        }
         const pairs: PlanSuggestion['changes'][] = [];
         for (const fd of FACTORS) for (const fr of FACTORS.slice(0, 4)) pairs.push([{ knob: 'duration', from: r.duration, to: r.duration * fd }, { knob: 'sampleRate', from: r.sampleRate, to: r.sampleRate * fr }]);
         pairs.sort((a, b) => a[0]!.to * a[1]!.to - b[0]!.to * b[1]!.to);
         let best: { changes: PlanSuggestion['changes']; to: number } | null = null;
         // Singles by knob, smallest factor first: stop a knob at the first change that meets the target.
-        for (const knob of ['duration', 'sampleRate', 'bitTime'] as const) {
+        for (const knob of ['duration', 'sampleRate', 'bitTime', 'levels'] as const) {
           for (const ch of single.filter((s) => s[0]!.knob === knob)) {
-            if (ch[0]!.to * (knob === 'sampleRate' ? r.duration : r.sampleRate) > MAX_SAMPLES && knob !== 'bitTime') break;
+            if ((knob === 'duration' || knob === 'sampleRate') && ch[0]!.to * (knob === 'sampleRate' ? r.duration : r.sampleRate) > MAX_SAMPLES) break;
             const v = tryChange(i, ch);
             if (v <= target) { if (best === null || ch[0]!.to / ch[0]!.from < best.changes[0]!.to / best.changes[0]!.from) best = { changes: ch, to: v }; break; }
           }

@@ -68,8 +68,9 @@ export function resolveRun(fn: string, draft: MotorParams, run: PlannedRun, inde
   if (kind === 'prbs') {
     bitTime = run.bitTime === undefined ? Math.max(Math.round((0.5 * tm) / dt), 1) * dt : num('bitTime', run.bitTime, (x) => x >= dt, `at least one sample (${dt} s)`);
   } else if (run.bitTime !== undefined) throw new RangeError(`${where}.bitTime applies to prbs runs only (this one is ${kind})`);
-  const noiseIn: PlannedNoise = run.noise ?? options.noise ?? {};
-  if (noiseIn === null || typeof noiseIn !== 'object') throw new TypeError(`${where}.noise must be an object { voltage?, current?, speed?, torque? }`);
+  if (run.noise !== undefined && (run.noise === null || typeof run.noise !== 'object')) throw new TypeError(`${where}.noise must be an object { voltage?, current?, speed?, torque? }`);
+  // Per channel: the run's own noise, else the plan-wide one.
+  const noiseIn: PlannedNoise = { ...(options.noise ?? {}), ...(run.noise ?? {}) };
   const noise: Required<PlannedNoise> = { voltage: 0, current: 0, speed: 0, torque: 0 };
   for (const k of Object.keys(noiseIn)) {
     if (!(k in noise)) throw new TypeError(`${where}.noise.${k} is not a channel (voltage, current, speed, torque)`);
@@ -99,7 +100,7 @@ export function resolveRun(fn: string, draft: MotorParams, run: PlannedRun, inde
   const logsCurrent = kind === 'coast-down' ? voltage : true;
   const logsSpeed = kind !== 'locked-rotor';
   if ((!logsCurrent || !(sigma.current > 0)) && (!logsSpeed || !((sigma.angle ?? sigma.speed) > 0))) {
-    throw new RangeError(`${where}: give the noise or resolution of the ${logsSpeed ? 'current or speed' : 'current'} (noise.current, noise.speed, resolution.*, encoderCounts); without it there is no information to predict`);
+    throw new RangeError(`${where}: give the noise or resolution of the ${logsSpeed ? 'current or speed' : 'current'} (noise.current, noise.speed, resolution.current, resolution.speed or encoderCounts); without it there is no information to predict`);
   }
   if (logsCurrent && !(sigma.current > 0) && kind !== 'coast-down') throw new RangeError(`${where}: noise.current (or resolution.current) must be > 0: the fit weighs the current by its noise`);
   if (logsSpeed && !((sigma.angle ?? sigma.speed) > 0)) throw new RangeError(`${where}: noise.speed (or resolution.speed, encoderCounts) must be > 0: the fit weighs the speed by its noise`);

@@ -35,7 +35,7 @@ export interface PlannedRun {
   levels?: number[];
   /** PRBS bit time [s]. @default max(τm/2, one sample) */
   bitTime?: number;
-  /** Noise σ per channel; the quantisation of `resolution` adds q/√12. @default `PlanOptions.noise` */
+  /** Noise σ per channel; the quantisation of `resolution` adds q/√12. @default `PlanOptions.noise`, channel by channel */
   noise?: PlannedNoise;
   /** Quantisation step per channel [V, A, rad/s]: contributes σ = q/√12. */
   resolution?: { voltage?: number; current?: number; speed?: number };
@@ -110,8 +110,8 @@ export interface PlanSuggestion {
   constant: string;
   /** The run changed. */
   run: string;
-  /** Changes made: knob, old and new value. */
-  changes: { knob: 'duration' | 'sampleRate' | 'bitTime'; from: number; to: number }[];
+  /** Changes made: knob, old and new value (`levels`: the top level [V]; all levels scale with it). */
+  changes: { knob: 'duration' | 'sampleRate' | 'bitTime' | 'levels'; from: number; to: number }[];
   /** Relative SE of the constant before and after. */
   from: number;
   to: number;
