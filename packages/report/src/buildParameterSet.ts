@@ -2,6 +2,7 @@ import type { MotorFit, RecordingData } from '@motorprint/estimate';
 import { checkProvenance } from './checkProvenance.js';
 import { constantCovariance } from './constantCovariance.js';
 import { derivedFigures } from './derivedFigures.js';
+import { formatNumber } from './formatNumber.js';
 import { loopTuning } from './loopTuning.js';
 import { normaliseResistance } from './normaliseResistance.js';
 import type { BuildParameterSetOptions, ModelChoiceRecord, ParameterEntry, ParameterSet, ReportFinding } from './types.js';
@@ -126,7 +127,7 @@ export function buildParameterSet(fit: MotorFit, options: BuildParameterSetOptio
     for (const c of u.constants) {
       if (entries[c] !== undefined) continue;
       const b = u.bounds[c];
-      const bound = b?.upper95 !== null && b?.upper95 !== undefined && Number.isFinite(b.upper95) ? `< ${Number(b.upper95.toPrecision(3))} ${b.unit} at 95 %` : 'no upper bound from these recordings';
+      const bound = b?.upper95 !== null && b?.upper95 !== undefined && Number.isFinite(b.upper95) ? `< ${formatNumber(b.upper95, 3)} ${b.unit} at 95 %` : 'no upper bound from these recordings';
       entries[c] = {
         value: null, unit: b?.unit ?? UNITS[c] ?? '', ci95: null, identifiable: false, standardError: null, fixed: false, informedBy: [],
         note: `not distinguishable from 0 (${bound}): ${u.reason}; left out of the model`,

@@ -95,6 +95,9 @@ describe('the demo parameter set against docs/parameter-set.schema.json', () => 
     expect(((doc.model as Node).candidates as Node[]).some((c) => c.comparison !== null)).toBe(true);
     expect(Object.values(doc.parameters as Record<string, Node>).some((p) => p.value === null && String(p.note).startsWith('not distinguishable'))).toBe(true);
     expect(Object.keys(doc.derived as Node)).toContain('speedDropPerLoadTorqueRpm');
+    // The bound of an unsupported effect is written like every other number (no 0.00000776).
+    const tc = (doc.parameters as Record<string, Node>).Tc!;
+    expect(String(tc.note)).toMatch(/^not distinguishable from 0 \(< \d(\.\d+)?e−\d+ N·m at 95 %\)/);
   });
 
   it('catches a key the schema does not declare (the walk can fail)', () => {
