@@ -33,7 +33,9 @@ export function describeFailure(err: unknown): string {
     ].filter((s): s is string => s !== undefined);
     const code = typeof e.code === 'string' ? ` [${e.code}]` : '';
     const already = where.length > 0 && where.every((w) => e.message.includes(w));
-    return `${already || where.length === 0 ? '' : `${where.join(', ')}: `}${e.message}${withFlags(e.fix)}${code}`;
+    // A message that starts with the file alone gets the full place (file, line, column) once.
+    const message = !already && typeof e.file === 'string' && e.message.startsWith(`${e.file}: `) ? e.message.slice(e.file.length + 2) : e.message;
+    return `${already || where.length === 0 ? '' : `${where.join(', ')}: `}${message}${withFlags(e.fix)}${code}`;
   }
   return String(err);
 }

@@ -89,6 +89,21 @@ describe('a missing file', () => {
   });
 });
 
+describe('a file that cannot be used', () => {
+  it('is named once, with its line, and a parameter set\'s problem in plain words', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'mp-words-'));
+    writeFileSync(join(dir, 'bin.csv'), Buffer.from([0x74, 0x00, 0x01, 0x02, 0x0a, 0x00]));
+    writeFileSync(join(dir, 'part.json'), JSON.stringify({ schema: 'motorprint.parameter-set/1' }));
+    const c = capture(dir);
+    expect(await runCli(['fit', 'bin.csv'], c.io)).toBe(EXIT.dataProblem);
+    expect(c.stderr()).toMatch(/^error: bin\.csv, line 1: the file contains NUL bytes/m);
+    expect(c.stderr().match(/bin\.csv/g)).toHaveLength(1);
+    const d = capture(dir);
+    expect(await runCli(['show', 'part.json'], d.io)).toBe(EXIT.dataProblem);
+    expect(d.stderr()).toBe('error: part.json: not a motorprint parameter set: identification must be an object (missing)\n');
+  });
+});
+
 describe('inspect shows jitter below 1e-6 of the interval as none', () => {
   it('on an evenly sampled file, and as a share when the times wander', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'mp-words-'));

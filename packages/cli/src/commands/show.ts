@@ -102,7 +102,9 @@ async function run(args: string[], io: CliIo): Promise<number> {
     set = readParameterSet(text);
   } catch (err) {
     const e = err as Error & { path?: string };
-    throw new Error(`${file}: not a motorprint parameter set${e.path ? ` (at ${e.path})` : ''}: ${e.message}`);
+    // The reader's words without its function name; the path is said once.
+    const why = e.message.replace(/^readParameterSet: /, '').replace(/^\(document\)/, 'the document').replace(/\(got undefined\)/, '(missing)');
+    throw new Error(`${file}: not a motorprint parameter set: ${why}`);
   }
   if (exportForm !== undefined) {
     const c: Record<string, number> = {};
