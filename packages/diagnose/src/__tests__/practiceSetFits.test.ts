@@ -27,5 +27,6 @@ describe.skipIf(dir === null)('the practice set of an independent simulator', ()
     expect(frac(s.coverage)).toBeGreaterThanOrEqual(0.88);
     expect(frac(s.cleanQuiet)).toBeGreaterThanOrEqual(0.95);
     expect(frac(s.effectsNamed)).toBeGreaterThanOrEqual(0.9);
+    expect(frac(s.chosenRight)).toBeGreaterThanOrEqual(0.95);
   }, 900_000);
 });
