@@ -58,6 +58,8 @@ export interface CaseScore {
   falseFindings: string[];
   /** Effects that are on and that a finding or the chosen model names. */
   effectsNamed: string[];
+  /** Extensions of the chosen model, in the simulator's effect names (coulomb, stiction, drag, vsat, ilim, thermal). */
+  chosen: string[];
   seconds: number;
 }
 
@@ -109,7 +111,7 @@ export async function scoreCase(dir: string, id: string, run: (file: string, fix
     if (key !== undefined && v !== undefined && ['R', 'L', 'Kt', 'Ke', 'J', 'b'].includes(key)) fix[key] = v;
   }
   const effects = Object.entries(truth.effects).filter(([, on]) => on).map(([e]) => e);
-  const score: CaseScore = { id, experiment: truth.experiment, effects, status: 'ok', constants: [], findings: [], falseFindings: [], effectsNamed: [], seconds: 0 };
+  const score: CaseScore = { id, experiment: truth.experiment, effects, status: 'ok', constants: [], findings: [], falseFindings: [], effectsNamed: [], chosen: [], seconds: 0 };
   const t0 = performance.now();
   let result: PipelineResult | null = null;
   try {
@@ -135,6 +137,11 @@ export async function scoreCase(dir: string, id: string, run: (file: string, fix
   if (result !== null) {
     const codes = result.diagnosis.findings.filter((f) => f.severity !== 'info').map((f) => f.code);
     score.findings = [...new Set(codes)];
+    {
+      const v = result.fit.variant as { coulomb?: boolean; extensions?: string[] };
+      const EFFECT_OF: Record<string, string> = { voltageLimit: 'vsat', currentLimit: 'ilim', heating: 'thermal' };
+      score.chosen = [...new Set([...(v.coulomb ? ['coulomb'] : []), ...(v.extensions ?? []).map((e) => EFFECT_OF[e] ?? e)])].sort();
+    }
     const effectCodes = score.findings.filter((c) => !ADVISORY.has(c));
     if (effects.length === 0) score.falseFindings = effectCodes;
     else {
@@ -171,10 +178,12 @@ export interface PracticeSummary {
   cleanQuiet: [number, number];
   /** Effects named, over all effects that are on. */
   effectsNamed: [number, number];
+  /** Recordings whose chosen model holds exactly the effects that are on (rs, a supply term, aside). */
+  chosenRight: [number, number];
 }
 
 export function summarise(scores: CaseScore[]): PracticeSummary {
-  const s: PracticeSummary = { cases: scores.length, noResult: 0, linearWithin: [0, 0], effectWithin: [0, 0], coverage: [0, 0], cleanQuiet: [0, 0], effectsNamed: [0, 0] };
+  const s: PracticeSummary = { cases: scores.length, noResult: 0, linearWithin: [0, 0], effectWithin: [0, 0], coverage: [0, 0], cleanQuiet: [0, 0], effectsNamed: [0, 0], chosenRight: [0, 0] };
   for (const c of scores) {
     if (c.status !== 'ok') s.noResult++;
     const bucket = c.effects.length === 0 ? s.linearWithin : s.effectWithin;
@@ -183,6 +192,13 @@ export function summarise(scores: CaseScore[]): PracticeSummary {
       if (k.covered !== null) { s.coverage[1]++; if (k.covered) s.coverage[0]++; }
     }
     if (c.effects.length === 0) { s.cleanQuiet[1]++; if (c.falseFindings.length === 0 && c.status === 'ok') s.cleanQuiet[0]++; }
+    if (c.status === 'ok') {
+      // Stiction in the simulator rides on a Coulomb level (Tc > 0), as in our model: it implies coulomb.
+      const on = c.effects.filter((e) => e !== 'rs');
+      const want = [...new Set([...on, ...(on.includes('stiction') ? ['coulomb'] : [])])].sort().join(',');
+      s.chosenRight[1]++;
+      if (c.chosen.join(',') === want) s.chosenRight[0]++;
+    }
     s.effectsNamed[0] += c.effectsNamed.length;
     s.effectsNamed[1] += c.effects.length;
   }
@@ -194,7 +210,7 @@ const pct = ([a, b]: [number, number]): string => `${a}/${b} (${b > 0 ? ((100 * 
 /** The table `pnpm bench practice` prints. */
 export function formatPractice(scores: CaseScore[]): string {
   const lines: string[] = [];
-  lines.push('case                              kind       effects          status  in tol  worst×tol  covered  findings');
+  lines.push('case                              kind       effects          chosen           status  in tol  worst×tol  covered  findings');
   for (const c of scores) {
     const ident = c.constants.filter((k) => k.strength === 'identifiable');
     const within = ident.filter((k) => k.errorInTolerances !== null && k.errorInTolerances <= 1).length;
@@ -202,7 +218,7 @@ export function formatPractice(scores: CaseScore[]): string {
     const cov = c.constants.filter((k) => k.covered !== null);
     const missing = c.constants.filter((k) => k.value === null).map((k) => k.key);
     lines.push(
-      `${c.id.padEnd(33)} ${c.experiment.padEnd(10)} ${(c.effects.join(',') || '—').padEnd(16)} ${(c.status === 'ok' ? 'ok' : 'FAIL').padEnd(7)} ` +
+      `${c.id.padEnd(33)} ${c.experiment.padEnd(10)} ${(c.effects.join(',') || '—').padEnd(16)} ${(c.chosen.join(',') || '—').padEnd(16)} ${(c.status === 'ok' ? 'ok' : 'FAIL').padEnd(7)} ` +
       `${`${within}/${ident.length}`.padEnd(7)} ${(Number.isFinite(worst) ? worst.toFixed(2) : '∞').padStart(9)}  ${`${cov.filter((k) => k.covered).length}/${cov.length}`.padEnd(8)} ` +
       `${c.findings.join(',') || '—'}${missing.length ? `  [no value: ${missing.join(',')}]` : ''}${c.status !== 'ok' ? `  [${c.status}]` : ''}`,
     );
@@ -215,5 +231,6 @@ export function formatPractice(scores: CaseScore[]): string {
   lines.push(`95 % intervals covering the truth                                ${pct(s.coverage)}`);
   lines.push(`clean recordings without an effect finding                       ${pct(s.cleanQuiet)}`);
   lines.push(`effects named (finding or chosen model)                          ${pct(s.effectsNamed)}`);
+  lines.push(`chosen model holds exactly the effects that are on               ${pct(s.chosenRight)}`);
   return lines.join('\n');
 }

@@ -110,6 +110,12 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
   // trade along K²/R + b (unless the electrical pole shows, which it rarely does at logging rates).
   const speedOnlyDriven = !hasCurrent && recs.some((r) => r.kind !== 'coast-down' && !r.table);
   const noCurrent = speedOnlyDriven && fix.R === undefined;
+  // Coast-downs with their driven plateau but no current: K shows in the open-terminal voltage,
+  // but the model is unchanged under R → R/s, L → L/s, J → s·J, b → s·b, Tc → s·Tc (the current,
+  // not logged, scales by 1/s). Only K, b/J and Tc/J are reported (the plateau adds R·b, which
+  // the open-terminal fit of the decay does not pin down well enough to state).
+  const coastNoCurrent = !hasCurrent && !speedOnlyDriven && recs.some((r) => r.kind === 'coast-down' && r.drivenBeforeCut)
+    && fix.R === undefined && fix.J === undefined && fix.b === undefined && fix.L === undefined;
   // Tables of steady points alone, R not pinned: V = (K + R·b/K)·ω and i = (b/K)·ω — R and K do
   // not part (friction or drag can part them, weakly; the information then says so).
   // Steady points of the linear model: R and K do not part (with drag or Coulomb friction the
@@ -215,7 +221,7 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
   // Tables: the per-row SD columns where the file gives them (used row by row), else the prepared
   // start (0.2 % of the channel's RMS), re-estimated from the residuals.
   const setup: DetailedSetup = { recs, entries, index, values, tied, extensions: ext, ambient: opts.ambient, slots, sigma };
-  if (noCurrent) {
+  if (noCurrent || coastNoCurrent) {
     // R (and L) cannot be told from J and b without current: hold them at their starts and say so.
     for (const c of ['R', 'L'] as const) {
       if (index[c] >= 0) {
@@ -442,7 +448,7 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
     if (c === 'Ts' && !ext.stiction) continue;
     if (fix[c] !== undefined && !(onlyRatios && c === 'J')) { parameters[c] = { value: fix[c]!, unit: UNITS[c]!, fixed: true }; continue; }
     if (onlyRatios && (c === 'J' || c === 'b' || c === 'Tc' || c === 'c')) continue;
-    if ((noCurrent || tableOnly) && (c === 'R' || c === 'L')) continue;
+    if ((noCurrent || coastNoCurrent || tableOnly) && (c === 'R' || c === 'L')) continue;
     if (c === 'Ts') {
       // Ts = Tc + e^θ: d ln Ts = (Tc/Ts)·d ln Tc + ((Ts − Tc)/Ts)·dθ.
       const g = logGrad([['Tc', v.Tc / v.Ts]]);
@@ -481,6 +487,17 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
     for (const c of ['Kt', 'Ke', 'b'] as const) {
       const e = parameters[c];
       if (e !== undefined && e.fixed !== true) { e.identified = false; e.unidentifiedReason = 'with R unknown, steady points pin only b/Kt and V/ω = Kt + R·b/Kt (R pinned to a known value, e.g. from a locked-rotor run, parts them)'; }
+    }
+  }
+  if (coastNoCurrent) {
+    report('b/J', v.b / v.J, -1, logGrad([['b', 1], ['J', -1]]));
+    if (ext.coulomb && index.Tc >= 0) report('Tc/J', v.Tc / v.J, -1, logGrad([['Tc', 1], ['J', -1]]));
+    for (const c of ['J', 'b', 'Tc', 'Ts', 'c'] as const) {
+      const e = parameters[c];
+      if (e !== undefined && e.fixed !== true) {
+        e.identified = false;
+        e.unidentifiedReason = 'without current, a coast-down and its driven plateau show K (open-terminal voltage) and b/J: R, J and b scale together (log current, or pin one of them)';
+      }
     }
   }
   if (speedOnlyDriven) {
