@@ -29,6 +29,7 @@ export const CLI_REWRITES: readonly (readonly [RegExp, string | ((...groups: str
   [new RegExp(`\\b${CONSTANT} pinned to a known value`, 'g'), (_m, c) => `${c} pinned to a known value (--fix ${c}=VALUE)`],
   [new RegExp(`\\bpin ${CONSTANT} to a known value`, 'g'), (_m, c) => `pin ${c} to a known value (--fix ${c}=VALUE)`],
   [/\bnor pinned to a known value\b/g, 'nor pinned with --fix'],
+  [/\bpin one of them\b/g, 'pin one of them with --fix'],
   [/\bthe raw measured voltage, as asked\b/g, 'the raw measured voltage, as --measured-voltage asks'],
   [/\bfit with the measured voltage\b/g, 'fit with the measured voltage (--measured-voltage)'],
   [/\bFit with Coulomb friction in the model\b/g, 'Fit with Coulomb friction in the model (--model coulomb)'],

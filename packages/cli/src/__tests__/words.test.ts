@@ -132,6 +132,7 @@ describe('command-line words', () => {
     expect(inCliTerms('J is neither informed by another recording nor pinned to a known value')).toBe('J is neither informed by another recording nor pinned with --fix');
     expect(inCliTerms('add Coulomb friction Tc to the model, otherwise')).toBe('add Coulomb friction Tc to the model (--model coulomb), otherwise');
     expect(inCliTerms('the raw measured voltage, as asked (no rebuilt command)')).toBe('the raw measured voltage, as --measured-voltage asks (no rebuilt command)');
+    expect(inCliTerms('R, J and b scale together (log current, or pin one of them)')).toBe('R, J and b scale together (log current, or pin one of them with --fix)');
     expect(inCliTerms('"coulomb": true')).toBe('"coulomb": true');
   });
 
