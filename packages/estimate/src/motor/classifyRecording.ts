@@ -43,11 +43,14 @@ export function classifyRecording(recording: RecordingData): { kind: MotorExperi
   }
   if (current instanceof Float64Array) {
     const si = estimateNoiseLevel(current).sigma;
-    let head = 0, end = 0, endSpeed = 0;
+    let head = 0, end = 0, endSq = 0, endSpeed = 0;
     for (let k = 0; k < tail; k++) head += current[k]!;
-    for (let k = n - tail; k < n; k++) { end += current[k]!; endSpeed += Math.abs(speed[k]!); }
+    for (let k = n - tail; k < n; k++) { end += current[k]!; endSq += current[k]! * current[k]!; endSpeed += Math.abs(speed[k]!); }
     head /= tail; end /= tail; endSpeed /= tail;
-    if (Math.abs(head) > (8 * si) / Math.sqrt(tail) && Math.abs(end) < 0.2 * Math.abs(head) && endSpeed < 0.7 * wmax) {
+    // After the cut the current stays off: not only its mean but its swing is small (a rich
+    // excitation's current keeps swinging about a small mean).
+    const endRms = Math.sqrt(endSq / tail);
+    if (Math.abs(head) > (8 * si) / Math.sqrt(tail) && Math.abs(end) < 0.2 * Math.abs(head) && endRms < 0.2 * Math.abs(head) + 3 * si && endSpeed < 0.7 * wmax) {
       return { kind: 'coast-down', reason: 'current drops to zero while the speed decays' };
     }
   }

@@ -137,7 +137,16 @@ export function guessConstants(recs: PreparedRecording[], fixed: Partial<Constan
         set('L', (Rg * tp) / 3, `step "${rec.name}": L = R·t_peak/3 (rough)`);
       }
     } else if ((rec.kind === 'prbs' || rec.kind === 'multisine') && rec.current !== null && rec.speed !== null) {
-      const cut = Math.min(0.1 / rec.h, 0.4 / rec.h);
+      let cut = Math.min(0.1 / rec.h, 0.4 / rec.h);
+      if (rec.encoder !== null) {
+        // A speed from encoder counts moves in steps of q/h: low-pass it (and, below, every signal
+        // of the equation alike, which keeps the linear relation exact) until the step noise,
+        // q·2π·fc/√12 after the filter, is about 1 % of the speed's span (common practice, no source).
+        let span = 0;
+        for (let k = 0; k < Math.min(n, GUESS_WINDOW); k++) span = Math.max(span, Math.abs(rec.speed[k]!));
+        const fc = (0.01 * span * Math.sqrt(12)) / (2 * Math.PI * rec.encoder);
+        if (Number.isFinite(fc) && fc > 0) cut = Math.min(cut, Math.max(fc, 20 / (Math.min(n, GUESS_WINDOW) * rec.h)));
+      }
       // A start needs no more than GUESS_WINDOW samples: a window from the first switch of the
       // command (past any pre-trigger baseline) keeps the cost O(1) on long records.
       const len = Math.min(n, GUESS_WINDOW);
@@ -150,7 +159,9 @@ export function guessConstants(recs: PreparedRecording[], fixed: Partial<Constan
       const i = zeroPhaseLowPass(rec.current.subarray(k0, k0 + len), rec.h, cut);
       const w = zeroPhaseLowPass(rec.speed.subarray(k0, k0 + len), rec.h, cut);
       const di = derivative(i, rec.h), dw = derivative(w, rec.h);
-      const e1 = linearFit([di, i, w], rec.input.subarray(k0, k0 + len));
+      // The input through the same filter: V = L·di/dt + R·i + Ke·ω holds for the filtered signals.
+      const u = zeroPhaseLowPass(rec.input.subarray(k0, k0 + len), rec.h, cut);
+      const e1 = linearFit([di, i, w], u);
       if (e1 !== null) {
         set('L', e1[0]!, `${rec.kind} "${rec.name}": equation error V = L·di/dt + R·i + Ke·ω`);
         set('R', e1[1]!, `${rec.kind} "${rec.name}": equation error`);
