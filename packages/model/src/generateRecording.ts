@@ -2,6 +2,7 @@ import { checkMotorParams } from './checkMotorParams.js';
 import { createRandom } from './createRandom.js';
 import { lockedRotorResponse } from './lockedRotorResponse.js';
 import { prbsBits } from './prbsBits.js';
+import { multisineShape } from './multisineShape.js';
 import { simulateDetailed } from './simulateDetailed.js';
 import { simulateInto } from './simulateInto.js';
 import type {
@@ -134,14 +135,8 @@ export function generateRecording(params: DetailedParams, experiment: Experiment
   } else if (experiment === 'multisine') {
     const K = 31;
     const f0 = 1 / duration;
-    const raw = (t: number): number => {
-      let s = 0;
-      for (let k = 1; k <= K; k++) s += Math.cos(2 * Math.PI * k * f0 * t - (Math.PI * k * (k - 1)) / K);
-      return s;
-    };
-    let peak = 0;
-    for (let k = 0; k < n; k++) peak = Math.max(peak, Math.abs(raw(time[k]!)));
-    for (let k = 0; k < n; k++) u[k] = 0.5 * volts + (0.45 * volts * raw(time[k]!)) / peak;
+    const shape = multisineShape(time, duration, K);
+    for (let k = 0; k < n; k++) u[k] = 0.5 * volts + 0.45 * volts * shape[k]!;
     levels = [0.5 * volts];
     detail.baseFrequency = f0;
     detail.harmonics = K;

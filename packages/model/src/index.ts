@@ -34,5 +34,6 @@ export { simulateHybridInto } from './simulateHybridInto.js';
 export { steadyStateInto } from './steadyStateInto.js';
 export { createRandom } from './createRandom.js';
 export { prbsBits } from './prbsBits.js';
+export { multisineShape } from './multisineShape.js';
 export { generateRecording } from './generateRecording.js';
 export { formatRecordingCsv } from './formatRecordingCsv.js';

@@ -1,4 +1,4 @@
-import { checkMotorParams, createRandom, prbsBits, simulateHybrid } from '@motorprint/model';
+import { checkMotorParams, createRandom, multisineShape, prbsBits, simulateHybrid } from '@motorprint/model';
 import type { DetailedParams, MotorParams } from '@motorprint/model';
 import type { MotorChannel } from '../motor/types.js';
 import { resolveRun } from './resolveRun.js';
@@ -59,15 +59,8 @@ export function simulateResolved(draft: MotorParams, r: ResolvedRun, seed: numbe
       break;
     }
     case 'multisine': {
-      const K = 31, f0 = 1 / r.duration;
-      const raw = (t: number): number => {
-        let s = 0;
-        for (let k = 1; k <= K; k++) s += Math.cos(2 * Math.PI * k * f0 * t - (Math.PI * k * (k - 1)) / K);
-        return s;
-      };
-      let peak = 0;
-      for (let k = 0; k < n; k++) peak = Math.max(peak, Math.abs(raw(time[k]!)));
-      for (let k = 0; k < n; k++) u[k] = lv[0]! + (lv[1]! * raw(time[k]!)) / peak;
+      const shape = multisineShape(time, r.duration);
+      for (let k = 0; k < n; k++) u[k] = lv[0]! + lv[1]! * shape[k]!;
       break;
     }
     case 'coast-down': u.fill(lv[0]!); break;
