@@ -1,18 +1,10 @@
 /**
  * Small shared helpers of the detectors (not exported from the package).
  */
-import { estimateNoiseLevel } from '@motorprint/estimate';
+import { estimateNoiseLevel, medianInterval } from '@motorprint/estimate';
 import type { RecordingLike } from './types.js';
 
-/** Median sample interval of a time vector [s] (NaN with fewer than 2 samples). */
-export function medianInterval(time: Float64Array): number {
-  const n = time.length;
-  if (n < 2) return NaN;
-  const d = new Float64Array(n - 1);
-  for (let k = 1; k < n; k++) d[k - 1] = time[k]! - time[k - 1]!;
-  d.sort();
-  return d[(n - 1) >> 1]!;
-}
+export { medianInterval } from '@motorprint/estimate';
 
 /** Noise SD of a channel, or NaN when the channel is absent. */
 export function noiseOf(x: Float64Array | undefined): number {

@@ -42,6 +42,7 @@ export { classifyRecording } from './motor/classifyRecording.js';
 export { detectVoltageSegments } from './motor/detectVoltageSegments.js';
 export { estimateNoiseLevel } from './motor/estimateNoiseLevel.js';
 export { detectEncoderSpeed } from './motor/detectEncoderSpeed.js';
+export { medianInterval } from './motor/medianInterval.js';
 export { rebuildCommand } from './motor/rebuildCommand.js';
 export type { RebuiltCommand, SineBasis } from './motor/rebuildCommand.js';
 export { zeroPhaseLowPass } from './motor/zeroPhaseLowPass.js';

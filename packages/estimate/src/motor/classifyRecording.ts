@@ -1,4 +1,5 @@
 import { detectEncoderSpeed } from './detectEncoderSpeed.js';
+import { medianInterval } from './medianInterval.js';
 import { detectVoltageSegments } from './detectVoltageSegments.js';
 import { estimateNoiseLevel } from './estimateNoiseLevel.js';
 import type { MotorExperimentKind, RecordingData } from './types.js';
@@ -100,10 +101,4 @@ function opensCircuit(voltage: Float64Array, speed: Float64Array, sv: number, wm
   let tail = 0;
   for (let k = n - 4; k < n; k++) tail += Math.abs(speed[k]!);
   return mean > 0 && sd < 0.05 * mean && tail / 4 < 0.5 * Math.abs(speed[k1]!);
-}
-
-/** Median sample interval [s]. */
-function medianInterval(t: Float64Array): number {
-  const d = Float64Array.from({ length: Math.max(t.length - 1, 1) }, (_, k) => (t.length > 1 ? t[k + 1]! - t[k]! : 1)).sort();
-  return d[d.length >> 1]!;
 }
