@@ -76,6 +76,13 @@ describe('motorprint plan', () => {
     expect(c.stderr()).toMatch(/--run 1: give the noise or resolution of the current or speed \(noise-current, noise-speed, step-current, step-speed or counts\)/);
     expect(c.stderr()).not.toMatch(/runs\[/);
   });
+
+  it('says "file not found" for a missing draft, not the raw file-system code', async () => {
+    const c = capture(dir);
+    expect(await runCli(['plan', 'no-such-draft.json', '--run', 'step,noise-current=0.02'], c.io)).toBe(EXIT.dataProblem);
+    expect(c.stderr()).toMatch(/file not found: no-such-draft\.json \(the draft parameter set\)/);
+    expect(c.stderr()).not.toMatch(/ENOENT/);
+  });
 });
 
 describe('motorprint fit: locked-rotor budget and tuning; show --export', () => {

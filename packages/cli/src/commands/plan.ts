@@ -3,6 +3,7 @@ import { resolve } from 'node:path';
 import { planExperiments, type ExperimentPlan, type MotorExperimentKind, type PlannedNoise, type PlannedRun, type PlanOptions } from '@motorprint/estimate';
 import type { MotorParams } from '@motorprint/model';
 import { keyValuePairs, numberOption, parseSubcommandArgs } from '../args.js';
+import { fileErrorText } from '../inputFiles.js';
 import { readParamsFile } from '../readParamsFile.js';
 import { paintFor, type Paint } from '../style.js';
 import { formatNumber, formatTable } from '../table.js';
@@ -223,7 +224,7 @@ async function run(args: string[], io: CliIo): Promise<number> {
     const file = positionals[0]!;
     let text: string;
     try { text = await readFile(resolve(io.cwd, file), 'utf8'); } catch (err) {
-      throw new Error(`${file}: cannot read the draft (${(err as NodeJS.ErrnoException).code ?? (err as Error).message})`);
+      throw new Error(`${fileErrorText(file, err)} (the draft parameter set)`);
     }
     const p = readParamsFile(text, file) as unknown as Record<string, number>;
     for (const k of ['R', 'L', 'Kt', 'Ke', 'J', 'b']) if (typeof p[k] === 'number') draft[k] = p[k]!;
