@@ -19,6 +19,10 @@ function fsCode(err: Error): string | undefined {
  */
 export function describeFailure(err: unknown): string {
   if (err instanceof InputFileError) return err.message;
+  if (isInternal(err)) {
+    return `internal error in motorprint (a fault of the program, not of your files): ${err.message}. ` +
+      'Please report it with the command line and the files that gave it.';
+  }
   if (err instanceof Error) {
     const e = err as Error & { code?: unknown; file?: unknown; line?: unknown; column?: unknown; fix?: unknown; path?: unknown };
     const fs = fsCode(err);
@@ -45,4 +49,15 @@ export function withFlags(fix: unknown): string {
   if (!Array.isArray(fix)) return '';
   const flags = fixFlags(fix as IngestFix[]);
   return flags ? ` (use ${flags})` : '';
+}
+
+/**
+ * A JavaScript fault rather than a stated refusal: the packages' own TypeErrors and RangeErrors
+ * open with the function that refused (`fitMotor: options.fix …`) or carry a code; an error such
+ * as "Cannot read properties of undefined" does neither.
+ */
+function isInternal(err: unknown): err is Error {
+  if (!(err instanceof TypeError || err instanceof RangeError || err instanceof ReferenceError)) return false;
+  if (typeof (err as { code?: unknown }).code === 'string') return false;
+  return !/^[A-Za-z][\w.[\]]*: /.test(err.message);
 }
