@@ -11,10 +11,19 @@ export function noiseOf(x: Float64Array | undefined): number {
   return x instanceof Float64Array && x.length >= 4 ? estimateNoiseLevel(x).sigma : NaN;
 }
 
-/** Checks a recording shape once for a public detector; returns n and the sample interval. */
+/**
+ * Recordings already checked, with what the check found: `scanRecording` and `diagnoseFit` run
+ * every detector on the same recording object, and each public detector checks its argument;
+ * the scan over the samples is done once per object. Channels are read-only to the detectors.
+ */
+const checked = new WeakMap<object, { n: number; dt: number; channels: object }>();
+
+/** Checks a recording shape for a public detector (once per recording object); returns n and the sample interval. */
 export function checkRecording(fn: string, rec: RecordingLike): { n: number; dt: number } {
   if (rec === null || typeof rec !== 'object' || !(rec.time instanceof Float64Array)) throw new TypeError(`${fn}: recording.time must be a Float64Array`);
   if (rec.channels === null || typeof rec.channels !== 'object') throw new TypeError(`${fn}: recording.channels must be an object`);
+  const seen = checked.get(rec);
+  if (seen !== undefined && seen.channels === rec.channels && seen.n === rec.time.length) return { n: seen.n, dt: seen.dt };
   const n = rec.time.length;
   for (const [name, v] of Object.entries(rec.channels)) {
     if (v === undefined) continue;
@@ -24,6 +33,7 @@ export function checkRecording(fn: string, rec: RecordingLike): { n: number; dt:
   }
   const dt = medianInterval(rec.time);
   if (!(dt > 0)) throw new RangeError(`${fn}: recording.time must be increasing (median interval ${dt})`);
+  checked.set(rec, { n, dt, channels: rec.channels });
   return { n, dt };
 }
 
