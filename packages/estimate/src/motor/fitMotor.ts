@@ -13,7 +13,7 @@ import type { DetailedConstant } from '../detailed/createDetailedProblem.js';
 import type { PreparedRecording } from './prepareRecording.js';
 import { addSupplyTerms } from './addSupplyTerms.js';
 import { effectStarts, needsDetailedModel, runningTorque } from './detailedStarts.js';
-import { informs, uses, WOULD_INFORM } from './informationMap.js';
+import { informs, UNITS, uses, WOULD_INFORM } from './informationMap.js';
 import type { LumpedName } from './informationMap.js';
 import { polishJointly } from './polishJointly.js';
 import { windowOf } from './windowOf.js';
@@ -32,7 +32,6 @@ import type {
 const PREFIT_THRESHOLD = 65536;
 const PREFIT_MIN_WINDOW = 16384;
 
-const UNITS: Record<LumpedName, string> = { R: 'Ω', L: 'H', Kt: 'N·m/A', Ke: 'V·s/rad', J: 'kg·m²', b: 'N·m·s/rad', Tc: 'N·m' };
 const DEFAULTS: Constants = { R: 1, L: 1e-3, Kt: 0.05, Ke: 0.05, J: 1e-5, b: 1e-6, Tc: 0 };
 
 /**

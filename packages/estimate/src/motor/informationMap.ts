@@ -4,6 +4,9 @@ import type { MotorConstantName, MotorExperimentKind } from './types.js';
 /** The lumped model's constants (the streamed linear kernel fits these). */
 export type LumpedName = Extract<MotorConstantName, 'R' | 'L' | 'Kt' | 'Ke' | 'J' | 'b' | 'Tc'>;
 
+/** SI unit of each lumped constant. */
+export const UNITS: Record<LumpedName, string> = { R: 'Ω', L: 'H', Kt: 'N·m/A', Ke: 'V·s/rad', J: 'kg·m²', b: 'N·m·s/rad', Tc: 'N·m' };
+
 /** Which recording would inform each lumped constant (said when none of the given ones does). */
 export const WOULD_INFORM: Record<LumpedName, string> = {
   R: 'a locked-rotor step, or a free-run step / PRBS with current',

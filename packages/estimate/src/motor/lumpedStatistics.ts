@@ -1,12 +1,12 @@
 import { covarianceFromNormalMatrix } from '../solver/covarianceFromNormalMatrix.js';
 import tQuantile from '@stdlib/stats-base-dists-t-quantile';
 import type { Constants, ParameterLayout } from './createMotorProblem.js';
+import { UNITS } from './informationMap.js';
 import type { LumpedName } from './informationMap.js';
 import { logCovarianceOfConstants } from './logCovarianceOfConstants.js';
 import type { ConstantMap } from './logCovarianceOfConstants.js';
 import type { ConstantCovariance, FitInformation, MotorConstantName, ParameterEstimate, UninformedConstant } from './types.js';
 
-const UNITS: Record<LumpedName, string> = { R: 'Ω', L: 'H', Kt: 'N·m/A', Ke: 'V·s/rad', J: 'kg·m²', b: 'N·m·s/rad', Tc: 'N·m' };
 
 /** Input of `lumpedStatistics`: the lumped fit's optimum and its layout. */
 export interface LumpedStatisticsInput {
