@@ -299,8 +299,18 @@ export interface ModelCandidate {
   accepted: boolean;
   /** Why, in plain words with the numbers. */
   reason: string;
-  /** The constants it adds, as its fit gave them. */
+  /**
+   * The constants it adds, as its fit gave them — or, for a candidate the score test turned down
+   * without a fit, one Gauss–Newton step from the current model with the linearised 95 % interval
+   * (floored at zero).
+   */
   effects: Record<string, { value: number; unit: string; interval95: [number, number] | null }>;
+  /**
+   * Rao's score test at the model it extends (F form and p-value), where it applies (Coulomb
+   * friction, drag, heating): a candidate with p ≥ alpha is not fitted (`converged` false, no
+   * comparison).
+   */
+  scoreTest?: { statistic: number; pValue: number };
 }
 
 /** An extension the data do not support, with the bound its candidate fit set on each constant. */

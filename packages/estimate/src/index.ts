@@ -35,7 +35,9 @@ export type {
 } from './solver/types.js';
 
 // Motor estimator (R, L, Kt/Ke, J, b, Tc from bench recordings).
-export { fitMotor } from './motor/fitMotor.js';
+export { fitMotor, scoreMotorExtensions } from './motor/fitMotor.js';
+export { sharePreparation } from './motor/prepareRecording.js';
+export type { ExtensionScore } from './detailed/scoreDetailed.js';
 export { measuredChannel } from './motor/measuredChannel.js';
 export { checkFitMotorOptions } from './motor/checkFitMotorOptions.js';
 export { classifyRecording } from './motor/classifyRecording.js';

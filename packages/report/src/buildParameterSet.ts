@@ -223,6 +223,7 @@ function recordModel(m: ModelChoiceRecord): ModelChoiceRecord {
     candidates: m.candidates.map((c) => ({
       extensions: [...c.extensions], added: c.added, converged: c.converged, accepted: c.accepted, reason: c.reason,
       comparison: c.comparison === null ? null : { fPValue: num(c.comparison.fPValue), aic: [num(c.comparison.aic[0]), num(c.comparison.aic[1])], bic: [num(c.comparison.bic[0]), num(c.comparison.bic[1])] },
+      ...(c.scoreTest !== undefined ? { scoreTest: { statistic: num(c.scoreTest.statistic), pValue: num(c.scoreTest.pValue) } } : {}),
     })),
   };
 }

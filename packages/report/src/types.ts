@@ -184,6 +184,8 @@ export interface ModelChoiceRecord {
   candidates: {
     extensions: string[]; added: string | null; converged: boolean; accepted: boolean; reason: string;
     comparison: { fPValue: number; aic: [number, number]; bic: [number, number] } | null;
+    /** Rao's score test at the model it extends (F form, p-value), where it was run. */
+    scoreTest?: { statistic: number; pValue: number };
   }[];
 }
 

@@ -375,7 +375,7 @@ export function createDetailedProblem(setup: DetailedSetup): DetailedProblem {
         const e = entries[j]!;
         // Forward steps √ε-sized (error ~1e-8 relative), central steps ε^⅓-sized; both relative for log entries.
         const base = central ? FD_STEP : FD_FORWARD;
-        const step = e.transform === 'log' ? base : base * Math.max(1, Math.abs(theta[j]!));
+        const step = e.step !== undefined && !central ? e.step : e.transform === 'log' ? base : base * Math.max(1, Math.abs(theta[j]!));
         const col = j * rows;
         for (let r = 0; r < recs.length; r++) {
           if (e.recording >= 0 ? e.recording !== r : moves[r]![j] === 0) continue;

@@ -74,7 +74,8 @@ const UNIDENTIFIED_RSE = 0.5;
  * @param opts - extensions, pinned constants, starts, ambient temperature, solver options
  * @returns a `MotorFit`
  */
-export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions): MotorFit {
+/** The θ layout, fixed values, nuisance slots and noise levels of a detailed fit (see `fitDetailed`). */
+export function layoutDetailed(recs: PreparedRecording[], opts: DetailedFitOptions) {
   const ext = opts.extensions;
   const hasCurrent = recs.some((r) => r.current !== null && r.kind !== 'coast-down') || recs.some((r) => r.drivenBeforeCut && r.current !== null);
   const hasTorque = false;
@@ -244,6 +245,12 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
     removeEntry(setup, theta0, index.R);
     notInformed.push({ name: 'R', reason: 'steady points alone give V = (K + R·b/K)·ω and i = (b/K)·ω: R and K do not part', wouldInform: 'a locked-rotor step, or R pinned to a known value' });
   }
+  return { ext, used, fix, notInformed, onlyRatios, speedOnlyDriven, noCurrent, coastNoCurrent, tableOnly, values, entries, theta0, index, setup, tied };
+}
+
+export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions): MotorFit {
+  const { ext, used, fix, notInformed, onlyRatios, speedOnlyDriven, noCurrent, coastNoCurrent, tableOnly, entries, theta0, index, setup, tied } = layoutDetailed(recs, opts);
+  const { sigma, slots } = setup;
   const p = entries.length;
   const names = entries.map((e) => e.name);
   const attempts: StartAttempt[] = [];

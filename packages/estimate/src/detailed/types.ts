@@ -29,4 +29,6 @@ export interface ThetaEntry {
   scale: number;
   /** Recording index of a nuisance, −1 for a constant shared by all recordings. */
   recording: number;
+  /** A forward-difference step of its own on θ (a secant), where the default one is too small for the entry's effect. @default the problem's */
+  step?: number;
 }

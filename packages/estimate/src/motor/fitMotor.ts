@@ -8,8 +8,11 @@ import type { Constants, ParameterLayout, RecordingSlots, ResidualSeries } from 
 import { guessConstants } from './guessConstants.js';
 import { prepareRecording } from './prepareRecording.js';
 import { fitDetailed } from '../detailed/fitDetailed.js';
+import { scoreDetailed } from '../detailed/scoreDetailed.js';
+import type { ExtensionScore } from '../detailed/scoreDetailed.js';
 import { DETAILED_CONSTANTS as DETAILED_NAMES } from '../detailed/createDetailedProblem.js';
 import type { DetailedConstant } from '../detailed/createDetailedProblem.js';
+import type { ModelExtensions } from '../detailed/types.js';
 import type { PreparedRecording } from './prepareRecording.js';
 import { addSupplyTerms } from './addSupplyTerms.js';
 import { effectStarts, needsDetailedModel, runningTorque } from './detailedStarts.js';
@@ -77,15 +80,7 @@ export function fitMotor(recordings: MotorRecordingInput[], options?: FitMotorOp
   if (recordings.length === 0) throw new RangeError('fitMotor: recordings must hold at least one recording (got 0)');
   const opts = checkFitMotorOptions(options);
   const recs = recordings.map((item, i) => prepareRecording(item, i, opts.voltage));
-  opts.noise.forEach((e, i) => {
-    const r = recs[i];
-    if (e === null || e === undefined || r === undefined) return;
-    const given = (sigma: number): NoiseLevel => ({ sigma, method: 'given', quantum: null });
-    if (e.current !== undefined && r.currentNoise !== null) r.currentNoise = given(e.current);
-    const sp = r.encoder !== null ? e.angle : e.speed;
-    if (sp !== undefined && r.speedNoise !== null) r.speedNoise = { ...given(sp), quantum: r.speedNoise.quantum };
-    if (e.voltage !== undefined && r.terminalNoise !== null) r.terminalNoise = given(e.voltage);
-  });
+  applyGivenNoise(recs, opts);
   let fit = fitPrepared(recs, opts);
   addSupplyTerms(fit, recordings, recs);
   // Re-weight once by the residual noise: the data-only σ of a fast-moving or quantised channel
@@ -112,6 +107,66 @@ export function fitMotor(recordings: MotorRecordingInput[], options?: FitMotorOp
   return fit;
 }
 
+/** The noise SDs the caller gave (`options.noise`) replace the data's own estimates. */
+function applyGivenNoise(recs: PreparedRecording[], opts: ReturnType<typeof checkFitMotorOptions>): void {
+  opts.noise.forEach((e, i) => {
+    const r = recs[i];
+    if (e === null || e === undefined || r === undefined) return;
+    const given = (sigma: number): NoiseLevel => ({ sigma, method: 'given', quantum: null });
+    if (e.current !== undefined && r.currentNoise !== null) r.currentNoise = given(e.current);
+    const sp = r.encoder !== null ? e.angle : e.speed;
+    if (sp !== undefined && r.speedNoise !== null) r.speedNoise = { ...given(sp), quantum: r.speedNoise.quantum };
+    if (e.voltage !== undefined && r.terminalNoise !== null) r.terminalNoise = given(e.voltage);
+  });
+}
+
+/** Effect constants each extension adds that a score test can move from zero. */
+const SCORED: Partial<Record<keyof ModelExtensions, DetailedConstant[]>> = { coulomb: ['Tc'], drag: ['c'], heating: ['Rth', 'Cth'] };
+
+/**
+ * Rao's score tests of extensions of the detailed model at a fitted model, without fitting them:
+ * for each, how much the recordings' sum of squares could drop if its constants moved from zero
+ * (`scoreDetailed`), all from one Jacobian of the model extended by every one of them at the
+ * fitted model's constants, with the same recordings, noise SDs and options as the fit. A screen
+ * before fitting extensions the data may not support. Coulomb friction, drag and winding heating
+ * can be tested; drive limits (which vanish at infinity, not at zero) and stiction (above Coulomb
+ * friction) cannot.
+ *
+ * @param recordings - the recordings of the fit
+ * @param options - the fit's options with `warmStart` (the fitted model) and `extensions` (the fitted model's)
+ * @param added - the extensions to test, each on its own
+ * @returns per extension its score, or null where it cannot be computed (a loaded run with torque, an extension no recording uses, drive limits, stiction)
+ * @throws TypeError / RangeError as `fitMotor`
+ * @example
+ * const s = scoreMotorExtensions(runs, { warmStart: fit, noise }, ['coulomb', 'drag']);
+ * s.drag?.statistic; // => about 1 when the recordings show no drag
+ */
+export function scoreMotorExtensions(recordings: MotorRecordingInput[], options: FitMotorOptions & { warmStart: MotorFit }, added: (keyof ModelExtensions)[]): Partial<Record<keyof ModelExtensions, ExtensionScore | null>> {
+  const out: Partial<Record<keyof ModelExtensions, ExtensionScore | null>> = {};
+  for (const e of added) out[e] = null;
+  const opts = checkFitMotorOptions({ ...options, reweight: false });
+  const recs = recordings.map((item, i) => prepareRecording(item, i, opts.voltage));
+  applyGivenNoise(recs, opts);
+  if (recs.some((r) => r.kind === 'loaded' && r.loadTorque !== 0)) return out;
+  const coulomb = opts.coulomb === 'auto' ? recs.some((r) => r.kind === 'coast-down' || r.kind === 'steady-state') : opts.coulomb;
+  const base = { ...opts.extensions, coulomb: coulomb || opts.extensions.coulomb === true };
+  if (base.stiction) return out;
+  const testable = added.filter((e) => SCORED[e] !== undefined && !base[e] && !SCORED[e]!.some((c) => opts.fix[c] !== undefined));
+  if (testable.length === 0) return out;
+  const ext: ModelExtensions = { ...base };
+  for (const e of testable) ext[e] = true;
+  const { fixedD, start, startSource, warm } = detailedInputs(recs, opts, ext);
+  // A lumped constant the fitted model held (R of steady points alone, say) stays held: the test
+  // asks about the new effect at the fitted model, not about directions that model did not fit.
+  const fitted = new Set(options.warmStart.fittedNames);
+  for (const c of ['R', 'L', 'Kt', 'J', 'b'] as const) {
+    if (fixedD[c] === undefined && start[c] !== undefined && !fitted.has(`ln ${c === 'Kt' ? 'K' : c}`)) fixedD[c] = start[c];
+  }
+  const scores = scoreDetailed(recs, { extensions: ext, fix: fixedD, start, startSource, ambient: opts.ambientTemperature, solver: opts.solver, keepResiduals: false, reweight: false, warm }, testable.map((e) => SCORED[e]!));
+  testable.forEach((e, i) => { out[e] = scores[i] ?? null; });
+  return out;
+}
+
 /** The fit of prepared recordings (see `fitMotor`). */
 function fitPrepared(recs: PreparedRecording[], opts: ReturnType<typeof checkFitMotorOptions>, engine: 'auto' | 'linear' = 'auto'): MotorFit {
 
@@ -119,62 +174,7 @@ function fitPrepared(recs: PreparedRecording[], opts: ReturnType<typeof checkFit
   const separate = recs.some((r) => r.kind === 'loaded' && r.loadTorque !== 0);
   const ext = { ...opts.extensions, coulomb: coulomb || opts.extensions.coulomb === true };
   if (!separate && engine === 'auto' && needsDetailedModel(recs, ext)) {
-    const fixedD: Partial<Record<DetailedConstant, number>> = { ...opts.fix };
-    const guesses = guessConstants(recs, fixedD as Partial<Constants>);
-    const start: Partial<Record<DetailedConstant, number>> = {};
-    const startSource: Partial<Record<DetailedConstant, string>> = {};
-    for (const [k, g] of Object.entries(guesses)) { start[k as DetailedConstant] = g.value; startSource[k as DetailedConstant] = g.source; }
-    const autoStart: Partial<Record<DetailedConstant, number>> = { ...start };
-    for (const [k, v] of Object.entries(opts.initial)) { start[k as DetailedConstant] = v; startSource[k as DetailedConstant] = 'options.initial'; }
-    // The streamed linear kernel first, where it can take the recordings (a coast-down as its
-    // speed decay, an encoder speed as a speed, a jittered clock as non-uniform samples): its
-    // optimum starts the detailed fit a few steps from its own.
-    if (engine === 'auto' && opts.warmStart === null && !recs.some((r) => r.table || r.source === 'none')) {
-      try {
-        const pre = fitPrepared(recs, { ...opts, extensions: {}, coulomb: false }, 'linear');
-        if (pre.converged) {
-          for (const [k, e] of Object.entries(pre.parameters)) {
-            if (e.fixed || !(DETAILED_NAMES as readonly string[]).includes(k) || !Number.isFinite(e.value)) continue;
-            if (k === 'Tc' && !(e.value > 0)) continue;
-            start[k as DetailedConstant] = e.value;
-            startSource[k as DetailedConstant] = 'the lumped model fitted first by the streamed linear kernel';
-          }
-        }
-      } catch { /* the guesses stand */ }
-    }
-    effectStarts(recs, ext, start, startSource);
-    effectStarts(recs, ext, autoStart, {});
-    const noCurrentAtAll = recs.every((r) => r.current === null);
-    if (ext.coulomb && !(start.Tc! > 0 && (noCurrentAtAll || start.Tc! < runningTorque(recs, start.Kt ?? 0.05)))) {
-      // 5 % of the torque the rotor runs against (Kt times the smallest running current; common
-      // practice, no source: a start, not a guess). A start above the running torque holds the
-      // rotor still, where no gradient leads back.
-      start.Tc = 0.05 * runningTorque(recs, start.Kt ?? 0.05);
-    }
-    if (ext.coulomb && !(noCurrentAtAll && autoStart.Tc! > 0)) autoStart.Tc = 0.05 * runningTorque(recs, autoStart.Kt ?? 0.05);
-    // A warm start: the previous fit's constants (unless `initial` names them) and nuisances by name.
-    let warm: Map<string, number> | null = null;
-    const warmReset = new Set<string>();
-    const nearZero: Partial<Record<DetailedConstant, number>> = {};
-    if (opts.warmStart !== null) {
-      const w = opts.warmStart;
-      warm = new Map(w.fittedNames.map((name, j) => [name, w.theta[j]!]));
-      for (const [k, e] of Object.entries(w.parameters)) {
-        if (e.fixed || !(DETAILED_NAMES as readonly string[]).includes(k) || opts.initial[k as MotorConstantName] !== undefined) continue;
-        // A constant the previous fit drove towards zero on its log scale has no gradient left
-        // there (another term stood in for it): it starts again from its own guess.
-        const own = autoStart[k as DetailedConstant];
-        if (own !== undefined && e.value < 1e-4 * own) { warmReset.add(k); nearZero[k as DetailedConstant] = e.value; continue; }
-        if (Number.isFinite(e.value) && e.value > 0) { start[k as DetailedConstant] = e.value; startSource[k as DetailedConstant] = 'the previous fit (warm start)'; }
-      }
-      for (const name of [...warm.keys()]) if (/^ln /.test(name)) warm.delete(name);
-      for (const k of warmReset) startSource[k as DetailedConstant] = `${startSource[k as DetailedConstant] ?? 'guess'} (the previous fit had it near zero)`;
-      // The heating model's R is the resistance at 20 °C; a fit without it gave R at the run's
-      // temperature, taken as the ambient (copper law, k = 234.5 °C, FACTS.md §3).
-      if (ext.heating && !(w.variant.extensions ?? []).includes('heating') && start.R !== undefined && opts.initial.R === undefined) {
-        start.R = (start.R * (234.5 + 20)) / (234.5 + opts.ambientTemperature);
-      }
-    }
+    const { fixedD, start, startSource, autoStart, warm, warmReset, nearZero } = detailedInputs(recs, opts, ext);
     const run = (s0: typeof start, src: typeof startSource): MotorFit => fitDetailed(recs, { extensions: ext, fix: fixedD, start: s0, startSource: src, ambient: opts.ambientTemperature, solver: opts.solver, keepResiduals: opts.keepResiduals, reweight: opts.reweight, warm, ...(Object.keys(opts.initial).length > 0 ? { autoStart } : {}) });
     const fresh = run(start, startSource);
     if (warmReset.size === 0) return fresh;
@@ -464,3 +464,67 @@ function fitPrepared(recs: PreparedRecording[], opts: ReturnType<typeof checkFit
   };
 }
 
+/**
+ * Starting values, pinned constants and the warm start of a detailed fit (see `fitPrepared`):
+ * closed-form guesses, the lumped model fitted first by the streamed kernel, the effects' starts,
+ * and the previous fit's θ by name.
+ */
+function detailedInputs(recs: PreparedRecording[], opts: ReturnType<typeof checkFitMotorOptions>, ext: ModelExtensions) {
+  const fixedD: Partial<Record<DetailedConstant, number>> = { ...opts.fix };
+  const guesses = guessConstants(recs, fixedD as Partial<Constants>);
+  const start: Partial<Record<DetailedConstant, number>> = {};
+  const startSource: Partial<Record<DetailedConstant, string>> = {};
+  for (const [k, g] of Object.entries(guesses)) { start[k as DetailedConstant] = g.value; startSource[k as DetailedConstant] = g.source; }
+  const autoStart: Partial<Record<DetailedConstant, number>> = { ...start };
+  for (const [k, v] of Object.entries(opts.initial)) { start[k as DetailedConstant] = v; startSource[k as DetailedConstant] = 'options.initial'; }
+  // The streamed linear kernel first, where it can take the recordings (a coast-down as its
+  // speed decay, an encoder speed as a speed, a jittered clock as non-uniform samples): its
+  // optimum starts the detailed fit a few steps from its own.
+  if (opts.warmStart === null && !recs.some((r) => r.table || r.source === 'none')) {
+    try {
+      const pre = fitPrepared(recs, { ...opts, extensions: {}, coulomb: false }, 'linear');
+      if (pre.converged) {
+        for (const [k, e] of Object.entries(pre.parameters)) {
+          if (e.fixed || !(DETAILED_NAMES as readonly string[]).includes(k) || !Number.isFinite(e.value)) continue;
+          if (k === 'Tc' && !(e.value > 0)) continue;
+          start[k as DetailedConstant] = e.value;
+          startSource[k as DetailedConstant] = 'the lumped model fitted first by the streamed linear kernel';
+        }
+      }
+    } catch { /* the guesses stand */ }
+  }
+  effectStarts(recs, ext, start, startSource);
+  effectStarts(recs, ext, autoStart, {});
+  const noCurrentAtAll = recs.every((r) => r.current === null);
+  if (ext.coulomb && !(start.Tc! > 0 && (noCurrentAtAll || start.Tc! < runningTorque(recs, start.Kt ?? 0.05)))) {
+    // 5 % of the torque the rotor runs against (Kt times the smallest running current; common
+    // practice, no source: a start, not a guess). A start above the running torque holds the
+    // rotor still, where no gradient leads back.
+    start.Tc = 0.05 * runningTorque(recs, start.Kt ?? 0.05);
+  }
+  if (ext.coulomb && !(noCurrentAtAll && autoStart.Tc! > 0)) autoStart.Tc = 0.05 * runningTorque(recs, autoStart.Kt ?? 0.05);
+  // A warm start: the previous fit's constants (unless `initial` names them) and nuisances by name.
+  let warm: Map<string, number> | null = null;
+  const warmReset = new Set<string>();
+  const nearZero: Partial<Record<DetailedConstant, number>> = {};
+  if (opts.warmStart !== null) {
+    const w = opts.warmStart;
+    warm = new Map(w.fittedNames.map((name, j) => [name, w.theta[j]!]));
+    for (const [k, e] of Object.entries(w.parameters)) {
+      if (e.fixed || !(DETAILED_NAMES as readonly string[]).includes(k) || opts.initial[k as MotorConstantName] !== undefined) continue;
+      // A constant the previous fit drove towards zero on its log scale has no gradient left
+      // there (another term stood in for it): it starts again from its own guess.
+      const own = autoStart[k as DetailedConstant];
+      if (own !== undefined && e.value < 1e-4 * own) { warmReset.add(k); nearZero[k as DetailedConstant] = e.value; continue; }
+      if (Number.isFinite(e.value) && e.value > 0) { start[k as DetailedConstant] = e.value; startSource[k as DetailedConstant] = 'the previous fit (warm start)'; }
+    }
+    for (const name of [...warm.keys()]) if (/^ln /.test(name)) warm.delete(name);
+    for (const k of warmReset) startSource[k as DetailedConstant] = `${startSource[k as DetailedConstant] ?? 'guess'} (the previous fit had it near zero)`;
+    // The heating model's R is the resistance at 20 °C; a fit without it gave R at the run's
+    // temperature, taken as the ambient (copper law, k = 234.5 °C, FACTS.md §3).
+    if (ext.heating && !(w.variant.extensions ?? []).includes('heating') && start.R !== undefined && opts.initial.R === undefined) {
+      start.R = (start.R * (234.5 + 20)) / (234.5 + opts.ambientTemperature);
+    }
+  }
+  return { fixedD, start, startSource, autoStart, warm, warmReset, nearZero };
+}

@@ -112,6 +112,37 @@ const FLOOR = 1e-12;
  * @throws TypeError / RangeError naming `recordings[index]` and the channel when the data are unusable
  */
 export function prepareRecording(item: MotorRecordingInput, index: number, voltageMode: 'auto' | 'measured'): PreparedRecording {
+  if (shared === null || item === null || typeof item !== 'object' || item.recording === null || typeof item.recording !== 'object') return prepareOnce(item, index, voltageMode);
+  const key = `${index}\u0000${voltageMode}\u0000${item.kind ?? ''}\u0000${item.name ?? ''}`;
+  let byKey = shared.get(item.recording);
+  if (byKey === undefined) { byKey = new Map(); shared.set(item.recording, byKey); }
+  let prep = byKey.get(key);
+  if (prep === undefined) { prep = prepareOnce(item, index, voltageMode); byKey.set(key, prep); }
+  // A shallow copy: a fit replaces the noise levels of its copy (the arrays are only read).
+  return { ...prep };
+}
+
+/** Preparations shared inside `sharePreparation`, by recording object (null outside it). */
+let shared: WeakMap<object, Map<string, PreparedRecording>> | null = null;
+
+/**
+ * Runs `work` with the recordings' preparation (checks, kind, noise levels, rebuilt command)
+ * done once per recording object and reused by every fit inside it — for a caller that fits the
+ * same recordings several times (model choice, score tests). The recordings must not change
+ * while `work` runs. Nested calls share the outer scope.
+ *
+ * @param work - the fits
+ * @returns what `work` returns
+ * @example
+ * const fits = sharePreparation(() => [fitMotor(runs), fitMotor(runs, { coulomb: true })]);
+ */
+export function sharePreparation<T>(work: () => T): T {
+  if (shared !== null) return work();
+  shared = new WeakMap();
+  try { return work(); } finally { shared = null; }
+}
+
+function prepareOnce(item: MotorRecordingInput, index: number, voltageMode: 'auto' | 'measured'): PreparedRecording {
   const where = `fitMotor: recordings[${index}]`;
   if (item === null || typeof item !== 'object') throw new TypeError(`${where} must be an object { recording, kind?, name? }`);
   const rec = item.recording;
