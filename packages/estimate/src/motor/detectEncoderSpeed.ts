@@ -49,7 +49,28 @@ export function detectEncoderSpeed(time: Float64Array, speed: Float64Array): num
     }
     // Eight different counts, or — at the smallest step itself — three over a long record (a
     // coarse encoder at a high logging rate reads 0…4 counts per interval).
-    if (bad <= 0.01 * used && (counts.size >= 8 || (div === 1 && counts.size >= 3 && n >= 200))) return q;
+    if (bad <= 0.01 * used && (counts.size >= 8 || (div === 1 && counts.size >= 3 && n >= 200))) return noisierThanCounts(time, speed, q) ? null : q;
   }
   return null;
+}
+
+/**
+ * Whether the speed's sample-to-sample noise is far above what counting alone leaves: an
+ * ADC-quantised tachometer on a uniform clock passes the whole-multiple test too (every reading
+ * is a multiple of its LSB), but its analog noise spans several LSB, while a speed from counts
+ * carries only the angle's rounding, (ε_k − ε_{k−1})/Δt with ε uniform over one count: its second
+ * differences then have an SD of √(20/12)·q/Δt, which the MAD estimate /√6 puts at 0.53·q/Δt
+ * (derived here). Above 1.5·q/Δt (three times that) the channel is read as a quantised analog
+ * speed, whose noise is white and needs no angle fit.
+ */
+function noisierThanCounts(time: Float64Array, speed: Float64Array, q: number): boolean {
+  const n = speed.length;
+  const d2 = new Float64Array(n - 2);
+  const dt = new Float64Array(n - 1);
+  for (let k = 1; k < n; k++) dt[k - 1] = time[k]! - time[k - 1]!;
+  for (let k = 2; k < n; k++) d2[k - 2] = speed[k]! - 2 * speed[k - 1]! + speed[k - 2]!;
+  const med = (x: Float64Array): number => { const s = Float64Array.from(x).sort(); return s[s.length >> 1]!; };
+  const m = med(d2);
+  const sigma = (1.4826 * med(d2.map((x) => Math.abs(x - m)))) / Math.sqrt(6);
+  return sigma > (1.5 * q) / med(dt);
 }

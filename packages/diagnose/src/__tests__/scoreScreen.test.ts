@@ -1,0 +1,70 @@
+/**
+ * The score-test screen of identifyMotor on long invented recordings (generator of @motorprint/model,
+ * not a measurement) with a logger's artefacts added: 12-bit quantisation of current and speed over
+ * their full scales (the quantisation leaves the residuals slightly non-white, as a real logger does).
+ */
+import { scoreMotorExtensions, fitMotor } from '@motorprint/estimate';
+import type { MotorRecordingInput } from '@motorprint/estimate';
+import type { DetailedParams } from '@motorprint/model';
+import { describe, expect, it } from 'vitest';
+import { identifyMotor } from '../identifyMotor.js';
+import { MOTOR, invented } from './inventedRecordings.js';
+
+/** 1.5 s of PRBS at 10 kHz (30 000 residual rows) with 12-bit current (±4 A) and speed (±400 rad/s). */
+function loggedPrbs(p: DetailedParams, seed: number): MotorRecordingInput {
+  const r = invented(p, 'prbs', seed, { sampleRate: 10000, duration: 1.5 });
+  const q = (x: Float64Array, full: number): Float64Array => { const lsb = (2 * full) / 4096; return Float64Array.from(x, (v) => Math.round(v / lsb) * lsb); };
+  const ch = r.channels as Record<string, Float64Array>;
+  return { recording: { time: r.time, channels: { ...ch, current: q(ch.current!, 4), speed: q(ch.speed!, 400) } }, kind: 'prbs', name: `prbs-${seed}` };
+}
+
+describe('identifyMotor screens candidates by the score test on long recordings', () => {
+  it('clean motor, 3 runs: the lumped model is chosen, and candidates the test turns down are not fitted, with bounds that hold 0', () => {
+    let screenedAll = 0;
+    for (const s of [1, 2, 3]) {
+      const rec = [loggedPrbs(MOTOR, 200 + s)];
+      const id = identifyMotor(rec);
+      expect(id.model.extensions, `run ${s}`).toEqual([]);
+      const tried = id.model.candidates.filter((c) => c.added !== null);
+      expect(tried.map((c) => c.added).sort()).toEqual(['coulomb', 'drag']);
+      for (const c of tried) expect(c.scoreTest, `run ${s} ${c.added}`).toBeDefined();
+      if (tried.every((c) => !c.converged && c.comparison === null)) screenedAll++;
+      for (const u of id.unsupported) {
+        for (const [name, b] of Object.entries(u.bounds)) {
+          // A bound above zero (the truth): the linearised interval, floored at zero, holds 0.
+          expect(b.upper95, `run ${s} ${name}`).toBeGreaterThan(0);
+        }
+      }
+    }
+    // Under the null each screen passes with probability 0.99; all three runs screen both
+    // candidates with probability 0.99⁶ ≈ 0.94 — at least two of three fail with ≈ 0.2 %.
+    expect(screenedAll).toBeGreaterThanOrEqual(2);
+  }, 300_000);
+
+  it('drag 30 % of the viscous torque at the top speed: the test finds it, the candidate is fitted and chosen, c within 3 SE', () => {
+    // Top speed of the PRBS at ±12 V ≈ 230 rad/s; b·ω ≈ 2.3e-3 N·m there; c·ω² = 0.3·b·ω → c ≈ 1.3e-8 (derived here).
+    const c = 1.3e-8;
+    const rec = [loggedPrbs({ ...MOTOR, cd: c }, 211)];
+    const id = identifyMotor(rec);
+    expect(id.model.extensions).toContain('drag');
+    const cand = id.model.candidates.find((x) => x.added === 'drag' && x.accepted)!;
+    expect(cand.scoreTest!.pValue).toBeLessThan(1e-6);
+    const est = id.fit.parameters.c!;
+    expect(Math.abs(est.value - c) / est.standardError!).toBeLessThan(3);
+  }, 300_000);
+
+  it('the score F and its one-step estimate agree with a fitted drag candidate (same weights), and a column scale does not change it', () => {
+    const rec = [loggedPrbs({ ...MOTOR, cd: 4e-9 }, 212)];
+    const fit = fitMotor(rec);
+    const noise = fit.recordings.map((r) => Object.fromEntries(r.channels.filter((x) => x.sigma > 0).map((x) => [x.channel, x.sigma])));
+    const sc = scoreMotorExtensions(rec, { warmStart: fit, noise, reweight: false }, ['drag']).drag!;
+    expect(sc).not.toBeNull();
+    const full = fitMotor(rec, { warmStart: fit, extensions: { drag: true }, noise, reweight: false });
+    // F of the fitted candidate against the score problem's own null sum of squares.
+    const fFit = (sc.ssr - full.ssr) / (full.ssr / (full.rows - full.theta.length));
+    expect(sc.statistic / fFit).toBeGreaterThan(0.7);
+    expect(sc.statistic / fFit).toBeLessThan(1.4);
+    const oneStep = sc.oneStep.c!;
+    expect(Math.abs(oneStep.value - full.parameters.c!.value)).toBeLessThan(2 * oneStep.standardError);
+  }, 300_000);
+});
