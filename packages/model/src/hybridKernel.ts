@@ -82,6 +82,24 @@ export function resistanceAt(c: HybridConstants, T: number): number {
  * the entries of A.
  */
 export function expm2(a: number, b: number, c: number, d: number, s: number, out: PieceScratch): void {
+  // Pieces of a linear run repeat the same matrix and length sample after sample: the last result
+  // is reused when every argument is the same (bit for bit, so nothing changes).
+  if (a === LAST[0] && b === LAST[1] && c === LAST[2] && d === LAST[3] && s === LAST[4]) {
+    out.E.set(LAST_E);
+    out.Q.set(LAST_Q);
+    return;
+  }
+  expm2Fresh(a, b, c, d, s, out);
+  LAST[0] = a; LAST[1] = b; LAST[2] = c; LAST[3] = d; LAST[4] = s;
+  LAST_E.set(out.E);
+  LAST_Q.set(out.Q);
+}
+
+const LAST = new Float64Array(5).fill(NaN);
+const LAST_E = new Float64Array(4);
+const LAST_Q = new Float64Array(4);
+
+function expm2Fresh(a: number, b: number, c: number, d: number, s: number, out: PieceScratch): void {
   const mu = 0.5 * (a + d);
   const h = 0.5 * (a - d);
   const delta = h * h + b * c;
