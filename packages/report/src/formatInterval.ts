@@ -31,7 +31,9 @@ export function intervalDigits(
 ): number {
   if (ci === null || !Number.isFinite(ci[0]) || !Number.isFinite(ci[1]) || ci[0] === ci[1]) return minDigits;
   for (let d = minDigits; d <= MAX_DIGITS; d++) {
-    if (format(ci[0], d) !== format(ci[1], d)) return d;
+    // The ends must differ as numbers, not only as text: 9.9969e-4 and 1.0003e-3 at 3 digits are
+    // both 0.00100, however each is written ('1e-3 … 0.001' reads as a point).
+    if (Number(ci[0].toPrecision(d)) !== Number(ci[1].toPrecision(d)) && format(ci[0], d) !== format(ci[1], d)) return d;
   }
   return MAX_DIGITS;
 }

@@ -16,6 +16,9 @@ describe('formatInterval', () => {
     // Relative width 2e-9: 0.05200000 vs 0.0520000001 part at the 10th digit.
     expect(formatInterval([0.052, 0.0520000001])).toBe('0.052 … 0.0520000001');
     expect(formatInterval([-3.20001, -3.2])).toBe('−3.20001 … −3.2');
+    // Ends written differently but equal as numbers: at 3 digits 9.9969e-4 reads 1e−3 and
+    // 1.0003e-3 reads 0.001 (the same number); at 4 they part (derived here).
+    expect(formatInterval([9.9969e-4, 1.0003e-3], { digits: 3 })).toBe('9.997e−4 … 0.001');
   });
   it('keeps the minimum digits for a wide, a degenerate or a missing interval', () => {
     expect(formatInterval([1, 2], { digits: 5 })).toBe('1 … 2');
