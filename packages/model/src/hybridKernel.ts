@@ -82,22 +82,30 @@ export function resistanceAt(c: HybridConstants, T: number): number {
  * the entries of A.
  */
 export function expm2(a: number, b: number, c: number, d: number, s: number, out: PieceScratch): void {
-  // Pieces of a linear run repeat the same matrix and length sample after sample: the last result
-  // is reused when every argument is the same (bit for bit, so nothing changes).
-  if (a === LAST[0] && b === LAST[1] && c === LAST[2] && d === LAST[3] && s === LAST[4]) {
-    out.E.set(LAST_E);
-    out.Q.set(LAST_Q);
-    return;
+  // Pieces of a linear run repeat the same matrix and lengths sample after sample (one length, or
+  // two where the command's own clock splits each interval): the last few results are reused when
+  // every argument is the same, bit for bit, so nothing changes.
+  for (let slot = 0; slot < CACHE_SLOTS; slot++) {
+    const k = slot * 5;
+    if (a === CACHE_KEY[k] && b === CACHE_KEY[k + 1] && c === CACHE_KEY[k + 2] && d === CACHE_KEY[k + 3] && s === CACHE_KEY[k + 4]) {
+      out.E.set(CACHE_E.subarray(slot * 4, slot * 4 + 4));
+      out.Q.set(CACHE_Q.subarray(slot * 4, slot * 4 + 4));
+      return;
+    }
   }
   expm2Fresh(a, b, c, d, s, out);
-  LAST[0] = a; LAST[1] = b; LAST[2] = c; LAST[3] = d; LAST[4] = s;
-  LAST_E.set(out.E);
-  LAST_Q.set(out.Q);
+  const slot = cacheNext;
+  cacheNext = (cacheNext + 1) % CACHE_SLOTS;
+  CACHE_KEY[slot * 5] = a; CACHE_KEY[slot * 5 + 1] = b; CACHE_KEY[slot * 5 + 2] = c; CACHE_KEY[slot * 5 + 3] = d; CACHE_KEY[slot * 5 + 4] = s;
+  CACHE_E.set(out.E, slot * 4);
+  CACHE_Q.set(out.Q, slot * 4);
 }
 
-const LAST = new Float64Array(5).fill(NaN);
-const LAST_E = new Float64Array(4);
-const LAST_Q = new Float64Array(4);
+const CACHE_SLOTS = 4;
+const CACHE_KEY = new Float64Array(5 * CACHE_SLOTS).fill(NaN);
+const CACHE_E = new Float64Array(4 * CACHE_SLOTS);
+const CACHE_Q = new Float64Array(4 * CACHE_SLOTS);
+let cacheNext = 0;
 
 function expm2Fresh(a: number, b: number, c: number, d: number, s: number, out: PieceScratch): void {
   const mu = 0.5 * (a + d);
