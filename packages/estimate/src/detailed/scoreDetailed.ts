@@ -58,12 +58,13 @@ const HEAT_STEP = 1e-2;
  * sum of squares by moving that group's constants with the fitted model's.
  *
  * ## Method
- * With g = Jᵀr and A = JᵀJ of the extended problem at θ₀ (the fitted model, effects at
- * 1e-4 of their starts), LM = gᵀA⁻¹g − g₀ᵀA₀₀⁻¹g₀ (the drop the new directions add to what the
+ * With g = Jᵀr and A = JᵀJ of the extended problem at θ₀ (the fitted model; Tc and c at zero on
+ * a linear scale, heating at 1e-4 of its start), LM = gᵀA⁻¹g − g₀ᵀA₀₀⁻¹g₀ (the drop the new directions add to what the
  * fitted model's own directions still promise, so a fit stopped a hair from its optimum adds
  * nothing), and F = (LM/q)/s² with s² = SSR/(rows − p₀). Column scaling does not change LM, so
- * log-scaled constants at a small value test the same direction as the constants themselves at
- * zero. A heating model is tested with Rth small and Cth = τ/Rth, τ the start's time constant (a
+ * the scale of a tested column is free. The tested columns are secants (`EFFECT_STEP`,
+ * `HEAT_STEP`): the solver's √ε step of an effect at zero is at the level of the simulator's event
+ * location. A heating model is tested with Rth small and Cth = τ/Rth, τ the start's time constant (a
  * fixed thermal time constant; both columns enter: the rise's size and its time course).
  * Asymptotically equivalent to the likelihood-ratio and Wald tests under the null; a screen, not
  * a replacement for fitting an effect the test finds.
@@ -84,8 +85,9 @@ export function scoreDetailed(recs: PreparedRecording[], opts: DetailedFitOption
   const usable = groups.map((g) => g.length > 0 && g.every((c) => index[c] >= 0));
   if (!usable.some(Boolean)) return groups.map(() => null);
   // Effects that vanish at zero (Tc, c) are tested at zero, on a linear scale whose unit is the
-  // effect's start, by a secant of EFFECT_STEP. Heating is tested at a small thermal resistance on its log scale with the
-  // start's time constant held (Cth = τ/Rth; its model divides by Rth), by secants.
+  // effect's start, by a secant of EFFECT_STEP. Heating is tested at a small thermal resistance
+  // on its log scale with the start's time constant held (Cth = τ/Rth; its model divides by
+  // Rth), by secants of HEAT_STEP.
   const nullValue: Partial<Record<DetailedConstant, number>> = {};
   const tested = new Set(groups.flat().filter((c) => index[c] >= 0));
   for (const c of tested) {
