@@ -93,7 +93,7 @@ export default async function run(): Promise<void> {
       const fit = fitMotor(recs);
       if (!fit.converged) unconverged++;
       const d = diagnoseFit(fit, recs, { scanRecordings: false });
-      for (const c of names) { const ci = d.parameters[c]!.ci95; if (ci && ci[0] <= MOTOR[c] && MOTOR[c] <= ci[1]) cov[c]!++; }
+      for (const c of names) { const ci = d.parameters[c]!.interval95; if (ci && ci[0] <= MOTOR[c] && MOTOR[c] <= ci[1]) cov[c]!++; }
     }
     const sd3 = Math.sqrt((0.95 * 0.05) / seeds);
     console.log(`${pad('param', 6)} ${pad('coverage', 9)} ${pad('binom SD', 9)}`);

@@ -51,7 +51,7 @@ const CHANNELS: readonly ChannelName[] = ['voltage', 'current', 'speed', 'positi
  * @example
  * const recs = [{ recording: locked, kind: 'locked-rotor' }, { recording: prbs, kind: 'prbs' }];
  * const d = diagnoseFit(fitMotor(recs), recs);
- * d.parameters.R; // => { value: 2.0004, unit: 'Ω', standardError: 0.0009, ci95: [1.9986, 2.0022], identifiable: true, fixed: false }
+ * d.parameters.R; // => { value: 2.0004, unit: 'Ω', standardError: 0.0009, interval95: [1.9986, 2.0022], identifiable: true, fixed: false }
  */
 export function diagnoseFit(fit: MotorFit, recordings: MotorRecordingInput[], options: DiagnoseFitOptions = {}): FitDiagnosis {
   const fn = 'diagnoseFit';

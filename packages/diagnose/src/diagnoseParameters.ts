@@ -61,15 +61,15 @@ export function diagnoseParameters(fit: MotorFit, descriptions: RecordingDescrip
     const est = fit.parameters[c];
     const missing = fit.notInformed.find((u) => u.name === c);
     if (est === undefined) {
-      if (missing) parameters[c] = { value: null, unit: UNITS[c] ?? '', fixed: false, standardError: null, ci95: null, identifiable: false, reason: missing.reason, wouldInform: missing.wouldInform };
+      if (missing) parameters[c] = { value: null, unit: UNITS[c] ?? '', fixed: false, standardError: null, interval95: null, identifiable: false, reason: missing.reason, wouldInform: missing.wouldInform };
       continue;
     }
     if (est.fixed === true) {
-      parameters[c] = { value: est.value, unit: est.unit, fixed: true, standardError: null, ci95: null, identifiable: true };
+      parameters[c] = { value: est.value, unit: est.unit, fixed: true, standardError: null, interval95: null, identifiable: true };
       continue;
     }
     const v = verdictOf(c);
-    const out: ParameterDiagnosis = { value: est.value, unit: est.unit, fixed: false, standardError: null, ci95: null, identifiable: false };
+    const out: ParameterDiagnosis = { value: est.value, unit: est.unit, fixed: false, standardError: null, interval95: null, identifiable: false };
     // The estimator states each constant's standard error and interval from the information at
     // its optimum; a relative standard error above 50 % is not a measurement of the constant.
     const se = est.standardError;
@@ -84,7 +84,7 @@ export function diagnoseParameters(fit: MotorFit, descriptions: RecordingDescrip
     } else if (pinned) {
       out.identifiable = true;
       out.standardError = se;
-      out.ci95 = ci;
+      out.interval95 = ci;
     } else if (v !== undefined && !v.identifiable) {
       out.reason = v.reason; out.wouldInform = v.wouldInform;
     } else if (se === undefined || ci === undefined || !Number.isFinite(se)) {
@@ -94,7 +94,7 @@ export function diagnoseParameters(fit: MotorFit, descriptions: RecordingDescrip
     } else {
       out.reason = `the recordings pin it down only to ±${Math.round(100 * rse)} % (relative standard error above 50 %)`;
       out.wouldInform = WOULD_INFORM[c] ?? 'a longer or richer recording';
-      out.standardError = se; out.ci95 = ci;
+      out.standardError = se; out.interval95 = ci;
     }
     parameters[c] = out;
   }

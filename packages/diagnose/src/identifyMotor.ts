@@ -126,7 +126,7 @@ function identifyShared(recordings: MotorRecordingInput[], options: IdentifyOpti
       const pool = applicable(recordings, fit, diagnosis, model).filter((e) => !rejected.has(e) && !model[e]);
       if (pool.length === 0) break;
       let best: { ext: Extension; fit: MotorFit; bicDrop: number } | null = null;
-      const weights = noiseOf(fit);
+      const weights = weightsOf(fit);
       const scores = fit.converged && fit.rows >= SCREEN_ROWS ? scoresOf(recordings, base, fit, model, weights, pool) : {};
       for (const [q, e] of pool.entries()) {
         progress(`trying ${WORDS[e]}`, 0.3 + (0.6 * (round + q / pool.length)) / Math.max(1, round + 2));
@@ -229,7 +229,7 @@ function identifyShared(recordings: MotorRecordingInput[], options: IdentifyOpti
       progress(`checking ${WORDS[e]} is still needed`, 0.9);
       let reduced: MotorFit;
       try {
-        reduced = fitWith(fewer, { initial: { ...(base.initial ?? {}) }, warmStart: fit, noise: noiseOf(fit), reweight: false, solver: { ...(base.solver ?? {}), maxIterations: 60 } });
+        reduced = fitWith(fewer, { initial: { ...(base.initial ?? {}) }, warmStart: fit, noise: weightsOf(fit), reweight: false, solver: { ...(base.solver ?? {}), maxIterations: 60 } });
       } catch { continue; }
       if (!reduced.converged || reduced.rows !== fit.rows || reduced.theta.length >= fit.theta.length) continue;
       const comparison = compareNestedModels(`${listOf(fewer).join(' + ') || 'lumped'} vs + ${e}`, { name: listOf(fewer).join(' + ') || 'lumped', ssr: reduced.ssr, parameters: reduced.theta.length },
@@ -300,7 +300,7 @@ function scoresOf(recordings: MotorRecordingInput[], base: FitMotorOptions, fit:
 }
 
 /** The noise SDs a fit whitened with, per recording, to hold them in a comparison. */
-function noiseOf(fit: MotorFit): NonNullable<FitMotorOptions['noise']> {
+function weightsOf(fit: MotorFit): NonNullable<FitMotorOptions['noise']> {
   return fit.recordings.map((r) => {
     const o: { current?: number; speed?: number; angle?: number; voltage?: number } = {};
     for (const c of r.channels) if (c.sigma > 0 && Number.isFinite(c.sigma)) o[c.channel] = c.sigma;

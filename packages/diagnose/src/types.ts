@@ -211,8 +211,12 @@ export interface ParameterDiagnosis {
   fixed: boolean;
   /** Standard error [unit] by the delta method from the fitted scale; null when not identifiable or fixed. */
   standardError: number | null;
-  /** 95 % interval [unit]: Student-t (rows − p degrees of freedom) on the fitted scale, transformed back; null when not identifiable or fixed. */
-  ci95: [number, number] | null;
+  /**
+   * 95 % interval [unit]: the estimator's own (`interval95` of estimate's `ParameterEstimate`,
+   * Student-t on the fitted scale, transformed back); null when not identifiable or fixed. The
+   * parameter-set file writes it as `ci95`.
+   */
+  interval95: [number, number] | null;
   /** False when the recordings cannot inform the constant, or the covariance has no direction for it. */
   identifiable: boolean;
   /** Why it is not identifiable (absent when it is). */

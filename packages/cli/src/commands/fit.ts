@@ -168,7 +168,7 @@ function formatIdentification(id: Identification, set: ParameterSet, paint: Pain
       formatNumber(d.value as number, 5),
       d.unit,
       d.fixed ? 'pinned' : d.standardError !== null ? formatNumber(d.standardError, 2) : '—',
-      d.ci95 ? formatInterval(d.ci95) : '—',
+      d.interval95 ? formatInterval(d.interval95) : '—',
       d.fixed ? '' : (fit.parameters[name]?.informedBy ?? []).map((f) => basename(f)).join(', '),
     ]);
   out.push(paint.bold('Fitted constants'));

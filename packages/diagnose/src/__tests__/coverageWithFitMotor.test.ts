@@ -30,7 +30,7 @@ describe('95 % intervals from diagnoseFit on fitMotor results cover the true con
       if (!fit.converged) unconverged++;
       const d = diagnoseFit(fit, recs, { scanRecordings: false });
       for (const c of names) {
-        const ci = d.parameters[c]!.ci95;
+        const ci = d.parameters[c]!.interval95;
         if (ci !== null && ci[0] <= MOTOR[c] && MOTOR[c] <= ci[1]) covered[c]!++;
       }
     }

@@ -23,10 +23,10 @@ describe('diagnoseFit turns a fitMotor result into intervals, identifiability, r
     for (const c of ['R', 'L', 'Kt', 'Ke', 'J', 'b']) {
       const q = d.parameters[c]!;
       expect(q.identifiable, `${c}: ${q.reason}`).toBe(true);
-      expect(q.ci95![0]).toBeLessThan(q.value!);
-      expect(q.ci95![1]).toBeGreaterThan(q.value!);
+      expect(q.interval95![0]).toBeLessThan(q.value!);
+      expect(q.interval95![1]).toBeGreaterThan(q.value!);
       // On the log scale the interval is symmetric: √(low·high) = value (derived here).
-      expect(Math.abs(Math.sqrt(q.ci95![0] * q.ci95![1]) / q.value! - 1)).toBeLessThan(1e-12);
+      expect(Math.abs(Math.sqrt(q.interval95![0] * q.interval95![1]) / q.value! - 1)).toBeLessThan(1e-12);
     }
     // The delta method gives the estimator's own standard error (same covariance, same formula).
     expect(Math.abs(d.parameters.R!.standardError! / fit.parameters.R!.standardError! - 1)).toBeLessThan(1e-9);
@@ -57,7 +57,7 @@ describe('diagnoseFit turns a fitMotor result into intervals, identifiability, r
   it('is JSON-able apart from the autocorrelation arrays', () => {
     const text = JSON.stringify({ ...d, residuals: d.residuals.map((r) => ({ ...r, stats: { ...r.stats, autocorrelation: Array.from(r.stats.autocorrelation) } })) });
     const back = JSON.parse(text) as typeof d;
-    expect(back.parameters.R!.ci95).toEqual(d.parameters.R!.ci95);
+    expect(back.parameters.R!.interval95).toEqual(d.parameters.R!.interval95);
     expect(back.correlation).toEqual(d.correlation);
   });
 
@@ -69,7 +69,7 @@ describe('diagnoseFit turns a fitMotor result into intervals, identifiability, r
       const q = s.parameters[c];
       expect(q, c).toBeDefined();
       expect(q!.identifiable, c).toBe(false);
-      expect(q!.ci95).toBeNull();
+      expect(q!.interval95).toBeNull();
       expect(q!.reason!.length).toBeGreaterThan(10);
       expect(q!.wouldInform!.length).toBeGreaterThan(10);
     }

@@ -19,7 +19,7 @@ describe('the one import for lab scripts (README "From a lab script")', () => {
     for (const name of ['R', 'L', 'Kt', 'J', 'b']) {
       const p = report.parameters[name];
       expect(p?.identifiable, name).toBe(true);
-      const [low, high] = p?.ci95 ?? [Number.NaN, Number.NaN];
+      const [low, high] = p?.interval95 ?? [Number.NaN, Number.NaN];
       const half = (high - low) / 2;
       // Within 1.5 interval half-widths (≈ 3 standard errors) of the truth.
       expect(Math.abs((p?.value as number) - (truth[name] as number)), name).toBeLessThan(1.5 * half);
