@@ -88,8 +88,9 @@ export function expm2(a: number, b: number, c: number, d: number, s: number, out
   for (let slot = 0; slot < CACHE_SLOTS; slot++) {
     const k = slot * 5;
     if (a === CACHE_KEY[k] && b === CACHE_KEY[k + 1] && c === CACHE_KEY[k + 2] && d === CACHE_KEY[k + 3] && s === CACHE_KEY[k + 4]) {
-      out.E.set(CACHE_E.subarray(slot * 4, slot * 4 + 4));
-      out.Q.set(CACHE_Q.subarray(slot * 4, slot * 4 + 4));
+      const E = out.E, Q = out.Q, o = slot * 4;
+      E[0] = CACHE_E[o]!; E[1] = CACHE_E[o + 1]!; E[2] = CACHE_E[o + 2]!; E[3] = CACHE_E[o + 3]!;
+      Q[0] = CACHE_Q[o]!; Q[1] = CACHE_Q[o + 1]!; Q[2] = CACHE_Q[o + 2]!; Q[3] = CACHE_Q[o + 3]!;
       return;
     }
   }
