@@ -124,7 +124,7 @@ function gridStep(values: Float64Array, quantum: number): number {
   if (!Number.isFinite(quantum) || !(quantum > 0)) return 0;
   const n = values.length;
   const stride = Math.max(1, Math.floor(n / 20000));
-  const distinct = [...new Set(Array.from({ length: Math.ceil(n / stride) }, (_, j) => values[j * stride]!).filter(Number.isFinite))].sort((a, b) => a - b);
+  const distinct = sortedDistinct(values, stride);
   // The step, refined as the mean of the single-code gaps between neighbouring distinct values
   // (rounding in the file makes the smallest step a little off).
   let sum = 0, single = 0;
@@ -135,12 +135,31 @@ function gridStep(values: Float64Array, quantum: number): number {
   if (single < 3) return 0;
   const q = sum / single;
   // Every gap a whole number of steps (loosely for the long gaps, whose rounding adds up).
+  // (Stops at the first gap over the allowance: the answer is then no grid.)
+  const allowed = 0.05 * (distinct.length - 1);
   let bad = 0;
   for (let j = 1; j < distinct.length; j++) {
     const c = (distinct[j]! - distinct[j - 1]!) / q;
-    if (Math.abs(c - Math.round(c)) > 0.05 + 1e-3 * c) bad++;
+    if (Math.abs(c - Math.round(c)) > 0.05 + 1e-3 * c && ++bad > allowed) return 0;
   }
-  return bad <= 0.05 * (distinct.length - 1) ? q : 0;
+  return q;
+}
+
+/**
+ * The distinct finite values among values[0], values[stride], values[2·stride], …, ascending
+ * (−0 and +0 count as one value; which of them is kept does not change any difference taken).
+ */
+function sortedDistinct(values: Float64Array, stride: number): Float64Array {
+  const picked = new Float64Array(Math.ceil(values.length / stride));
+  let m = 0;
+  for (let k = 0; k < values.length; k += stride) {
+    const v = values[k]!;
+    if (Number.isFinite(v)) picked[m++] = v;
+  }
+  const sorted = picked.subarray(0, m).sort();
+  let u = 0;
+  for (let j = 0; j < m; j++) if (u === 0 || sorted[j] !== sorted[u - 1]) sorted[u++] = sorted[j]!;
+  return sorted.subarray(0, u);
 }
 
 /** Median by Hoare's selection (expected O(n)) on a copy; the input is left as it is. */
