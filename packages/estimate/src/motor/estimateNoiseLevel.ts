@@ -36,6 +36,9 @@ const SQRT12 = Math.sqrt(12);
  * inside its runs and no grid (an exact logged command) gives σ = 0 with method `exact`; a series
  * whose neighbours never differ gives the SD of its quietest tenth, or σ = 0 with method `constant`.
  *
+ * The estimate is kept with a copy of the samples: a later call on the same array whose samples
+ * are bit for bit unchanged returns it again (a copy of the result) instead of estimating anew.
+ *
  * ## References
  * F. R. Hampel (1974), "The influence curve and its role in robust estimation", J. Am. Stat.
  * Assoc. 69(346), 383–393, doi:10.1080/01621459.1974.10482962 (the MAD scale factor).
@@ -48,8 +51,33 @@ const SQRT12 = Math.sqrt(12);
  * estimateNoiseLevel(Float64Array.from({ length: 1000 }, (_, k) => 0.01 * k)).sigma; // => 0 (a ramp has no noise)
  */
 export function estimateNoiseLevel(values: Float64Array): NoiseLevel {
+  if (!(values instanceof Float64Array)) throw new TypeError('estimateNoiseLevel: values must be a Float64Array');
+  const seen = estimated.get(values);
+  if (seen !== undefined && sameSamples(seen.samples, values)) return { ...seen.level };
+  const level = estimateAfresh(values);
+  estimated.set(values, { samples: values.slice(), level: { ...level } });
+  return level;
+}
+
+/**
+ * The estimates already made, per channel array, with a copy of the samples they were made from.
+ * The fit, the model choice and every detector ask for the noise of the same few channels (a
+ * 1e5-sample recording is asked about 17 times); an array whose samples have changed since is
+ * estimated again, so the answer is always that of the samples as they are now.
+ */
+const estimated = new WeakMap<Float64Array, { samples: Float64Array; level: NoiseLevel }>();
+
+/** True when `a` and `b` hold bit for bit the same samples. */
+function sameSamples(a: Float64Array, b: Float64Array): boolean {
+  if (a.length !== b.length) return false;
+  const x = new Int32Array(a.buffer, a.byteOffset, 2 * a.length);
+  const y = new Int32Array(b.buffer, b.byteOffset, 2 * b.length);
+  for (let k = 0; k < x.length; k++) if (x[k] !== y[k]) return false;
+  return true;
+}
+
+function estimateAfresh(values: Float64Array): NoiseLevel {
   const fn = 'estimateNoiseLevel';
-  if (!(values instanceof Float64Array)) throw new TypeError(`${fn}: values must be a Float64Array`);
   const n = values.length;
   // One pass: finite count and the smallest non-zero step (the quantum; a step next to a
   // non-finite sample is NaN and never counts).
