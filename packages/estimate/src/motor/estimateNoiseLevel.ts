@@ -1,3 +1,4 @@
+import { selectKth } from './selectKth.js';
 import type { NoiseLevel } from './types.js';
 
 /** 1/Φ⁻¹(3/4): makes the median absolute deviation a consistent SD estimate for Gaussian noise. */
@@ -196,33 +197,12 @@ function median(a: Float64Array): number {
   if (n === 0) return NaN;
   const s = Float64Array.from(a);
   const h = n >> 1;
-  const hi = select(s, h);
+  const hi = selectKth(s, h);
   if (n % 2 === 1) return hi;
   // The lower middle is the largest value left of position h after the selection.
   let lo = -Infinity;
   for (let k = 0; k < h; k++) if (s[k]! > lo) lo = s[k]!;
   return 0.5 * (lo + hi);
-}
-
-/** Rearranges `s` so that s[k] holds the k-th smallest value, smaller ones left of it; returns it. */
-function select(s: Float64Array, k: number): number {
-  let left = 0, right = s.length - 1;
-  while (right > left) {
-    const mid = (left + right) >> 1;
-    // Median of three as the pivot.
-    const a = s[left]!, b = s[mid]!, c = s[right]!;
-    const pivot = a < b ? (b < c ? b : a < c ? c : a) : (a < c ? a : b < c ? c : b);
-    let i = left, j = right;
-    while (i <= j) {
-      while (s[i]! < pivot) i++;
-      while (s[j]! > pivot) j--;
-      if (i <= j) { const t = s[i]!; s[i] = s[j]!; s[j] = t; i++; j--; }
-    }
-    if (k <= j) right = j;
-    else if (k >= i) left = i;
-    else break;
-  }
-  return s[k]!;
 }
 
 function quietestSegmentSd(values: Float64Array): number {
