@@ -7,6 +7,12 @@
  * Rearranges `s` (no NaN in it) so that s[k] holds the k-th smallest value (0-based), none larger
  * left of it and none smaller right of it; returns it. The value is the one `s.sort()[k]` would
  * give, except that −0 and +0 are not told apart.
+ *
+ * @param s - the values, rearranged in place
+ * @param k - 0-based rank, 0 ≤ k < s.length
+ * @returns the k-th smallest value
+ * @example
+ * selectKth(Float64Array.of(5, 1, 4, 2, 3), 2); // => 3
  */
 export function selectKth(s: Float64Array, k: number): number {
   let left = 0, right = s.length - 1;
