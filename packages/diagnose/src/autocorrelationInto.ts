@@ -28,10 +28,13 @@ export function autocorrelationInto(out: Float64Array, x: Float64Array, maxLag: 
   let mean = 0;
   for (let t = 0; t < n; t++) mean += x[t]!;
   mean /= n;
+  // The deviations once, not once per lag (the same numbers: x[t] − mean each time).
+  const d = new Float64Array(n);
   let c0 = 0;
   for (let t = 0; t < n; t++) {
-    const d = x[t]! - mean;
-    c0 += d * d;
+    const v = x[t]! - mean;
+    d[t] = v;
+    c0 += v * v;
   }
   if (!(c0 > 0) || !Number.isFinite(c0)) {
     out.fill(NaN, 0, m + 1);
@@ -41,7 +44,7 @@ export function autocorrelationInto(out: Float64Array, x: Float64Array, maxLag: 
   for (let k = 1; k <= m; k++) {
     let s = 0;
     const end = n - k;
-    for (let t = 0; t < end; t++) s += (x[t]! - mean) * (x[t + k]! - mean);
+    for (let t = 0; t < end; t++) s += d[t]! * d[t + k]!;
     out[k] = s / c0;
   }
   return out;

@@ -3,6 +3,7 @@ import { compareNestedModels } from './compareNestedModels.js';
 import { fitLinearModel } from './fitLinearModel.js';
 import { checkRecording, noiseOf, sig } from './internal.js';
 import { mechanicalRegression } from './mechanicalRegression.js';
+import type { MechanicalRegression, MechanicalRegressionInput } from './mechanicalRegression.js';
 import { steadyLineTest } from './steadyLineTest.js';
 import type { Finding, ModelComparison, RecordingKind, RecordingLike } from './types.js';
 
@@ -45,6 +46,18 @@ import type { Finding, ModelComparison, RecordingKind, RecordingLike } from './t
 export function detectFriction(
   recording: RecordingLike,
   options: { kind?: RecordingKind; alpha?: number } = {},
+): { findings: Finding[]; comparisons: ModelComparison[] } {
+  return frictionWith(recording, options, mechanicalRegression);
+}
+
+/**
+ * `detectFriction` with the regression run by `regress` (`scanRecording` passes one that shares
+ * its result with `detectStiction`). Not exported from the package.
+ */
+export function frictionWith(
+  recording: RecordingLike,
+  options: { kind?: RecordingKind; alpha?: number },
+  regress: (input: MechanicalRegressionInput) => MechanicalRegression,
 ): { findings: Finding[]; comparisons: ModelComparison[] } {
   const fn = 'detectFriction';
   const { n, dt } = checkRecording(fn, recording);
@@ -91,7 +104,7 @@ export function detectFriction(
   const unit = current ? 'A' : 'N·m';
   let reg;
   try {
-    reg = mechanicalRegression({ sampleInterval: dt, drive, speed, alpha });
+    reg = regress({ sampleInterval: dt, drive, speed, alpha });
   } catch {
     return { findings, comparisons: [] };
   }

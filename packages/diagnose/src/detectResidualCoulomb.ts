@@ -29,18 +29,24 @@ export function detectResidualCoulomb(speed: Float64Array, residual: Float64Arra
     throw new TypeError('detectResidualCoulomb: speed and residual must be Float64Arrays of one length');
   }
   const dead = 3 * (speedSigma > 0 ? speedSigma : 0);
-  const rows: number[] = [];
-  let pos = 0, neg = 0, rest = 0;
-  for (let k = 0; k < speed.length; k++) {
-    if (!Number.isFinite(residual[k]!) || !Number.isFinite(speed[k]!)) continue;
-    rows.push(k);
-    if (speed[k]! > dead) pos++; else if (speed[k]! < -dead) neg++; else rest++;
+  // The fitted rows, with s and the residual on them (typed arrays filled in one pass).
+  const n = speed.length;
+  const rows = new Int32Array(n);
+  const sAll = new Float64Array(n);
+  const yAll = new Float64Array(n);
+  let m = 0, pos = 0, neg = 0, rest = 0;
+  for (let k = 0; k < n; k++) {
+    const r = residual[k]!, w = speed[k]!;
+    if (!Number.isFinite(r) || !Number.isFinite(w)) continue;
+    rows[m] = k;
+    yAll[m] = r;
+    if (w > dead) { pos++; sAll[m] = 1; } else if (w < -dead) { neg++; sAll[m] = -1; } else rest++;
+    m++;
   }
-  const m = rows.length;
   if (m < 50 || Math.max(pos, neg, rest) > 0.95 * m) return null;
   const one = new Float64Array(m).fill(1);
-  const s = Float64Array.from(rows, (k) => (speed[k]! > dead ? 1 : speed[k]! < -dead ? -1 : 0));
-  const y = Float64Array.from(rows, (k) => residual[k]!);
+  const s = sAll.subarray(0, m);
+  const y = yAll.subarray(0, m);
   const fit = fitLinearModel([one, s], y);
   const g = fit.coefficients[1]!, se = fit.standardErrors[1]!;
   if (!(se > 0)) return null;

@@ -36,8 +36,11 @@ export function detectResidualDelay(voltage: Float64Array, residual: Float64Arra
   const M = 20;
   if (n < 10 * M) return null;
   let vv = 0, ee = 0, rows = 0;
+  // The voltage steps once (every lag below reads them).
+  const steps = new Float64Array(n);
   for (let k = 1; k < n; k++) {
     const dv = voltage[k]! - voltage[k - 1]!;
+    steps[k] = dv;
     if (Number.isFinite(dv)) vv += dv * dv;
     if (Number.isFinite(residual[k]!)) { ee += residual[k]! * residual[k]!; rows++; }
   }
@@ -49,7 +52,7 @@ export function detectResidualDelay(voltage: Float64Array, residual: Float64Arra
     for (let k = 1; k + lag < n; k++) {
       const e = residual[k + lag]!;
       if (!Number.isFinite(e)) continue;
-      const dv = voltage[k]! - voltage[k - 1]!;
+      const dv = steps[k]!;
       if (Number.isFinite(dv)) s += dv * e;
     }
     if (Math.abs(s / norm) > Math.abs(peak)) { peak = s / norm; best = lag; }

@@ -1,4 +1,4 @@
-import { detectEncoderSpeed, estimateNoiseLevel } from '@motorprint/estimate';
+import { detectEncoderSpeed, estimateNoiseLevel, selectKth } from '@motorprint/estimate';
 import { checkRecording, noiseOf, sig } from './internal.js';
 import type { Finding, RecordingLike } from './types.js';
 
@@ -64,8 +64,11 @@ export function detectSaturation(recording: RecordingLike, options: { commandedV
     // Plateau level: the 98th percentile of |i| (robust against single noisy maxima).
     const sI = noiseOf(current);
     const sW = noiseOf(speed);
-    const mag = Float64Array.from(current, Math.abs).sort();
-    const top = mag[Math.floor(0.98 * (n - 1))]!;
+    // (By selection: the recording was checked finite, and |i| has no −0, so the value is the
+    // sorted array's.)
+    const mag = new Float64Array(n);
+    for (let k = 0; k < n; k++) mag[k] = Math.abs(current[k]!);
+    const top = selectKth(mag, Math.floor(0.98 * (n - 1)));
     // Longest contiguous run on the plateau (a transient peak does not make a long run).
     let count = 0, wLo = Infinity, wHi = -Infinity, run = 0, lo = Infinity, hi = -Infinity;
     for (let k = 0; k < n; k++) {

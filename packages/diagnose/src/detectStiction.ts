@@ -1,6 +1,7 @@
 import { fitLinearModel } from './fitLinearModel.js';
 import { checkRecording, sig } from './internal.js';
 import { mechanicalRegression } from './mechanicalRegression.js';
+import type { MechanicalRegression, MechanicalRegressionInput } from './mechanicalRegression.js';
 import type { Finding, RecordingLike } from './types.js';
 
 /**
@@ -32,12 +33,20 @@ import type { Finding, RecordingLike } from './types.js';
  * detectStiction(slowRampFromRest)?.code; // => 'stiction' when the rotor sticks
  */
 export function detectStiction(recording: RecordingLike): Finding | null {
+  return stictionWith(recording, mechanicalRegression);
+}
+
+/**
+ * `detectStiction` with the regression run by `regress` (`scanRecording` passes one that shares
+ * its result with `detectFriction`, which regresses the same channels). Not exported from the package.
+ */
+export function stictionWith(recording: RecordingLike, regress: (input: MechanicalRegressionInput) => MechanicalRegression): Finding | null {
   const { n, dt } = checkRecording('detectStiction', recording);
   const { current, speed } = recording.channels;
   if (!current || !speed || n < 400) return null;
   let reg;
   try {
-    reg = mechanicalRegression({ sampleInterval: dt, drive: current, speed });
+    reg = regress({ sampleInterval: dt, drive: current, speed });
   } catch {
     return null;
   }

@@ -45,6 +45,7 @@ export { detectVoltageSegments } from './motor/detectVoltageSegments.js';
 export { estimateNoiseLevel } from './motor/estimateNoiseLevel.js';
 export { detectEncoderSpeed } from './motor/detectEncoderSpeed.js';
 export { medianInterval } from './motor/medianInterval.js';
+export { selectKth } from './motor/selectKth.js';
 export { rebuildCommand } from './motor/rebuildCommand.js';
 export type { RebuiltCommand, SineBasis } from './motor/rebuildCommand.js';
 export { zeroPhaseLowPass } from './motor/zeroPhaseLowPass.js';

@@ -6,6 +6,9 @@ const POW10 = [
   1e19, 1e20, 1e21, 1e22,
 ];
 
+/** 2⁵³: integers below it are exact doubles. */
+const TWO_53 = 9007199254740992;
+
 const SPACE = 32;
 const TAB = 9;
 const CR = 13;
@@ -44,7 +47,8 @@ export function parseCellReference(cell: string, decimal: number): number {
  * case. The value is bit-identical to {@link parseCellReference} of the cell's text.
  *
  * ## Method
- * Plain decimals with at most 15 significant digits and a decimal exponent of at most 22 in
+ * Plain decimals whose significant digits form an integer below 2⁵³ (every one of at most 15
+ * digits, and 16-digit ones up to 9007199254740991) and a decimal exponent of at most 22 in
  * magnitude are computed as one multiplication or division of two exactly representable doubles,
  * which IEEE 754 rounds correctly (Clinger's fast path), so the result equals `Number()`'s. Anything
  * else (more digits, hex, `Infinity`, odd whitespace, stray characters) goes to
@@ -81,7 +85,7 @@ export function scanCell(text: string, start: number, lineEnd: number, delimiter
       sawDigit = true;
       if (mantissa === 0 && c === ZERO) {
         if (sawPoint) exponent--;
-      } else if (digits < 15) {
+      } else if (digits < 16) {
         mantissa = mantissa * 10 + (c - ZERO);
         digits++;
         if (sawPoint) exponent--;
@@ -96,6 +100,9 @@ export function scanCell(text: string, start: number, lineEnd: number, delimiter
     c = -1;
   }
   if (!sawDigit) return slowCell(text, start, lineEnd, delimiter, decimal, out, slot);
+  // A 16th digit may take the integer past 2⁵³, where it is no longer exact. Below 2⁵³ every step
+  // of the accumulation was exact; at or past it the rounded sum is at least 2⁵³ too.
+  if (mantissa >= TWO_53) return slowCell(text, start, lineEnd, delimiter, decimal, out, slot);
   if (c === LOWER_E || c === UPPER_E) {
     i++;
     let expNegative = false;

@@ -1,4 +1,4 @@
-import { create, createUnitDependencies, unitDependencies } from 'mathjs';
+import { createRequire } from 'node:module';
 import type { Unit } from 'mathjs';
 import type { ChannelRole } from './types.js';
 
@@ -164,12 +164,19 @@ export function lookupUnit(text: string): AliasHit[] {
   return exact.get(key) ?? folded.get(key.toLowerCase()) ?? [];
 }
 
-type MathInstance = ReturnType<typeof create>;
+type MathJs = typeof import('mathjs');
+type MathInstance = ReturnType<MathJs['create']>;
 let mathInstance: MathInstance | undefined;
 
-/** A private mathjs instance with the bench units mathjs lacks (rev, rpm, krpm, ozf). */
+/**
+ * A private mathjs instance with the bench units mathjs lacks (rev, rpm, krpm, ozf). mathjs is
+ * loaded here, on the first conversion that needs it, not when the package is imported: loading
+ * it and building the instance costs more than reading a 1e5-row recording, and a recording whose
+ * columns are all in SI units needs no conversion at all.
+ */
 function math(): MathInstance {
   if (mathInstance) return mathInstance;
+  const { create, createUnitDependencies, unitDependencies } = createRequire(import.meta.url)('mathjs') as MathJs;
   const m = create({ unitDependencies: unitDependencies!, createUnitDependencies: createUnitDependencies! });
   m.createUnit('rev', { definition: m.unit(2 * Math.PI, 'rad') });
   m.createUnit('rpm', { definition: '1 rev/minute' });
@@ -243,7 +250,8 @@ export function resolveUnit(role: ChannelRole, text: string, countsPer?: number)
       return { canonical: def.canonical, factor, offset: 0, perCount: true };
     }
     const exact = EXACT_FACTORS[def.canonical];
-    const { factor, offset } = exact !== undefined ? { factor: exact, offset: 0 } : mathjsConversion(def.mathjs, si);
+    // A unit that is already the SI target converts by 1 and 0 (what mathjs gives too; tested).
+    const { factor, offset } = exact !== undefined ? { factor: exact, offset: 0 } : def.mathjs === si ? { factor: 1, offset: 0 } : mathjsConversion(def.mathjs, si);
     return { canonical: def.canonical, factor, offset, perCount: false };
   }
   if (hits.length > 0) return { problem: 'mismatch', otherRoles: [...new Set(hits.map((h) => h.role))] };

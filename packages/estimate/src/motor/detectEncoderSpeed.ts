@@ -1,3 +1,5 @@
+import { selectKth } from './selectKth.js';
+
 /**
  * Recognises a speed channel computed from encoder counts, ω_k = Δcount_k·q/(t_k − t_{k−1}) (the
  * mean speed over the interval before each sample), and returns its angle quantum q [rad]; null
@@ -25,14 +27,19 @@ export function detectEncoderSpeed(time: Float64Array, speed: Float64Array): num
   if (n < 16) return null;
   const d = new Float64Array(n - 1);
   let smallest = Infinity;
+  let nan = false;
   for (let k = 1; k < n; k++) {
     const x = Math.abs(speed[k]! * (time[k]! - time[k - 1]!));
     d[k - 1] = x;
     if (x > 0 && x < smallest) smallest = x;
+    else if (x !== x) nan = true;
   }
   if (!Number.isFinite(smallest)) return null;
-  const sorted = Float64Array.from(d).sort();
-  const median = sorted[sorted.length >> 1]!;
+  // The middle of the sorted |d|: by selection on a copy (the same value: no −0 after Math.abs),
+  // by a sort when a NaN is present (sorted last).
+  const copy = Float64Array.from(d);
+  const middle = copy.length >> 1;
+  const median = nan ? copy.sort()[middle]! : selectKth(copy, middle);
   for (let div = 1; div <= 8; div++) {
     const q = smallest / div;
     // Counts above ~1000 per interval: the rounding in the file hides the grid, and the speed's

@@ -1,3 +1,4 @@
+import { selectKth } from './selectKth.js';
 import type { NoiseLevel } from './types.js';
 
 /** 1/Φ⁻¹(3/4): makes the median absolute deviation a consistent SD estimate for Gaussian noise. */
@@ -36,6 +37,9 @@ const SQRT12 = Math.sqrt(12);
  * inside its runs and no grid (an exact logged command) gives σ = 0 with method `exact`; a series
  * whose neighbours never differ gives the SD of its quietest tenth, or σ = 0 with method `constant`.
  *
+ * The estimate is kept with a copy of the samples: a later call on the same array whose samples
+ * are bit for bit unchanged returns it again (a copy of the result) instead of estimating anew.
+ *
  * ## References
  * F. R. Hampel (1974), "The influence curve and its role in robust estimation", J. Am. Stat.
  * Assoc. 69(346), 383–393, doi:10.1080/01621459.1974.10482962 (the MAD scale factor).
@@ -48,8 +52,33 @@ const SQRT12 = Math.sqrt(12);
  * estimateNoiseLevel(Float64Array.from({ length: 1000 }, (_, k) => 0.01 * k)).sigma; // => 0 (a ramp has no noise)
  */
 export function estimateNoiseLevel(values: Float64Array): NoiseLevel {
+  if (!(values instanceof Float64Array)) throw new TypeError('estimateNoiseLevel: values must be a Float64Array');
+  const seen = estimated.get(values);
+  if (seen !== undefined && sameSamples(seen.samples, values)) return { ...seen.level };
+  const level = estimateAfresh(values);
+  estimated.set(values, { samples: values.slice(), level: { ...level } });
+  return level;
+}
+
+/**
+ * The estimates already made, per channel array, with a copy of the samples they were made from.
+ * The fit, the model choice and every detector ask for the noise of the same few channels (a
+ * 1e5-sample recording is asked about 17 times); an array whose samples have changed since is
+ * estimated again, so the answer is always that of the samples as they are now.
+ */
+const estimated = new WeakMap<Float64Array, { samples: Float64Array; level: NoiseLevel }>();
+
+/** True when `a` and `b` hold bit for bit the same samples. */
+function sameSamples(a: Float64Array, b: Float64Array): boolean {
+  if (a.length !== b.length) return false;
+  const x = new Int32Array(a.buffer, a.byteOffset, 2 * a.length);
+  const y = new Int32Array(b.buffer, b.byteOffset, 2 * b.length);
+  for (let k = 0; k < x.length; k++) if (x[k] !== y[k]) return false;
+  return true;
+}
+
+function estimateAfresh(values: Float64Array): NoiseLevel {
   const fn = 'estimateNoiseLevel';
-  if (!(values instanceof Float64Array)) throw new TypeError(`${fn}: values must be a Float64Array`);
   const n = values.length;
   // One pass: finite count and the smallest non-zero step (the quantum; a step next to a
   // non-finite sample is NaN and never counts).
@@ -124,7 +153,7 @@ function gridStep(values: Float64Array, quantum: number): number {
   if (!Number.isFinite(quantum) || !(quantum > 0)) return 0;
   const n = values.length;
   const stride = Math.max(1, Math.floor(n / 20000));
-  const distinct = [...new Set(Array.from({ length: Math.ceil(n / stride) }, (_, j) => values[j * stride]!).filter(Number.isFinite))].sort((a, b) => a - b);
+  const distinct = sortedDistinct(values, stride);
   // The step, refined as the mean of the single-code gaps between neighbouring distinct values
   // (rounding in the file makes the smallest step a little off).
   let sum = 0, single = 0;
@@ -135,12 +164,31 @@ function gridStep(values: Float64Array, quantum: number): number {
   if (single < 3) return 0;
   const q = sum / single;
   // Every gap a whole number of steps (loosely for the long gaps, whose rounding adds up).
+  // (Stops at the first gap over the allowance: the answer is then no grid.)
+  const allowed = 0.05 * (distinct.length - 1);
   let bad = 0;
   for (let j = 1; j < distinct.length; j++) {
     const c = (distinct[j]! - distinct[j - 1]!) / q;
-    if (Math.abs(c - Math.round(c)) > 0.05 + 1e-3 * c) bad++;
+    if (Math.abs(c - Math.round(c)) > 0.05 + 1e-3 * c && ++bad > allowed) return 0;
   }
-  return bad <= 0.05 * (distinct.length - 1) ? q : 0;
+  return q;
+}
+
+/**
+ * The distinct finite values among values[0], values[stride], values[2·stride], …, ascending
+ * (−0 and +0 count as one value; which of them is kept does not change any difference taken).
+ */
+function sortedDistinct(values: Float64Array, stride: number): Float64Array {
+  const picked = new Float64Array(Math.ceil(values.length / stride));
+  let m = 0;
+  for (let k = 0; k < values.length; k += stride) {
+    const v = values[k]!;
+    if (Number.isFinite(v)) picked[m++] = v;
+  }
+  const sorted = picked.subarray(0, m).sort();
+  let u = 0;
+  for (let j = 0; j < m; j++) if (u === 0 || sorted[j] !== sorted[u - 1]) sorted[u++] = sorted[j]!;
+  return sorted.subarray(0, u);
 }
 
 /** Median by Hoare's selection (expected O(n)) on a copy; the input is left as it is. */
@@ -149,33 +197,12 @@ function median(a: Float64Array): number {
   if (n === 0) return NaN;
   const s = Float64Array.from(a);
   const h = n >> 1;
-  const hi = select(s, h);
+  const hi = selectKth(s, h);
   if (n % 2 === 1) return hi;
   // The lower middle is the largest value left of position h after the selection.
   let lo = -Infinity;
   for (let k = 0; k < h; k++) if (s[k]! > lo) lo = s[k]!;
   return 0.5 * (lo + hi);
-}
-
-/** Rearranges `s` so that s[k] holds the k-th smallest value, smaller ones left of it; returns it. */
-function select(s: Float64Array, k: number): number {
-  let left = 0, right = s.length - 1;
-  while (right > left) {
-    const mid = (left + right) >> 1;
-    // Median of three as the pivot.
-    const a = s[left]!, b = s[mid]!, c = s[right]!;
-    const pivot = a < b ? (b < c ? b : a < c ? c : a) : (a < c ? a : b < c ? c : b);
-    let i = left, j = right;
-    while (i <= j) {
-      while (s[i]! < pivot) i++;
-      while (s[j]! > pivot) j--;
-      if (i <= j) { const t = s[i]!; s[i] = s[j]!; s[j] = t; i++; j--; }
-    }
-    if (k <= j) right = j;
-    else if (k >= i) left = i;
-    else break;
-  }
-  return s[k]!;
 }
 
 function quietestSegmentSd(values: Float64Array): number {

@@ -72,6 +72,28 @@ describe('the cell parser equals Number(cell.trim()) bit for bit', () => {
     );
   });
 
+  it('for 15 to 17 significant digits, around 2⁵³ where the exact fast path ends', () => {
+    // Digit strings of 15–17 digits near 2⁵³ = 9007199254740992, with a decimal point, sign,
+    // exponent and padding placed at random.
+    const near = fc.oneof(
+      fc.bigInt({ min: 9007199254740000n, max: 9007199254742000n }),
+      fc.bigInt({ min: 100000000000000n, max: 99999999999999999n }),
+    );
+    fc.assert(
+      fc.property(near, fc.integer({ min: 0, max: 17 }), fc.integer({ min: -30, max: 30 }), fc.boolean(), fc.boolean(), fc.boolean(), (m, point, exp, negative, withExp, pad) => {
+        const digits = m.toString();
+        const p = Math.min(point, digits.length);
+        const body = p === 0 ? digits : `${digits.slice(0, p)}.${digits.slice(p)}`;
+        const cell = `${pad ? ' ' : ''}${negative ? '-' : ''}${body}${withExp ? `e${exp}` : ''}${pad ? ' ' : ''}`;
+        const out = new Float64Array(1);
+        const line = `${cell},1`;
+        expect(scanCell(line, 0, line.length, 44, DOT, out, 0)).toBe(cell.length);
+        expect(Object.is(out[0], Number(cell.trim()))).toBe(true);
+      }),
+      { seed: SEED, numRuns: 5000 },
+    );
+  });
+
   it('inside a row, stopping at the delimiter', () => {
     fc.assert(
       fc.property(fc.array(fc.oneof(numberText, junkText), { minLength: 1, maxLength: 6 }), (cells) => {

@@ -1,9 +1,14 @@
+import { execFileSync } from 'node:child_process';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { expectClose } from '@motorprint/testkit';
 import { describe, expect, it } from 'vitest';
 import { EXACT_FACTORS, ingestText, IngestError, mathjsConversion, normaliseUnitText, resolveUnit, UNIT_TABLE } from '../index.js';
 import type { UnitQuantity } from '../index.js';
 
 const CPR = 4096;
+/** The ingest package's folder (where a child process resolves `@motorprint/ingest` and tsx). */
+const packageRoot = join(dirname(fileURLToPath(import.meta.url)), '..', '..');
 
 /**
  * Expected SI factor (and offset) per canonical unit, written down independently of the code.
@@ -175,5 +180,44 @@ describe('unit conversion in a file', () => {
     expect(r.recording.channels.position).toBeUndefined();
     expect(r.recording.extra.map((e) => e.name)).toEqual(['position [m]']);
     expect(r.issues.find((i) => i.code === 'unit-mismatch')).toMatchObject({ column: 'position [m]', severity: 'warning' });
+  });
+});
+
+describe('a unit that already is the SI target needs no mathjs', () => {
+  // The SI target of each quantity, as a mathjs expression (duty is not converted by mathjs).
+  const SI: Record<Exclude<UnitQuantity, 'duty'>, string> = { time: 's', voltage: 'V', current: 'A', speed: 'rad/s', position: 'rad', torque: 'N m', temperature: 'degC' };
+
+  it('every table unit converts with bit for bit the factor and offset mathjs gives (the SI units by 1 and 0)', () => {
+    let identities = 0;
+    for (const [quantity, si] of Object.entries(SI) as [Exclude<UnitQuantity, 'duty'>, string][]) {
+      for (const def of UNIT_TABLE[quantity]) {
+        if (def.perCount || def.fixed !== undefined || EXACT_FACTORS[def.canonical] !== undefined) continue;
+        const viaMathjs = mathjsConversion(def.mathjs, si);
+        const got = resolveUnit(quantity, def.aliases[0]!);
+        expect('factor' in got && Object.is(got.factor, viaMathjs.factor) && Object.is(got.offset, viaMathjs.offset), `${quantity}: ${def.canonical}`).toBe(true);
+        if (def.mathjs === si) {
+          identities++;
+          expect(viaMathjs).toEqual({ factor: 1, offset: 0 });
+        }
+      }
+    }
+    expect(identities).toBe(Object.keys(SI).length);
+  });
+
+  it('reading a recording in SI units does not load mathjs; one in rpm does', () => {
+    const script = (csv: string): string => [
+      "import { createRequire } from 'node:module';",
+      "import { ingestText } from '@motorprint/ingest';",
+      `const r = ingestText(${JSON.stringify(csv)});`,
+      'const loaded = Object.keys(createRequire(import.meta.url).cache).some((p) => /[\\\\/]mathjs[\\\\/]/.test(p));',
+      'process.stdout.write(JSON.stringify({ rows: r.recording.time.length, loaded }));',
+    ].join('\n');
+    const run = (csv: string): { rows: number; loaded: boolean } => {
+      const out = execFileSync(process.execPath, ['--conditions=@motorprint/source', '--import', 'tsx', '--input-type=module', '-e', script(csv)], { cwd: packageRoot, encoding: 'utf8' });
+      return JSON.parse(out) as { rows: number; loaded: boolean };
+    };
+    const body = '0,0,0,0\n0.001,1,0.1,2\n0.002,1,0.2,4\n0.003,1,0.25,5\n';
+    expect(run(`time [s],voltage [V],current [A],speed [rad/s]\n${body}`)).toEqual({ rows: 4, loaded: false });
+    expect(run(`time [s],voltage [V],current [A],speed [rpm]\n${body}`)).toEqual({ rows: 4, loaded: true });
   });
 });

@@ -1,0 +1,41 @@
+import { describe, expect, it } from 'vitest';
+import { detectFriction } from '../detectFriction.js';
+import { detectStiction } from '../detectStiction.js';
+import { scanRecording } from '../scanRecording.js';
+import type { Finding, RecordingKind, RecordingLike } from '../types.js';
+import { MOTOR, invented, inventedRamp } from './inventedRecordings.js';
+
+/**
+ * scanRecording runs the friction and stiction detectors on one shared mechanical regression;
+ * what they find must be what each finds on its own.
+ */
+function alone(rec: RecordingLike, kind: RecordingKind, alpha?: number): { friction: Finding[]; stiction: Finding | null; comparisons: unknown[] } {
+  const f = detectFriction(rec, { kind, ...(alpha !== undefined ? { alpha } : {}) });
+  return { friction: f.findings, stiction: kind !== 'coast-down' && kind !== 'locked-rotor' ? detectStiction(rec) : null, comparisons: f.comparisons };
+}
+
+describe('scanRecording with one mechanical regression for friction and stiction', () => {
+  const cases: [string, RecordingLike, RecordingKind][] = [
+    ['a slow ramp with stiction and Coulomb friction', inventedRamp({ ...MOTOR, Tc: 2e-3, Ts: 5e-3 }, 3), 'unknown'],
+    ['a slow ramp with Coulomb friction only', inventedRamp({ ...MOTOR, Tc: 2e-3 }, 4), 'unknown'],
+    ['a PRBS with Coulomb friction', invented({ ...MOTOR, Tc: 2e-3 }, 'prbs', 5), 'prbs'],
+    ['a step without friction beyond viscous', invented(MOTOR, 'step', 6), 'step'],
+  ];
+  for (const [what, rec, kind] of cases) {
+    for (const alpha of [undefined, 0.2]) {
+      it(`finds on ${what} (alpha ${alpha ?? 'default'}) what the two detectors find alone`, () => {
+        const scan = scanRecording(rec, { kind, ...(alpha !== undefined ? { alpha } : {}) });
+        const own = alone(rec, kind, alpha);
+        const fromScan = scan.findings.filter((f) => f.code === 'coulomb-friction' || f.code === 'speed-squared-drag' || f.code === 'stiction');
+        expect(fromScan).toEqual([...own.friction, ...(own.stiction ? [own.stiction] : [])]);
+        expect(scan.comparisons).toEqual(own.comparisons);
+      });
+    }
+  }
+
+  it('the cases are not all silent: stiction and Coulomb friction are among what they find', () => {
+    const codes = cases.flatMap(([, rec, kind]) => scanRecording(rec, { kind }).findings.map((f) => f.code));
+    expect(codes).toContain('stiction');
+    expect(codes).toContain('coulomb-friction');
+  });
+});
