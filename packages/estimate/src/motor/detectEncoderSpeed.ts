@@ -76,7 +76,8 @@ function noisierThanCounts(time: Float64Array, speed: Float64Array, q: number): 
   const dt = new Float64Array(n - 1);
   for (let k = 1; k < n; k++) dt[k - 1] = time[k]! - time[k - 1]!;
   for (let k = 2; k < n; k++) d2[k - 2] = speed[k]! - 2 * speed[k - 1]! + speed[k - 2]!;
-  const med = (x: Float64Array): number => { const s = Float64Array.from(x).sort(); return s[s.length >> 1]!; };
+  // Finite samples (checked by the caller), so selection gives the sorted middle.
+  const med = (x: Float64Array): number => selectKth(Float64Array.from(x), x.length >> 1);
   const m = med(d2);
   const sigma = (1.4826 * med(d2.map((x) => Math.abs(x - m)))) / Math.sqrt(6);
   return sigma > (1.5 * q) / med(dt);
