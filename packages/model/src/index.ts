@@ -23,6 +23,8 @@ export { simulateChunkInto } from './simulateChunkInto.js';
 export { simulateWithSensitivities } from './simulateWithSensitivities.js';
 export { stepResponse } from './stepResponse.js';
 export { motorFigures } from './motorFigures.js';
+export { motorRelations } from './motorRelations.js';
+export type { SteadyConstants } from './motorRelations.js';
 export { lockedRotorResponse } from './lockedRotorResponse.js';
 export { coastDownResponse } from './coastDownResponse.js';
 export { copperResistance } from './copperResistance.js';

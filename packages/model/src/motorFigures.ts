@@ -1,4 +1,5 @@
 import { checkMotorParams } from './checkMotorParams.js';
+import { motorRelations } from './motorRelations.js';
 import type { MotorFigures, MotorParams } from './types.js';
 
 /**
@@ -8,7 +9,8 @@ import type { MotorFigures, MotorParams } from './types.js';
  * ## Method
  * Characteristic polynomial L·J·s² + (R·J + L·b)·s + (R·b + Kt·Ke); poles p = s̄ ± √(s̄² − ωn²)
  * with s̄ = −(R/L + b/J)/2 and ωn² = (R·b + Kt·Ke)/(L·J); the larger-magnitude real pole is
- * computed first and the other as ωn²/p1 to avoid cancellation. Relations as in FACTS.md §4.
+ * computed first and the other as ωn²/p1 to avoid cancellation. The other figures are
+ * `motorRelations` (friction-free here: `MotorParams` has no Coulomb term).
  *
  * @param params - motor constants
  * @param volts - supply voltage [V] for the voltage-dependent figures
@@ -37,19 +39,21 @@ export function motorFigures(params: MotorParams, volts: number): MotorFigures {
     poles = { kind: 'complex', re1: s, re2: s, im: Math.sqrt(-delta) };
   }
   const wn = Math.sqrt(wn2);
-  const wss = (Kt * volts) / den;
+  const f = motorRelations;
+  // Only the linear model's constants: a Coulomb term on a wider params object plays no part here.
+  const lin = { R, L, Kt, Ke, J, b };
   return {
-    electricalTimeConstant: L / R,
-    mechanicalTimeConstant: (J * R) / (Kt * Ke),
-    mechanicalTimeConstantViscous: (J * R) / den,
+    electricalTimeConstant: f.electricalTimeConstant(lin),
+    mechanicalTimeConstant: f.mechanicalTimeConstant(lin),
+    mechanicalTimeConstantViscous: f.mechanicalTimeConstantViscous(lin),
     poles,
     naturalFrequency: wn,
     dampingRatio: -s / wn,
-    steadySpeed: wss,
-    steadyCurrent: (b * volts) / den,
-    stallCurrent: volts / R,
-    stallTorque: (Kt * volts) / R,
-    noLoadSpeed: volts / Ke,
-    motorConstant: Kt / Math.sqrt(R),
+    steadySpeed: f.noLoadSpeed(lin, volts),
+    steadyCurrent: f.noLoadCurrent(lin, volts),
+    stallCurrent: f.stallCurrent(lin, volts),
+    stallTorque: f.stallTorque(lin, volts),
+    noLoadSpeed: f.idealNoLoadSpeed(lin, volts),
+    motorConstant: f.motorConstant(lin),
   };
 }

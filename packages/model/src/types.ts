@@ -181,7 +181,7 @@ export interface MotorFigures {
   dampingRatio: number;
   /** Steady-state speed Kt·V/(R·b + Kt·Ke) [rad/s]. */
   steadySpeed: number;
-  /** Steady-state current (V − Ke·ω_ss)/R [A]. */
+  /** Steady-state current b·ω_ss/Kt [A] (equal to (V − Ke·ω_ss)/R). */
   steadyCurrent: number;
   /** Stall current V/R [A]. */
   stallCurrent: number;

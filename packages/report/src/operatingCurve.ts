@@ -1,3 +1,4 @@
+import { motorRelations } from '@motorprint/model';
 import type { ConstantValues, OperatingCurve } from './types.js';
 
 /**
@@ -7,7 +8,7 @@ import type { ConstantValues, OperatingCurve } from './types.js';
  * ## Method
  * Steady state of V = R·i + Ke·ω and Kt·i = T + b·ω + Tc (FACTS.md §4), sampled at `points`
  * equally spaced speeds ω from 0 to ω0 = (Kt·V − R·Tc)/(R·b + Kt·Ke): i = (V − Ke·ω)/R,
- * T = Kt·i − b·ω − Tc, P = T·ω, η = P/(V·i).
+ * T = Kt·i − b·ω − Tc, P = T·ω, η = P/(V·i) (the model package's `motorRelations`).
  *
  * @param constants - motor constants [SI]; Tc = 0 when the model has none
  * @param voltage - supply voltage [V], > 0
@@ -25,8 +26,7 @@ export function operatingCurve(constants: ConstantValues, voltage: number, point
   for (const k of ['R', 'Kt', 'Ke', 'b', 'Tc'] as const) {
     if (!Number.isFinite(constants[k])) throw new RangeError(`${fn}: constants.${k} must be finite (got ${constants[k]})`);
   }
-  const { R, Kt, Ke, b, Tc } = constants;
-  const w0 = (Kt * voltage - R * Tc) / (R * b + Kt * Ke);
+  const w0 = motorRelations.noLoadSpeed(constants, voltage);
   const n = w0 > 0 ? points : 0;
   const curve: OperatingCurve = {
     voltage, torque: new Float64Array(n), speed: new Float64Array(n), current: new Float64Array(n),
@@ -34,13 +34,12 @@ export function operatingCurve(constants: ConstantValues, voltage: number, point
   };
   for (let k = 0; k < n; k++) {
     const w = k === n - 1 ? w0 : (w0 * k) / (n - 1);
-    const i = (voltage - Ke * w) / R;
-    const T = Kt * i - b * w - Tc;
+    const T = motorRelations.torqueAtSpeed(constants, voltage, w);
     curve.speed[k] = w;
-    curve.current[k] = i;
+    curve.current[k] = motorRelations.currentAtSpeed(constants, voltage, w);
     curve.torque[k] = T;
     curve.outputPower[k] = T * w;
-    curve.efficiency[k] = (T * w) / (voltage * i);
+    curve.efficiency[k] = motorRelations.efficiencyAtSpeed(constants, voltage, w);
   }
   return curve;
 }

@@ -1,3 +1,4 @@
+import { choleskyFactor } from './choleskyFactor.js';
 import { classifyRecording } from './classifyRecording.js';
 import { detectEncoderSpeed } from './detectEncoderSpeed.js';
 import { nominalTimeGrid } from './nominalTimeGrid.js';
@@ -348,16 +349,7 @@ function sineModel(basis: SineBasis, voltage: Float64Array, fitted: Float64Array
   const q = basis.coefficients.length;
   const G = basis.gram;
   const L = new Float64Array(q * q);
-  for (let i = 0; i < q; i++) {
-    for (let j = 0; j <= i; j++) {
-      let s = G[i * q + j]!;
-      for (let k = 0; k < j; k++) s -= L[i * q + k]! * L[j * q + k]!;
-      if (i === j) {
-        if (!(s > 0)) return null;
-        L[i * q + i] = Math.sqrt(s);
-      } else L[i * q + j] = s / L[j * q + j]!;
-    }
-  }
+  if (!choleskyFactor(G, q, L)) return null;
   let rss = 0;
   for (let k = 0; k < voltage.length; k++) { const d = voltage[k]! - fitted[k]!; rss += d * d; }
   return { omega: basis.omega, coefficients: basis.coefficients, cholesky: L, rss, count: voltage.length };

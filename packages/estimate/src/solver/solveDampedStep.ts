@@ -1,4 +1,5 @@
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
+import { choleskyFactor, solveWithCholeskyFactor } from '../motor/choleskyFactor.js';
 
 /**
  * Solves the damped, scaled normal equations (A + λI) z = b for a small symmetric p×p matrix A.
@@ -37,34 +38,9 @@ export function solveDampedStep(
   }
   if (!(maxDiag > 0) || !Number.isFinite(maxDiag)) return 'failed';
   const pivotFloor = 1e-14 * maxDiag;
-  let ok = true;
   // Cholesky: lower factor stored in work (row-major, lower triangle).
-  for (let j = 0; j < p && ok; j++) {
-    let s = A[j * p + j]! + lambda;
-    for (let k = 0; k < j; k++) s -= work[j * p + k]! * work[j * p + k]!;
-    if (!(s > pivotFloor)) {
-      ok = false;
-      break;
-    }
-    const ljj = Math.sqrt(s);
-    work[j * p + j] = ljj;
-    for (let i = j + 1; i < p; i++) {
-      let t = A[i * p + j]!;
-      for (let k = 0; k < j; k++) t -= work[i * p + k]! * work[j * p + k]!;
-      work[i * p + j] = t / ljj;
-    }
-  }
-  if (ok) {
-    for (let i = 0; i < p; i++) {
-      let s = b[i]!;
-      for (let k = 0; k < i; k++) s -= work[i * p + k]! * z[k]!;
-      z[i] = s / work[i * p + i]!;
-    }
-    for (let i = p - 1; i >= 0; i--) {
-      let s = z[i]!;
-      for (let k = i + 1; k < p; k++) s -= work[k * p + i]! * z[k]!;
-      z[i] = s / work[i * p + i]!;
-    }
+  if (choleskyFactor(A, p, work, lambda, pivotFloor)) {
+    solveWithCholeskyFactor(work, b, p, z);
     return 'cholesky';
   }
   return solveByEigen(A, lambda, b, p, z);

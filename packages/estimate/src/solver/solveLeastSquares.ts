@@ -2,6 +2,7 @@ import { checkSolverOptions } from './checkSolverOptions.js';
 import { createNormalEquations } from './createNormalEquations.js';
 import { resetNormalEquations } from './resetNormalEquations.js';
 import { solveDampedStep } from './solveDampedStep.js';
+import { forwardSubstitute } from '../motor/choleskyFactor.js';
 import type { LeastSquaresProblem, NormalEquations, SolverOptions, SolverResult, StopReason } from './types.js';
 
 /**
@@ -369,14 +370,10 @@ function fitDampingToRadius(
   for (let it = 0; it < 30; it++) {
     let next: number;
     if (how === 'cholesky') {
+      // q = L⁻¹z with the factor solveDampedStep left in work.
+      forwardSubstitute(work, z, p, q);
       let qn = 0;
-      for (let i = 0; i < p; i++) {
-        let s = z[i]!;
-        for (let k = 0; k < i; k++) s -= work[i * p + k]! * q[k]!;
-        const qi = s / work[i * p + i]!;
-        q[i] = qi;
-        qn += qi * qi;
-      }
+      for (let i = 0; i < p; i++) qn += q[i]! * q[i]!;
       next = lam + ((zn * zn) / qn) * ((zn - radius) / radius);
       if (!(next > lam)) next = 2 * lam;
     } else {
