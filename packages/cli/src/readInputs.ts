@@ -2,7 +2,6 @@ import { resolve } from 'node:path';
 import { readRecording, type ChannelRole, type IngestOptions, type IngestResult } from '@motorprint/ingest';
 import { keyValuePairs, numberOption } from './args.js';
 import { UsageError } from './UsageError.js';
-import { cliRole } from './ingestFixFlags.js';
 export { cliRole, fixFlags } from './ingestFixFlags.js';
 
 /**

@@ -27,7 +27,7 @@ import type { Finding, RecordingLike } from './types.js';
  */
 export function detectSaturation(recording: RecordingLike, options: { commandedVoltage?: Float64Array } = {}): Finding[] {
   const fn = 'detectSaturation';
-  const { n, dt } = checkRecording(fn, recording);
+  const { n } = checkRecording(fn, recording);
   const cmd = options.commandedVoltage;
   if (cmd !== undefined && (!(cmd instanceof Float64Array) || cmd.length !== n)) throw new TypeError(`${fn}: options.commandedVoltage must be a Float64Array of length ${n}`);
   const out: Finding[] = [];

@@ -4,7 +4,7 @@
  * `Float64Array` series.
  */
 import type { ExperimentKind } from '@motorprint/model';
-import type { CovarianceSummary, FitMotorOptions, MotorFit } from '@motorprint/estimate';
+import type { CovarianceSummary, MotorFit } from '@motorprint/estimate';
 
 /** Names of the measured channels a recording may carry (SI: V, A, rad/s, rad, N·m, °C). */
 export type ChannelName = 'voltage' | 'current' | 'speed' | 'position' | 'torque' | 'temperature';

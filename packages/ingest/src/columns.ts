@@ -1,7 +1,7 @@
 import { IngestError } from './IngestError.js';
 import { isUnitToken, lookupUnit, normaliseUnitText, quantityOf, resolveUnit, rolesOfUnit, UNIT_TABLE } from './units.js';
 import { CHANNEL_ROLES, SI_UNITS } from './types.js';
-import type { ChannelRole, ColumnMeta, IngestFix, IngestIssue, IngestOptions, RecordingLayout, SignalRole, UnitSource } from './types.js';
+import type { ChannelRole, ColumnMeta, IngestIssue, IngestOptions, RecordingLayout, SignalRole, UnitSource } from './types.js';
 
 /** A header split into its name and the unit written with it. */
 export interface HeaderParts {

@@ -1,4 +1,3 @@
-import type { TimeBase } from './types.js';
 
 /**
  * Validates a sampled input series and its time base for the public simulation wrappers.

@@ -1,5 +1,5 @@
 import { checkMotorParams } from './checkMotorParams.js';
-import type { MotorParams, TransferFunction, LinearModelForms } from './types.js';
+import type { MotorParams, LinearModelForms } from './types.js';
 import { zohInto } from './zohInto.js';
 
 /**

@@ -1,4 +1,4 @@
-import type { CopperConstant, LockedRotorHoldOptions, LockedRotorHold } from './types.js';
+import type { LockedRotorHoldOptions, LockedRotorHold } from './types.js';
 
 /**
  * Conservative default thermal capacitance of a winding [J/K]: 1 J/K, the heat capacity of

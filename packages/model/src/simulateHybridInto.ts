@@ -1,5 +1,5 @@
 import { advance, HELD, OPEN, RUN, STUCK, hybridConstants, steadyState, resistanceAt } from './hybridKernel.js';
-import type { HybridConstants, HybridState, PieceScratch } from './hybridKernel.js';
+import type { HybridState, PieceScratch } from './hybridKernel.js';
 import type { DetailedParams, HybridPlan, HybridTrace } from './types.js';
 
 const SS = new Float64Array(3);

@@ -1,7 +1,7 @@
 import { expectClose } from '@motorprint/testkit';
 import { describe, expect, it } from 'vitest';
-import { choleskyFactor, forwardSubstitute, solveWithCholeskyFactor } from '../motor/choleskyFactor.js';
-import { solveSymmetricSystem } from '../motor/solveSymmetricSystem.js';
+import { choleskyFactor, forwardSubstitute, solveWithCholeskyFactor } from '../solver/choleskyFactor.js';
+import { solveSymmetricSystem } from '../solver/solveSymmetricSystem.js';
 import { solveDampedStep } from '../solver/solveDampedStep.js';
 
 // Worked by hand: A = [[4, 2, −2], [2, 10, 2], [−2, 2, 6]].

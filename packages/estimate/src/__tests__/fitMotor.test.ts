@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { fitMotor } from '../motor/fitMotor.js';
 import type { MotorConstantName, MotorExperimentKind, MotorFit } from '../motor/types.js';
-import { INVENTED_MOTORS, benchNoise, invented } from './motorFixtures.js';
+import { INVENTED_MOTORS, invented } from './motorFixtures.js';
 
 /** |estimate − truth| ≤ 3 reported standard errors, for every constant the fit returns. */
 function expectWithin3Sd(fit: MotorFit, truth: Record<string, number>, label: string): void {

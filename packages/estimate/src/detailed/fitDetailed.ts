@@ -2,7 +2,7 @@ import tQuantile from '@stdlib/stats-base-dists-t-quantile';
 import { covarianceFromNormalMatrix } from '../solver/covarianceFromNormalMatrix.js';
 import { solveLeastSquares } from '../solver/solveLeastSquares.js';
 import { createNormalEquations } from '../solver/createNormalEquations.js';
-import { solveSymmetricSystem } from '../motor/solveSymmetricSystem.js';
+import { gaussNewtonStep } from '../solver/gaussNewtonStep.js';
 import { logCovarianceOfConstants } from '../motor/logCovarianceOfConstants.js';
 import type { ConstantMap } from '../motor/logCovarianceOfConstants.js';
 import type { SolverOptions, SolverResult } from '../solver/types.js';
@@ -274,7 +274,7 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
       const ssr = problem.evaluate(Float64Array.from(res.theta), true, acc);
       problem.differences = 'forward';
       jacobianEvaluations++;
-      const step = Number.isFinite(ssr) ? gaussNewtonStep(acc.JtJ, acc.Jtr, p) : null;
+      const step = Number.isFinite(ssr) ? gaussNewtonStep(acc.JtJ, acc.Jtr, p)?.step ?? null : null;
       let predicted = Infinity;
       if (step !== null) { predicted = 0; for (let j = 0; j < p; j++) predicted -= step[j]! * acc.Jtr[j]!; }
       if (predicted <= 0.05) { res.converged = true; res.stopReason = 'relative-reduction'; }
@@ -355,7 +355,7 @@ export function fitDetailed(recs: PreparedRecording[], opts: DetailedFitOptions)
     jacobianEvaluations++;
     let predicted = Infinity;
     for (let it = 0; it < 4 && Number.isFinite(ssr); it++) {
-      const step = gaussNewtonStep(acc.JtJ, acc.Jtr, p);
+      const step = gaussNewtonStep(acc.JtJ, acc.Jtr, p)?.step ?? null;
       if (step === null) break;
       predicted = 0;
       for (let j = 0; j < p; j++) predicted -= step[j]! * acc.Jtr[j]!;
@@ -622,9 +622,3 @@ function emptyFit(recs: PreparedRecording[], notInformed: UninformedConstant[], 
 }
 
 /** The Gauss–Newton step −(JᵀJ)⁻¹Jᵀr with unit-norm column scaling; null when the system is singular. */
-function gaussNewtonStep(JtJ: Float64Array, Jtr: Float64Array, p: number): Float64Array | null {
-  const d = Float64Array.from({ length: p }, (_, j) => { const v = Math.sqrt(JtJ[j * p + j]!); return v > 0 ? v : 1; });
-  const A = Float64Array.from(JtJ, (v, ij) => v / (d[Math.floor(ij / p)]! * d[ij % p]!));
-  const z = solveSymmetricSystem(A, Float64Array.from(Jtr, (g, j) => -g / d[j]!), p);
-  return z === null ? null : Float64Array.from(z, (v, j) => v / d[j]!);
-}

@@ -1,5 +1,5 @@
 import { createNormalEquations } from '../solver/createNormalEquations.js';
-import { solveSymmetricSystem } from '../motor/solveSymmetricSystem.js';
+import { gaussNewtonStep } from '../solver/gaussNewtonStep.js';
 import type { PreparedRecording } from '../motor/prepareRecording.js';
 import { createDetailedProblem } from './createDetailedProblem.js';
 import type { DetailedConstant } from './createDetailedProblem.js';
@@ -114,14 +114,14 @@ export function scoreDetailed(recs: PreparedRecording[], opts: DetailedFitOption
   // The fitted model's own directions (every tested column held).
   const held = new Uint8Array(p);
   for (const c of tested) held[index[c]] = 1;
-  const without = promisedDrop(acc.JtJ, acc.Jtr, p, held);
+  const without = gaussNewtonStep(acc.JtJ, acc.Jtr, p, held);
   const s2 = ssr / (rows - pBase);
   return groups.map((group, gi) => {
     if (!usable[gi] || without === null) return null;
     const q = group.length;
     const mask = Uint8Array.from(held);
     for (const c of group) mask[index[c]] = 0;
-    const full = promisedDrop(acc.JtJ, acc.Jtr, p, mask);
+    const full = gaussNewtonStep(acc.JtJ, acc.Jtr, p, mask);
     if (full === null) return null;
     const lm = Math.max(full.drop - without.drop, 0);
     const oneStep: ExtensionScore['oneStep'] = {};
@@ -139,47 +139,16 @@ export function scoreDetailed(recs: PreparedRecording[], opts: DetailedFitOption
   });
 }
 
-/** Diagonal of (JᵀJ)⁻¹ over the entries not marked in `drop` (NaN where singular). */
+/** Diagonal of (JᵀJ)⁻¹ over the entries not marked in `drop` (NaN elsewhere): the step for Jᵀr = −e_j is (JᵀJ)⁻¹e_j. */
 function inverseDiagonal(JtJ: Float64Array, p: number, drop: Uint8Array): Float64Array | null {
   const out = new Float64Array(p).fill(NaN);
   for (let j = 0; j < p; j++) {
     if (drop[j]) continue;
     const e = new Float64Array(p);
-    e[j] = 1;
-    const x = solveMasked(JtJ, e, p, drop);
+    e[j] = -1;
+    const x = gaussNewtonStep(JtJ, e, p, drop);
     if (x === null) return null;
-    out[j] = x[j]!;
+    out[j] = x.step[j]!;
   }
   return out;
-}
-
-/**
- * The sum-of-squares drop −gᵀδ of the Gauss–Newton step δ = −A⁻¹g (A = JᵀJ, g = Jᵀr) over the
- * entries not marked in `drop` (the others held at their values).
- */
-function promisedDrop(JtJ: Float64Array, Jtr: Float64Array, p: number, drop: Uint8Array): { drop: number; step: Float64Array } | null {
-  const step = solveMasked(JtJ, Float64Array.from(Jtr, (g) => -g), p, drop);
-  if (step === null) return null;
-  let total = 0;
-  for (let j = 0; j < p; j++) total -= step[j]! * Jtr[j]!;
-  return { drop: total, step };
-}
-
-/** Solves A·x = b over the entries not marked in `drop` (x = 0 at the marked ones), scaled to unit diagonal. */
-function solveMasked(A: Float64Array, b: Float64Array, p: number, drop: Uint8Array): Float64Array | null {
-  const keep: number[] = [];
-  for (let j = 0; j < p; j++) if (drop[j] === 0) keep.push(j);
-  const m = keep.length;
-  const d = keep.map((j) => { const v = Math.sqrt(A[j * p + j]!); return v > 0 ? v : 1; });
-  const S = new Float64Array(m * m);
-  const y = new Float64Array(m);
-  for (let a = 0; a < m; a++) {
-    y[a] = b[keep[a]!]! / d[a]!;
-    for (let c = 0; c < m; c++) S[a * m + c] = A[keep[a]! * p + keep[c]!]! / (d[a]! * d[c]!);
-  }
-  const z = solveSymmetricSystem(S, y, m);
-  if (z === null) return null;
-  const x = new Float64Array(p);
-  for (let a = 0; a < m; a++) x[keep[a]!] = z[a]! / d[a]!;
-  return x;
 }

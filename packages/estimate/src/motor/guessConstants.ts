@@ -1,6 +1,6 @@
 import type { Constants } from './createMotorProblem.js';
 import type { PreparedRecording } from './prepareRecording.js';
-import { solveSymmetricSystem } from './solveSymmetricSystem.js';
+import { solveSymmetricSystem } from '../solver/solveSymmetricSystem.js';
 import { zeroPhaseLowPass } from './zeroPhaseLowPass.js';
 
 /** Most samples the equation-error guess of a PRBS / multisine reads (common practice, no source: ≈ 0.8 PRBS period of the invented generator at 10 kHz; a start needs no more). */

@@ -2,7 +2,7 @@ import { createNormalEquations } from '../solver/createNormalEquations.js';
 import { createMotorProblem } from './createMotorProblem.js';
 import type { ParameterLayout, ResidualSeries } from './createMotorProblem.js';
 import type { PreparedRecording } from './prepareRecording.js';
-import { solveSymmetricSystem } from './solveSymmetricSystem.js';
+import { gaussNewtonStep } from '../solver/gaussNewtonStep.js';
 
 /** SSR mismatch (whitened units) under which a joint Gauss–Newton step counts as landing. */
 const LANDING_SLACK = 1e-2;
@@ -35,15 +35,9 @@ export function polishJointly(
   let linear = false;
   let residuals: ResidualSeries[] | null = null;
   for (let it = 0; it < 5 && Number.isFinite(ssr); it++) {
-    // Solve with the columns scaled to unit norm (the nuisances and the log-constants differ by
-    // orders of magnitude in JᵀJ).
-    const d = Float64Array.from({ length: p }, (_, j) => { const v = Math.sqrt(acc.JtJ[j * p + j]!); return v > 0 ? v : 1; });
-    const scaled = Float64Array.from(acc.JtJ, (v, ij) => v / (d[Math.floor(ij / p)]! * d[ij % p]!));
-    const z = solveSymmetricSystem(scaled, Float64Array.from(acc.Jtr, (g, j) => -g / d[j]!), p);
-    if (z === null) break;
-    const step = Float64Array.from(z, (v, j) => v / d[j]!);
-    let predicted = 0;
-    for (let j = 0; j < p; j++) predicted -= step[j]! * acc.Jtr[j]!;
+    const gn = gaussNewtonStep(acc.JtJ, acc.Jtr, p);
+    if (gn === null) break;
+    const { step, drop: predicted } = gn;
     const trial = Float64Array.from(theta, (t, j) => t + step[j]!);
     // The trial pass also keeps the residual series: when the step lands they are the ones of
     // the reported point, and the caller skips a pass of its own.

@@ -1,4 +1,4 @@
-import { choleskyFactor } from './choleskyFactor.js';
+import { choleskyFactor } from '../solver/choleskyFactor.js';
 import { classifyRecording } from './classifyRecording.js';
 import { detectEncoderSpeed } from './detectEncoderSpeed.js';
 import { nominalTimeGrid } from './nominalTimeGrid.js';

@@ -1,7 +1,7 @@
 import { detectVoltageSegments } from './detectVoltageSegments.js';
 import { estimateNoiseLevel } from './estimateNoiseLevel.js';
 import { fourierMagnitudes } from './fourierMagnitudes.js';
-import { solveSymmetricSystem } from './solveSymmetricSystem.js';
+import { solveSymmetricSystem } from '../solver/solveSymmetricSystem.js';
 import type { InputHandling, VoltageSegment } from './types.js';
 import { zeroPhaseLowPass } from './zeroPhaseLowPass.js';
 

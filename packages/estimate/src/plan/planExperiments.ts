@@ -147,7 +147,7 @@ export function planExperiments(draft: MotorParams, runs: PlannedRun[], options:
   }
 
   const info = informationOf(draft, resolved, seed);
-  const { rel, aside, constants } = predict(info);
+  const { rel, aside } = predict(info);
   // Per-run information (diagonal) for the shares.
   const perRun = resolved.map((r) => {
     try {

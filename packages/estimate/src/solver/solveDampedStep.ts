@@ -1,5 +1,5 @@
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
-import { choleskyFactor, solveWithCholeskyFactor } from '../motor/choleskyFactor.js';
+import { choleskyFactor, solveWithCholeskyFactor } from './choleskyFactor.js';
 
 /**
  * Solves the damped, scaled normal equations (A + λI) z = b for a small symmetric p×p matrix A.

@@ -2,7 +2,7 @@ import { checkSolverOptions } from './checkSolverOptions.js';
 import { createNormalEquations } from './createNormalEquations.js';
 import { resetNormalEquations } from './resetNormalEquations.js';
 import { solveDampedStep } from './solveDampedStep.js';
-import { forwardSubstitute } from '../motor/choleskyFactor.js';
+import { forwardSubstitute } from './choleskyFactor.js';
 import type { LeastSquaresProblem, NormalEquations, SolverOptions, SolverResult, StopReason } from './types.js';
 
 /**

@@ -7,7 +7,6 @@ const motor = { R: 2.0, L: 1.0e-3, Kt: 0.05, Ke: 0.05, J: 2.0e-5, b: 1.0e-5 };
 
 /** e^{M} of a small dense matrix by scaling and squaring with a 30-term Taylor series (derived here; test-only). */
 function expm(M: number[][]): number[][] {
-  const n = M.length;
   const norm = Math.max(...M.map((r) => r.reduce((s, v) => s + Math.abs(v), 0)));
   const sq = Math.max(0, Math.ceil(Math.log2(norm)) + 1);
   const A = M.map((r) => r.map((v) => v / 2 ** sq));
