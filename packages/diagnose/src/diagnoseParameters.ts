@@ -1,4 +1,5 @@
 import type { CovarianceSummary, MotorFit } from '@motorprint/estimate';
+import { motorRelations } from '@motorprint/model';
 import { assessIdentifiability } from './assessIdentifiability.js';
 import { correlationFromCovariance } from './correlationFromCovariance.js';
 import type { ParameterDiagnosis, RecordingDescription } from './types.js';
@@ -51,8 +52,8 @@ export function diagnoseParameters(fit: MotorFit, descriptions: RecordingDescrip
   const fitted = CONSTANTS.filter((c) => thetaIndex(c) >= 0 && !(tied && c === 'Ke'));
   const mapped = summary === null ? null : { ...summary, identifiable: fitted.map((c) => summary!.identifiable[thetaIndex(c)] === true) };
   const L = fit.parameters.L?.value, R = fit.parameters.R?.value;
-  const tauE = L !== undefined && R !== undefined && L > 0 && R > 0 && Number.isFinite(L / R) ? L / R : undefined;
-  const verdicts = assessIdentifiability(fitted, mapped, descriptions, tauE !== undefined ? { electricalTimeConstant: tauE } : {});
+  const tauE = L !== undefined && R !== undefined && L > 0 && R > 0 ? motorRelations.electricalTimeConstant({ L, R }) : undefined;
+  const verdicts = assessIdentifiability(fitted, mapped, descriptions, tauE !== undefined && Number.isFinite(tauE) ? { electricalTimeConstant: tauE } : {});
   const verdictOf = (c: string): (typeof verdicts)[number] | undefined => verdicts.find((v) => v.name === (tied && c === 'Ke' ? 'Kt' : c));
 
   const parameters: Record<string, ParameterDiagnosis> = {};
