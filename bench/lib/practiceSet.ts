@@ -94,8 +94,8 @@ export async function fitLikeTheCli(file: string, fix: Record<string, number> = 
 }
 
 function lookup(d: FitDiagnosis, fit: MotorFit, key: string): { value: number | null; ci: [number, number] | null } {
-  const p = d.parameters[key] as { value: number | null; ci95: [number, number] | null; identifiable?: boolean } | undefined;
-  if (p !== undefined && p.value !== null && p.identifiable !== false) return { value: p.value, ci: p.ci95 };
+  const p = d.parameters[key] as { value: number | null; interval95: [number, number] | null; identifiable?: boolean } | undefined;
+  if (p !== undefined && p.value !== null && p.identifiable !== false) return { value: p.value, ci: p.interval95 };
   void fit;
   return { value: null, ci: null };
 }
