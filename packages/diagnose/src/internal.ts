@@ -14,16 +14,24 @@ export function noiseOf(x: Float64Array | undefined): number {
 /**
  * Recordings already checked, with what the check found: `scanRecording` and `diagnoseFit` run
  * every detector on the same recording object, and each public detector checks its argument;
- * the scan over the samples is done once per object. Channels are read-only to the detectors.
+ * the scan over the samples is done once per object. A recording whose time array or any channel
+ * array was replaced (or a channel added or removed) is checked again; samples changed in place
+ * inside the same arrays are not seen (channels are read-only to the detectors).
  */
-const checked = new WeakMap<object, { n: number; dt: number; channels: object }>();
+const checked = new WeakMap<object, { n: number; dt: number; arrays: unknown[] }>();
+
+/** The arrays a check covered, in a fixed order: time, then each channel by name. */
+function arraysOf(rec: RecordingLike): unknown[] {
+  return [rec.time, ...Object.keys(rec.channels).sort().map((k) => (rec.channels as Record<string, unknown>)[k])];
+}
 
 /** Checks a recording shape for a public detector (once per recording object); returns n and the sample interval. */
 export function checkRecording(fn: string, rec: RecordingLike): { n: number; dt: number } {
   if (rec === null || typeof rec !== 'object' || !(rec.time instanceof Float64Array)) throw new TypeError(`${fn}: recording.time must be a Float64Array`);
   if (rec.channels === null || typeof rec.channels !== 'object') throw new TypeError(`${fn}: recording.channels must be an object`);
+  const arrays = arraysOf(rec);
   const seen = checked.get(rec);
-  if (seen !== undefined && seen.channels === rec.channels && seen.n === rec.time.length) return { n: seen.n, dt: seen.dt };
+  if (seen !== undefined && seen.n === rec.time.length && seen.arrays.length === arrays.length && seen.arrays.every((a, i) => a === arrays[i])) return { n: seen.n, dt: seen.dt };
   const n = rec.time.length;
   for (const [name, v] of Object.entries(rec.channels)) {
     if (v === undefined) continue;
@@ -33,7 +41,7 @@ export function checkRecording(fn: string, rec: RecordingLike): { n: number; dt:
   }
   const dt = medianInterval(rec.time);
   if (!(dt > 0)) throw new RangeError(`${fn}: recording.time must be increasing (median interval ${dt})`);
-  checked.set(rec, { n, dt, channels: rec.channels });
+  checked.set(rec, { n, dt, arrays });
   return { n, dt };
 }
 
