@@ -340,7 +340,9 @@ function unsupportedConstants(candidates: ModelCandidate[], model: ModelExtensio
     if (added === null || c.accepted || model[added] || !['coulomb', 'stiction', 'drag'].includes(added)) continue;
     const seen = out.findIndex((u) => u.extension === added);
     // A candidate whose fit did not converge sets no bound; a later one that converged does.
-    const settled = c.converged || c.scoreTest !== undefined;
+    // A bound comes from a fit that converged, or from the score test of a candidate it turned
+    // down unfitted (no sum of squares of its own); a fitted candidate that did not converge sets none.
+    const settled = c.converged || (c.scoreTest !== undefined && Number.isNaN(c.ssr));
     if (seen >= 0 && !(settled && out[seen]!.fromUnconverged)) continue;
     const bounds: UnsupportedConstant['bounds'] = {};
     for (const [name, e] of Object.entries(c.effects)) bounds[name] = { upper95: settled && e.interval95 !== null ? e.interval95[1] : null, unit: e.unit };
