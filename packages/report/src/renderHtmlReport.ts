@@ -179,6 +179,20 @@ function findingsSection(set: ParameterSet, input: HtmlReportInput): string {
   return out.join('');
 }
 
+/** The model choice the parameter set carries: its summary and every candidate tried, with why it joined or not. */
+function modelChoiceSection(set: ParameterSet): string {
+  const m = set.model;
+  if (m === undefined) return '';
+  const rows = m.candidates.map((c) => {
+    const name = c.added === null ? 'lumped linear model' : `+ ${c.added}`;
+    const p = c.comparison !== null ? `F-test p ${c.comparison.fPValue === null ? '–' : formatNumber(c.comparison.fPValue, 2)}`
+      : c.scoreTest !== undefined ? `score test p ${c.scoreTest.pValue === null ? '–' : formatNumber(c.scoreTest.pValue, 2)} (not fitted)` : '';
+    return `<tr><td>${h(name)}</td><td>${c.accepted ? 'yes' : 'no'}</td><td>${h(p)}</td><td>${h(c.reason)}</td></tr>`;
+  });
+  return `<section><h2>Model choice</h2><p>${h(m.summary)}.</p>` +
+    `<table><thead><tr><th>candidate</th><th>in the model</th><th>test</th><th>why</th></tr></thead><tbody>${rows.join('')}</tbody></table></section>`;
+}
+
 /** The held-out checks the parameter set carries: each recording predicted with the constants pinned. */
 function checksSection(set: ParameterSet): string {
   const checks = set.checks ?? [];
@@ -269,6 +283,7 @@ ${tuningSection(set)}
 <section><h2>Recordings: measured and fitted</h2>${tracesSection(input)}</section>
 <section><h2>Held-out checks</h2>${checksSection(set)}</section>
 <section><h2>Findings</h2>${findingsSection(set, input)}</section>
+${modelChoiceSection(set)}
 <section><h2>Cautions</h2>${CAUTIONS}</section>
 <section><h2>Provenance</h2>
 <p>${h(p.tool.name)} ${h(p.tool.version)}, fit dated ${h(p.date)} (as stated by the caller).</p>

@@ -118,6 +118,15 @@ describe('the demo parameter set against docs/parameter-set.schema.json', () => 
 });
 
 describe('the demo HTML report', () => {
+  it('shows the model choice: its summary and every candidate with its test and reason', () => {
+    const section = html.slice(html.indexOf('<h2>Model choice</h2>'), html.indexOf('<h2>Cautions</h2>'));
+    const model = doc.model as { summary: string; candidates: { added: string | null; reason: string }[] };
+    expect(section).toContain(model.summary);
+    expect(model.candidates.length).toBeGreaterThan(1);
+    for (const c of model.candidates) expect(section).toContain(`<td>${c.added === null ? 'lumped linear model' : `+ ${c.added}`}</td>`);
+    expect(section).toMatch(/score test p \d/);
+  });
+
   it('shows the held-out check with its NRMSE per channel', () => {
     const section = html.slice(html.indexOf('<h2>Held-out checks</h2>'), html.indexOf('<h2>Findings</h2>'));
     expect(section).toContain(HELD_OUT);
