@@ -39,7 +39,9 @@ the detailed model: Coulomb friction Tc [N·m], stiction Ts [N·m], drag c [N·m
 drive's voltage limit Vmax [V] and current limit Imax [A] (when the logged voltage is the drive's
 command), winding heating (R at 20 °C by the copper law, Rth [K/W], Cth [J/K]). The model is chosen
 from the data: each term is added only when a nested F-test and BIC support it, and a term they do
-not support is reported as not distinguishable from zero, with its bound. Each constant comes with
+not support is reported as not distinguishable from zero, with its bound (on long recordings a score
+test at the current model screens Coulomb friction, drag and heating first: a term it does not find
+is not fitted, and its bound is the linearised one). Each constant comes with
 its standard error and 95 % interval; a constant the recordings cannot pin down is named, with the
 recording that would, instead of being printed as a number.
 
