@@ -1,6 +1,7 @@
 import { detectVoltageSegments } from './detectVoltageSegments.js';
 import { estimateNoiseLevel } from './estimateNoiseLevel.js';
 import { fourierMagnitudes } from './fourierMagnitudes.js';
+import { selectKth } from './selectKth.js';
 import { solveSymmetricSystem } from '../solver/solveSymmetricSystem.js';
 import type { InputHandling, VoltageSegment } from './types.js';
 import { zeroPhaseLowPass } from './zeroPhaseLowPass.js';
@@ -245,25 +246,13 @@ function withinSegmentSigma(v: Float64Array, segs: VoltageSegment[]): number {
   return (1.482602218505602 * medianOf(dd)) / Math.sqrt(6);
 }
 
-/** Median by Hoare's selection (expected O(n)); rearranges `a`. */
+/** Median of finite values by selection (`selectKth`); rearranges `a`. */
 function medianOf(a: Float64Array): number {
   const n = a.length;
   const h = n >> 1;
-  let left = 0, right = n - 1;
-  while (right > left) {
-    const pivot = a[(left + right) >> 1]!;
-    let i = left, j = right;
-    while (i <= j) {
-      while (a[i]! < pivot) i++;
-      while (a[j]! > pivot) j--;
-      if (i <= j) { const t = a[i]!; a[i] = a[j]!; a[j] = t; i++; j--; }
-    }
-    if (h <= j) right = j;
-    else if (h >= i) left = i;
-    else break;
-  }
-  const hi = a[h]!;
+  const hi = selectKth(a, h);
   if (n % 2 === 1) return hi;
+  // Nothing left of h is larger than a[h]: the lower middle is the largest of them.
   let lo = -Infinity;
   for (let k = 0; k < h; k++) if (a[k]! > lo) lo = a[k]!;
   return 0.5 * (lo + hi);
