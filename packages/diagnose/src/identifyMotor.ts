@@ -62,7 +62,8 @@ const WORDS: Record<Extension, string> = {
  *
  * On recordings of 20 000 residual rows or more, Coulomb friction, drag and heating are first
  * screened by Rao's score test at the current model (`scoreMotorExtensions`: one Jacobian for all
- * three, no fit): a candidate the test does not find at `alpha` is turned down without a fit, and
+ * three, no fit; at a lumped fit one pass of the streamed linear kernel gives the effects'
+ * first-order columns): a candidate the test does not find at `alpha` is turned down without a fit, and
  * its bound is the linearised one (one Gauss–Newton step from the current model, + 1.96 standard
  * errors). The score test is asymptotically equivalent to the F-test, so the choice is the same
  * up to linearisation; it spares the fits that long clean records would spend on effects they do

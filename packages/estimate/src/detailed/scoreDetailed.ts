@@ -108,34 +108,64 @@ export function scoreDetailed(recs: PreparedRecording[], opts: DetailedFitOption
   const problem = createDetailedProblem(setup);
   const acc = createNormalEquations(p);
   const ssr = problem.evaluate(Float64Array.from(theta0), true, acc);
-  const rows = acc.rows;
-  const pBase = p - tested.size;
-  if (!Number.isFinite(ssr) || rows <= p) return groups.map(() => null);
-  // The fitted model's own directions (every tested column held).
   const held = new Uint8Array(p);
   for (const c of tested) held[index[c]] = 1;
-  const without = gaussNewtonStep(acc.JtJ, acc.Jtr, p, held);
+  return scoreGroups(acc.JtJ, acc.Jtr, p, ssr, acc.rows, held, groups.map((group, gi) => (!usable[gi] ? null : {
+    tested: group,
+    columns: group.map((c) => index[c]),
+    // On its linear scale the step δ moves the constant by δ·scale from zero.
+    bounds: group.filter((c) => c === 'Tc' || c === 'c').map((c) => ({ name: c, column: index[c], scale: entries[index[c]]!.scale, nullValue: nullValue[c]!, unit: UNITS[c] ?? '' })),
+  })), () => problem.simulations());
+}
+
+/** One group of a score test: its constants, their columns, and the constants that get a one-step bound. */
+export interface ScoreGroup {
+  tested: string[];
+  columns: number[];
+  /** Constants zero without their effect: value = nullValue + scale·δ, SE = scale·s·√((JᵀJ)⁻¹). */
+  bounds: { name: string; column: number; scale: number; nullValue: number; unit: string }[];
+}
+
+/**
+ * Score statistics of column groups from the normal equations of the extended problem at the
+ * fitted model (see `scoreDetailed`, Method): `held` marks every tested column (and any column
+ * that is not a parameter at all, such as a zero sink); the fitted model's parameters are the
+ * columns not marked. Shared by the detailed test and the lumped one (`scoreLumped`).
+ *
+ * @param JtJ - P×P row-major normal matrix of the extended problem
+ * @param Jtr - its gradient
+ * @param P - columns
+ * @param ssr - sum of squares at the fitted model
+ * @param rows - residual rows
+ * @param held - 1 for columns outside the fitted model
+ * @param groups - the groups to test (null: not testable, gives null)
+ * @param simulations - simulations (or passes) run, read once for the output
+ * @returns per group its score, or null where the normal equations are not positive definite
+ */
+export function scoreGroups(JtJ: Float64Array, Jtr: Float64Array, P: number, ssr: number, rows: number, held: Uint8Array, groups: (ScoreGroup | null)[], simulations: () => number): (ExtensionScore | null)[] {
+  let pBase = 0;
+  for (let j = 0; j < P; j++) if (held[j] === 0) pBase++;
+  if (!Number.isFinite(ssr) || rows <= P) return groups.map(() => null);
+  // The fitted model's own directions (every tested column held).
+  const without = gaussNewtonStep(JtJ, Jtr, P, held);
   const s2 = ssr / (rows - pBase);
-  return groups.map((group, gi) => {
-    if (!usable[gi] || without === null) return null;
-    const q = group.length;
+  return groups.map((group) => {
+    // A column no residual depends on (friction on a held rotor) has nothing to test.
+    if (group === null || without === null || group.columns.some((j) => !(JtJ[j * P + j]! > 0))) return null;
+    const q = group.columns.length;
     const mask = Uint8Array.from(held);
-    for (const c of group) mask[index[c]] = 0;
-    const full = gaussNewtonStep(acc.JtJ, acc.Jtr, p, mask);
+    for (const j of group.columns) mask[j] = 0;
+    const full = gaussNewtonStep(JtJ, Jtr, P, mask);
     if (full === null) return null;
     const lm = Math.max(full.drop - without.drop, 0);
     const oneStep: ExtensionScore['oneStep'] = {};
-    const inv = inverseDiagonal(acc.JtJ, p, mask);
-    for (const c of group) {
-      if (c !== 'Tc' && c !== 'c') continue;
-      const j = index[c];
-      // On its linear scale the step δ moves the constant by δ·scale from zero.
-      const u = entries[j]!.scale;
-      const d = inv?.[j];
-      const se = d !== undefined && d > 0 ? u * Math.sqrt(d * s2) : NaN;
-      oneStep[c] = { value: nullValue[c]! + u * full.step[j]!, standardError: se, unit: UNITS[c] ?? '' };
+    const inv = group.bounds.length > 0 ? inverseDiagonal(JtJ, P, mask) : null;
+    for (const b of group.bounds) {
+      const d = inv?.[b.column];
+      const se = d !== undefined && d > 0 ? b.scale * Math.sqrt(d * s2) : NaN;
+      oneStep[b.name] = { value: b.nullValue + b.scale * full.step[b.column]!, standardError: se, unit: b.unit };
     }
-    return { tested: group, statistic: lm / q / s2, df1: q, df2: rows - pBase - q, ssr, rows, parameters: pBase, oneStep, simulations: problem.simulations() };
+    return { tested: group.tested, statistic: lm / q / s2, df1: q, df2: rows - pBase - q, ssr, rows, parameters: pBase, oneStep, simulations: simulations() };
   });
 }
 

@@ -100,9 +100,12 @@ const CHUNK = 4096;
  * @param layout - the parameter layout
  * @param thetaFull - full θ; frozen entries keep these values (copied)
  * @param frozen - per full θ entry, true when it is held; null: nothing frozen
+ * @param effects - for a score test (`scoreLumpedExtensions`): the four effect columns of
+ *   `EffectColumns` are added after the sink column (index p + 1 … p + 4 of an accumulator of
+ *   p + 5 columns; the sink's own column is zero there); null in a fit
  * @returns the problem for `solveLeastSquares`
  */
-export function createMotorProblem(recs: PreparedRecording[], layout: ParameterLayout, thetaFull: ArrayLike<number>, frozen: boolean[] | null): MotorProblem {
+export function createMotorProblem(recs: PreparedRecording[], layout: ParameterLayout, thetaFull: ArrayLike<number>, frozen: boolean[] | null, effects: { tau: number; copper: number } | null = null): MotorProblem {
   const pFull = layout.names.length;
   const free: number[] = [];
   const colOf = new Int32Array(pFull);
@@ -112,18 +115,21 @@ export function createMotorProblem(recs: PreparedRecording[], layout: ParameterL
   }
   const p = free.length;
   const sink = p;
+  // Columns of the chunk: the free entries, the sink, and (score pass) four effect columns.
+  const pCols = p + 1 + (effects === null ? 0 : 4);
   // Column stride of the Jacobian chunk: not a power of two, so that the ~10 columns written per
   // row do not all map to the same cache set (a 64 KiB stride made every row a conflict miss).
   const st = 2 * CHUNK + 40;
   const full = Float64Array.from(thetaFull);
   const maxBasis = Math.max(1, ...recs.map((x) => (x.levels !== null ? x.levels.classes.length : x.sines !== null ? x.sines.coefficients.length : 0)));
   const buf: SweepBuffers = {
-    st, r: new Float64Array(st), jac: new Float64Array((p + 1) * st), sink, rows: 0, acc: null, wantJ: false,
+    st, r: new Float64Array(st), jac: new Float64Array(pCols * st), sink, rows: 0, acc: null, wantJ: false,
     mats: new Float64Array(56), work: new Float64Array(128), slot: new Float64Array(56), slot2: new Float64Array(56),
     x: new Float64Array(16), su: new Float64Array(2 * maxBasis), phi: new Float64Array(maxBasis),
+    effects: effects === null ? null : { col: p + 1, tau: effects.tau, copper: effects.copper, state: new Float64Array(10) },
   };
   const r2 = new Float64Array(2);
-  const jac2 = new Float64Array((p + 1) * 2);
+  const jac2 = new Float64Array(pCols * 2);
   const U = new Float64Array(maxBasis);
   const beta = new Float64Array(maxBasis);
   /** Column offset (index·st) of a full θ index, the sink when absent or frozen. */
@@ -162,7 +168,7 @@ export function createMotorProblem(recs: PreparedRecording[], layout: ParameterL
     const q = sm.coefficients.length;
     const sig = rec.handling.voltageSigma;
     const rr = new Float64Array(q + 1);
-    const jj = new Float64Array((p + 1) * (q + 1));
+    const jj = new Float64Array(pCols * (q + 1));
     for (let a = 0; a < q; a++) {
       // Row a of Lᵀ(β − β̂): Σ_{c ≥ a} L[c][a]·(β_c − β̂_c).
       let s = 0;
@@ -323,6 +329,9 @@ function lockedRotorPass(buf: SweepBuffers, rec: PreparedRecording, sl: Recordin
   // L·di/dt = v − R·i with v held: i⁺ = a·i + (1 − a)·v/R, a = e^{−R·h/L}; log-sensitivities.
   let i = 0, dR = 0, dL = 0;
   su.fill(0, 0, nc);
+  const ef = wantJ ? buf.effects : null;
+  const es = ef === null ? new Float64Array(0) : ef.state.fill(0);
+  const cE = ef === null ? 0 : ef.col * st;
   let hC = NaN, a = 0, q = 0;
   for (let k = 0; k < n; k++) {
     if (k > 0) {
@@ -337,6 +346,16 @@ function lockedRotorPass(buf: SweepBuffers, rec: PreparedRecording, sl: Recordin
         const g = (1 - a) / c.R;
         for (let j = 0; j < nc; j++) su[j] = a * su[j]! + (j === cl ? g : 0);
       }
+      if (ef !== null) {
+        // Heating columns (the rotor is held, so friction and drag move nothing): the voltage
+        // −κ·F·i and −κ·G·i held over the interval, through the held-rotor recursion.
+        const F = es[8]!, G = es[9]!, P = c.R * i * i, g = (1 - a) / c.R, kappa = c.R / ef.copper;
+        es[4] = a * es[4]! - g * kappa * F * i;
+        es[6] = a * es[6]! - g * kappa * G * i;
+        const qT = Math.exp(-h / ef.tau);
+        es[8] = qT * F + (1 - qT) * P;
+        es[9] = qT * G + ((qT * h) / ef.tau) * (F - P);
+      }
       i = a * i + (1 - a) * iss;
     }
     const res = i + off - mi[k]!;
@@ -347,6 +366,13 @@ function lockedRotorPass(buf: SweepBuffers, rec: PreparedRecording, sl: Recordin
       jac[cL + rows] = dL * sI;
       jac[cO + rows] = offW;
       for (let j = 0; j < nc; j++) jac[colU[j]! + rows] = su[j]! * uW;
+      if (ef !== null) {
+        jac[cE + rows] = 0;
+        jac[cE + st + rows] = 0;
+        jac[cE + 2 * st + rows] = es[4]! * sI;
+        jac[cE + 3 * st + rows] = es[6]! * sI;
+        jac[buf.sink * st + rows] = 0;
+      }
     }
     rows++;
     if (rows === st) { buf.rows = rows; flushChunk(buf); rows = 0; }

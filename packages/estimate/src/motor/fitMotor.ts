@@ -19,6 +19,8 @@ import { effectStarts, needsDetailedModel, runningTorque } from './detailedStart
 import { informs, UNITS, uses, WOULD_INFORM } from './informationMap.js';
 import type { LumpedName } from './informationMap.js';
 import { polishJointly } from './polishJointly.js';
+import { scoreLumped } from './scoreLumped.js';
+import type { LumpedScoreGroup } from './scoreLumped.js';
 import { windowOf } from './windowOf.js';
 import { lumpedStatistics } from './lumpedStatistics.js';
 import type {
@@ -120,6 +122,13 @@ function applyGivenNoise(recs: PreparedRecording[], opts: ReturnType<typeof chec
   });
 }
 
+/**
+ * The problem behind each fit of the streamed linear kernel (its layout and full θ), so that a
+ * score test at that fit (`scoreMotorExtensions`) takes its rows, weights and nuisance
+ * parameters exactly as the fit had them. Weak: it lives as long as the fit object.
+ */
+const LUMPED_FITS = new WeakMap<MotorFit, { layout: ParameterLayout; theta: Float64Array }>();
+
 /** Effect constants each extension adds that a score test can move from zero. */
 const SCORED: Partial<Record<keyof ModelExtensions, DetailedConstant[]>> = { coulomb: ['Tc'], drag: ['c'], heating: ['Rth', 'Cth'] };
 
@@ -127,7 +136,10 @@ const SCORED: Partial<Record<keyof ModelExtensions, DetailedConstant[]>> = { cou
  * Rao's score tests of extensions of the detailed model at a fitted model, without fitting them:
  * for each, how much the recordings' sum of squares could drop if its constants moved from zero
  * (`scoreDetailed`), all from one Jacobian of the model extended by every one of them at the
- * fitted model's constants, with the same recordings, noise SDs and options as the fit. A screen
+ * fitted model's constants, with the same recordings, noise SDs and options as the fit. At a
+ * fit of the streamed linear kernel (no Coulomb friction in it; `options.warmStart` the object
+ * `fitMotor` returned) the columns are the kernel's first-order responses to the effects, from one
+ * pass (`scoreLumped`); otherwise the hybrid simulator's secants (`scoreDetailed`). A screen
  * before fitting extensions the data may not support. Coulomb friction, drag and winding heating
  * can be tested; drive limits (which vanish at infinity, not at zero) and stiction (above Coulomb
  * friction) cannot.
@@ -153,6 +165,18 @@ export function scoreMotorExtensions(recordings: MotorRecordingInput[], options:
   if (base.stiction) return out;
   const testable = added.filter((e) => SCORED[e] !== undefined && !base[e] && !SCORED[e]!.some((c) => opts.fix[c] !== undefined));
   if (testable.length === 0) return out;
+  // At a fit of the streamed linear kernel (no Coulomb friction in it): one pass of that kernel
+  // with the effects' first-order columns (`scoreLumped`).
+  const lumped = LUMPED_FITS.get(options.warmStart);
+  if (lumped !== undefined && !base.coulomb && !needsDetailedModel(recs, base) && sameLayout(recs, lumped.layout)) {
+    const groups = testable.map((e) => (e === 'coulomb' ? 'Tc' : e === 'drag' ? 'c' : 'heating') as LumpedScoreGroup);
+    let longest = 0;
+    for (const r of recs) longest = Math.max(longest, r.time[r.time.length - 1]! - r.time[0]!);
+    // The heating columns' thermal time constant: the heating start's (`effectStarts`).
+    const scores = scoreLumped(recs, lumped.layout, lumped.theta, groups, Math.max(longest, 1e-3) / 3);
+    testable.forEach((e, i) => { out[e] = scores[i] ?? null; });
+    return out;
+  }
   const ext: ModelExtensions = { ...base };
   for (const e of testable) ext[e] = true;
   const { fixedD, start, startSource, warm } = detailedInputs(recs, opts, ext);
@@ -165,6 +189,14 @@ export function scoreMotorExtensions(recordings: MotorRecordingInput[], options:
   const scores = scoreDetailed(recs, { extensions: ext, fix: fixedD, start, startSource, ambient: opts.ambientTemperature, solver: opts.solver, keepResiduals: false, reweight: false, warm }, testable.map((e) => SCORED[e]!));
   testable.forEach((e, i) => { out[e] = scores[i] ?? null; });
   return out;
+}
+
+/** Whether prepared recordings have the nuisance slots of a lumped layout (same levels and sines). */
+function sameLayout(recs: PreparedRecording[], layout: ParameterLayout): boolean {
+  return recs.length === layout.recordings.length && recs.every((r, i) => {
+    const sl = layout.recordings[i]!;
+    return r.kind !== 'coast-down' && (r.levels?.classes.length ?? 0) === sl.level.length && (r.sines?.coefficients.length ?? 0) === sl.sine.length;
+  });
 }
 
 /** The fit of prepared recordings (see `fitMotor`). */
@@ -455,13 +487,15 @@ function fitPrepared(recs: PreparedRecording[], opts: ReturnType<typeof checkFit
     if (sl.offset >= 0) nu.currentOffset = sol.theta[sl.offset]! * sl.offsetScale;
     if (sl.load >= 0) nu.loadTorque = sol.theta[sl.load]! * sl.loadScale;
   });
-  return {
+  const fit: MotorFit = {
     parameters, notInformed, variant, recordings: reports,
     fittedNames: thetaNames, theta: Array.from(sol.theta), normalMatrix: sol.JtJ, covariance, constantCovariance, ...(information ? { information } : {}), degreesOfFreedom: dof,
     ssr: sol.ssr, rows: sol.rows, residualVariance: dof > 0 ? sol.ssr / dof : NaN, start,
     iterations, jacobianEvaluations, functionEvaluations, starts: attempts,
     converged: sol.converged, stopReason: sol.stopReason,
   };
+  LUMPED_FITS.set(fit, { layout, theta: Float64Array.from(sol.theta) });
+  return fit;
 }
 
 /**

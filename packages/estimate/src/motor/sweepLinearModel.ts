@@ -36,6 +36,28 @@ export interface SweepBuffers {
   su: Float64Array;
   /** Input-basis values at the current sample. */
   phi: Float64Array;
+  /** Effect columns of the score test (`EffectColumns`), or null in a fit. */
+  effects: EffectColumns | null;
+}
+
+/**
+ * The four effect columns a score test adds to the lumped model at its fit (internal): the
+ * first-order responses of current and speed to Coulomb friction Tc·sgn ω, to drag c·ω|ω| (both
+ * as load torque, per N·m and per N·m·s²/rad²) and to a winding-heating rise of a fixed thermal
+ * time constant τ: its size and its time course (R·(1 + ΔT/(k + T_ref)) with ΔT = Rth·F and
+ * τ·∂F/∂τ, F the copper loss R·i² through 1/(τs + 1), as voltage −R·ΔT·i/(k + T_ref) per unit Rth).
+ * Each is the linear model's zero-order-hold response to its input held over the interval at the
+ * model's sample values; columns `col` … `col + 3` of the chunk.
+ */
+export interface EffectColumns {
+  /** Index of the first of the four columns. */
+  col: number;
+  /** Thermal time constant of the heating columns [s]. */
+  tau: number;
+  /** Copper constant k + reference temperature [°C] (the heating columns' scale). */
+  copper: number;
+  /** State: (i, ω) responses of Tc, c, heating size, heating course; then F and τ·∂F/∂τ. */
+  state: Float64Array;
 }
 
 /** What one linear pass needs to know about a recording at the current θ (internal). */
@@ -165,7 +187,7 @@ function writeRowsGeneric(b: SweepBuffers, s: SweepSpec, k: number): void {
     }
     b.rows = row + 1;
   }
-  if (b.rows >= b.st - 1) flush(b);
+  if (b.effects === null && b.rows >= b.st - 1) flush(b);
 }
 
 /** Advances state and sensitivities over one interval with the matrices in `M` (generic form). */
@@ -235,6 +257,11 @@ export function sweepLinearModel(b: SweepBuffers, s: SweepSpec): void {
   const n = s.n;
   b.x.fill(0);
   b.su.fill(0, 0, 2 * s.m);
+  if (b.effects !== null) {
+    // The score pass is taken at a lumped fit without Coulomb friction (no stuck start).
+    if (s.stuck) throw new RangeError('sweepLinearModel: effect columns need a model without Coulomb friction');
+    b.effects.state.fill(0);
+  }
   const uniform = s.h === s.h;
   if (uniform) discretise(b, s, s.h, b.slot);
   let k = 0;
@@ -332,7 +359,8 @@ function freeRun(b: SweepBuffers, s: SweepSpec, k0: number, k1: number): void {
   for (let k = k0; k < k1; k += BLOCK) {
     const e = k + BLOCK < k1 ? k + BLOCK : k1;
     if (b.rows + 2 * (e - k) > b.st) flush(b);
-    if (!b.wantJ) freeRunValues(b, s, k, e);
+    if (b.effects !== null && b.wantJ) freeRunEffects(b, s, k, e);
+    else if (!b.wantJ) freeRunValues(b, s, k, e);
     else if (s.m > 0) freeRunBasis(b, s, k, e);
     else freeRunSens(b, s, k, e);
   }
@@ -543,4 +571,50 @@ function freeRunBasis(b: SweepBuffers, s: SweepSpec, k0: number, k1: number): vo
   x[0] = i; x[1] = w;
   x[2] = ai; x[3] = aw; x[4] = bi; x[5] = bw; x[6] = ci; x[7] = cw;
   x[8] = di; x[9] = dw; x[10] = ei; x[11] = ew; x[12] = fi; x[13] = fw; x[14] = ti; x[15] = tw;
+}
+
+/**
+ * `freeRun` of the score pass: the generic rows and advance, plus the four effect columns of
+ * `b.effects` (see `EffectColumns`). One pass per test, so written for clarity over speed.
+ */
+function freeRunEffects(b: SweepBuffers, s: SweepSpec, k0: number, k1: number): void {
+  const M = b.slot, x = b.x, jac = b.jac, st = b.st;
+  const ef = b.effects!, e = ef.state;
+  const c0 = ef.col * st, c1 = c0 + st, c2 = c1 + st, c3 = c2 + st, sink = b.sink * st;
+  const p11 = M[0]!, p12 = M[1]!, p21 = M[2]!, p22 = M[3]!, g1 = M[4]!, g2 = M[5]!, t1 = M[6]!, t2 = M[7]!;
+  const n = s.n, tau = ef.tau, kappa = s.R / ef.copper;
+  for (let k = k0; k < k1; k++) {
+    const v = inputAt(s, b.phi, k);
+    let row = b.rows;
+    writeRowsGeneric(b, s, k);
+    for (let ch = 0; ch < 2; ch++) {
+      const sc = ch === 0 ? s.sI : s.sW;
+      if ((ch === 0 ? s.mi : s.mw) === null) continue;
+      jac[c0 + row] = e[ch]! * sc;
+      jac[c1 + row] = e[2 + ch]! * sc;
+      jac[c2 + row] = e[4 + ch]! * sc;
+      jac[c3 + row] = e[6 + ch]! * sc;
+      jac[sink + row] = 0;
+      row++;
+    }
+    if (b.rows >= b.st - 1) flush(b);
+    if (k + 1 >= n) break;
+    const i = x[0]!, w = x[1]!;
+    const h = s.time[k + 1]! - s.time[k]!;
+    // Inputs held over the interval: load torques sgn ω and ω|ω|, heating voltages −κ·F·i and −κ·G·i.
+    const uT = w > 0 ? 1 : w < 0 ? -1 : 0, uC = w * Math.abs(w);
+    const F = e[8]!, G = e[9]!, P = s.R * i * i;
+    const uF = -kappa * F * i, uG = -kappa * G * i;
+    for (let j = 0; j < 4; j++) {
+      const a = e[2 * j]!, bw = e[2 * j + 1]!;
+      const gi = j < 2 ? t1 : g1, gw = j < 2 ? t2 : g2;
+      const u = j === 0 ? uT : j === 1 ? uC : j === 2 ? uF : uG;
+      e[2 * j] = p11 * a + p12 * bw + gi * u;
+      e[2 * j + 1] = p21 * a + p22 * bw + gw * u;
+    }
+    const q = Math.exp(-h / tau);
+    e[8] = q * F + (1 - q) * P;
+    e[9] = q * G + ((q * h) / tau) * (F - P);
+    advanceGeneric(b, s, M, v);
+  }
 }
