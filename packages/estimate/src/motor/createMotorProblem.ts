@@ -100,9 +100,8 @@ const CHUNK = 4096;
  * @param layout - the parameter layout
  * @param thetaFull - full θ; frozen entries keep these values (copied)
  * @param frozen - per full θ entry, true when it is held; null: nothing frozen
- * @param effects - for a score test (`scoreLumpedExtensions`): the four effect columns of
- *   `EffectColumns` are added after the sink column (index p + 1 … p + 4 of an accumulator of
- *   p + 5 columns; the sink's own column is zero there); null in a fit
+ * @param effects - for a score test (`scoreLumped`): the four effect columns of `EffectColumns`
+ *   follow the free entries (indices p … p + 3 of an accumulator of p + 4 columns); null in a fit
  * @returns the problem for `solveLeastSquares`
  */
 export function createMotorProblem(recs: PreparedRecording[], layout: ParameterLayout, thetaFull: ArrayLike<number>, frozen: boolean[] | null, effects: { tau: number; copper: number } | null = null): MotorProblem {
@@ -114,9 +113,9 @@ export function createMotorProblem(recs: PreparedRecording[], layout: ParameterL
     else { colOf[j] = free.length; free.push(j); }
   }
   const p = free.length;
-  const sink = p;
-  // Columns of the chunk: the free entries, the sink, and (score pass) four effect columns.
-  const pCols = p + 1 + (effects === null ? 0 : 4);
+  // Columns of the chunk: the free entries, (score pass) four effect columns, then the sink.
+  const sink = effects === null ? p : p + 4;
+  const pCols = sink + 1;
   // Column stride of the Jacobian chunk: not a power of two, so that the ~10 columns written per
   // row do not all map to the same cache set (a 64 KiB stride made every row a conflict miss).
   const st = 2 * CHUNK + 40;
@@ -126,7 +125,7 @@ export function createMotorProblem(recs: PreparedRecording[], layout: ParameterL
     st, r: new Float64Array(st), jac: new Float64Array(pCols * st), sink, rows: 0, acc: null, wantJ: false,
     mats: new Float64Array(56), work: new Float64Array(128), slot: new Float64Array(56), slot2: new Float64Array(56),
     x: new Float64Array(16), su: new Float64Array(2 * maxBasis), phi: new Float64Array(maxBasis),
-    effects: effects === null ? null : { col: p + 1, tau: effects.tau, copper: effects.copper, state: new Float64Array(10) },
+    effects: effects === null ? null : { col: p, tau: effects.tau, copper: effects.copper, state: new Float64Array(10) },
   };
   const r2 = new Float64Array(2);
   const jac2 = new Float64Array(pCols * 2);
@@ -371,7 +370,6 @@ function lockedRotorPass(buf: SweepBuffers, rec: PreparedRecording, sl: Recordin
         jac[cE + st + rows] = 0;
         jac[cE + 2 * st + rows] = es[4]! * sI;
         jac[cE + 3 * st + rows] = es[6]! * sI;
-        jac[buf.sink * st + rows] = 0;
       }
     }
     rows++;

@@ -42,13 +42,13 @@ export function scoreLumped(recs: PreparedRecording[], layout: ParameterLayout, 
   if (layout.iTc >= 0 || layout.fixed.Tc !== 0) throw new RangeError('scoreLumped: the fitted model must not have Coulomb friction');
   const problem = createMotorProblem(recs, layout, theta, null, { tau, copper: COPPER });
   const p = problem.parameterCount;
-  const P = p + 5;
+  // The fit's p entries, then the four effect columns.
+  const P = p + 4;
   const acc = createNormalEquations(P);
   const ssr = problem.evaluate(problem.toFree(theta), true, acc);
-  // The sink column (index p) is not a parameter; the four effect columns follow it.
   const held = new Uint8Array(P);
   held.fill(1, p);
-  const column: Record<LumpedScoreGroup, number[]> = { Tc: [p + 1], c: [p + 2], heating: [p + 3, p + 4] };
+  const column: Record<LumpedScoreGroup, number[]> = { Tc: [p], c: [p + 1], heating: [p + 2, p + 3] };
   const spec = groups.map((g): ScoreGroup => ({
     tested: g === 'heating' ? ['Rth', 'Cth'] : [g],
     columns: column[g],

@@ -4,7 +4,7 @@ import type { NormalEquations } from '../solver/types.js';
 
 /**
  * Buffers of one motor problem, shared by every pass (internal). The Jacobian chunk is
- * column-major with stride `st`; column `sink` (one past the fitted ones) receives the entries of
+ * column-major with stride `st`; column `sink` (the last one) receives the entries of
  * columns that are not fitted, so the hot loop writes every column without a branch.
  */
 export interface SweepBuffers {
@@ -580,7 +580,7 @@ function freeRunBasis(b: SweepBuffers, s: SweepSpec, k0: number, k1: number): vo
 function freeRunEffects(b: SweepBuffers, s: SweepSpec, k0: number, k1: number): void {
   const M = b.slot, x = b.x, jac = b.jac, st = b.st;
   const ef = b.effects!, e = ef.state;
-  const c0 = ef.col * st, c1 = c0 + st, c2 = c1 + st, c3 = c2 + st, sink = b.sink * st;
+  const c0 = ef.col * st, c1 = c0 + st, c2 = c1 + st, c3 = c2 + st;
   const p11 = M[0]!, p12 = M[1]!, p21 = M[2]!, p22 = M[3]!, g1 = M[4]!, g2 = M[5]!, t1 = M[6]!, t2 = M[7]!;
   const n = s.n, tau = ef.tau, kappa = s.R / ef.copper;
   for (let k = k0; k < k1; k++) {
@@ -594,7 +594,6 @@ function freeRunEffects(b: SweepBuffers, s: SweepSpec, k0: number, k1: number): 
       jac[c1 + row] = e[2 + ch]! * sc;
       jac[c2 + row] = e[4 + ch]! * sc;
       jac[c3 + row] = e[6 + ch]! * sc;
-      jac[sink + row] = 0;
       row++;
     }
     if (b.rows >= b.st - 1) flush(b);
