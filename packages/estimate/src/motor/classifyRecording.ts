@@ -19,7 +19,17 @@ import type { MotorExperimentKind, RecordingData } from './types.js';
  * classifyRecording({ time, channels: { voltage, current } }).kind; // => 'locked-rotor'
  */
 export function classifyRecording(recording: RecordingData): { kind: MotorExperimentKind; reason: string } {
-  const { current, speed, torque } = recording.channels;
+  const { kind, reason } = classifyWithEncoder(recording);
+  return { kind, reason };
+}
+
+/**
+ * `classifyRecording`, also returning the encoder quantum of the speed channel when the rules
+ * looked for one (`detectEncoderSpeed(time, speed)`, null when not an encoder speed; undefined
+ * when not looked for), so that the preparation does not detect it again (internal).
+ */
+export function classifyWithEncoder(recording: RecordingData): { kind: MotorExperimentKind; reason: string; encoder?: number | null } {
+  const { speed } = recording.channels;
   // The drive voltage: terminal, else the drive's command, else the supply.
   const voltage = recording.channels.voltage ?? recording.channels.commandVoltage ?? recording.channels.supplyVoltage;
   if (!(voltage instanceof Float64Array)) {
@@ -35,7 +45,14 @@ export function classifyRecording(recording: RecordingData): { kind: MotorExperi
   const sw = quantum !== null ? quantum / (medianInterval(recording.time) * Math.sqrt(12)) : estimateNoiseLevel(speed).sigma;
   let wmax = 0;
   for (let k = 0; k < n; k++) wmax = Math.max(wmax, Math.abs(speed[k]!));
-  if (wmax < 6 * sw) return { kind: 'locked-rotor', reason: `speed stays within its noise (max |ω| ${wmax.toPrecision(3)} rad/s ≤ 6σ)` };
+  if (wmax < 6 * sw) return { kind: 'locked-rotor', reason: `speed stays within its noise (max |ω| ${wmax.toPrecision(3)} rad/s ≤ 6σ)`, encoder: quantum };
+  const kind = classifyTurning(recording, voltage, speed, n, tail, wmax);
+  return { ...kind, encoder: quantum };
+}
+
+/** The rules of `classifyRecording` for a rotor that turns. */
+function classifyTurning(recording: RecordingData, voltage: Float64Array, speed: Float64Array, n: number, tail: number, wmax: number): { kind: MotorExperimentKind; reason: string } {
+  const { current, torque } = recording.channels;
   if (torque instanceof Float64Array) {
     const st = estimateNoiseLevel(torque).sigma;
     let s = 0;

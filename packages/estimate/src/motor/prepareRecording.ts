@@ -1,5 +1,5 @@
 import { choleskyFactor } from '../solver/choleskyFactor.js';
-import { classifyRecording } from './classifyRecording.js';
+import { classifyWithEncoder } from './classifyRecording.js';
 import { detectEncoderSpeed } from './detectEncoderSpeed.js';
 import { nominalTimeGrid } from './nominalTimeGrid.js';
 import type { NominalGrid } from './nominalTimeGrid.js';
@@ -203,6 +203,8 @@ function prepareOnce(item: MotorRecordingInput, index: number, voltageMode: 'aut
   let kind: MotorExperimentKind;
   let kindSource: 'declared' | 'guessed';
   let kindReason: string;
+  // The speed's encoder quantum when the classification already looked for it.
+  let seenEncoder: number | null | undefined;
   if (item.kind !== undefined) {
     const kinds: MotorExperimentKind[] = ['locked-rotor', 'step', 'coast-down', 'steady-state', 'prbs', 'multisine', 'loaded'];
     if (!kinds.includes(item.kind)) throw new RangeError(`${where}.kind must be one of ${kinds.join(', ')} (got ${JSON.stringify(item.kind)})`);
@@ -218,7 +220,8 @@ function prepareOnce(item: MotorRecordingInput, index: number, voltageMode: 'aut
     kindSource = 'guessed';
     kindReason = 'no voltage logged: only a coast-down (free deceleration) can be fitted from speed alone';
   } else {
-    const g = classifyRecording(rec);
+    const g = classifyWithEncoder(rec);
+    seenEncoder = g.encoder;
     kind = g.kind;
     kindSource = 'guessed';
     kindReason = g.reason;
@@ -246,7 +249,7 @@ function prepareOnce(item: MotorRecordingInput, index: number, voltageMode: 'aut
     const maxAbs = stats.get(v)!.maxAbs;
     return { ...lvl, sigma: Math.max(lvl.sigma, FLOOR * Math.max(maxAbs, 1)) };
   };
-  const encoder = speed !== null && kind !== 'locked-rotor' && !table ? detectEncoderSpeed(time, speed) : null;
+  const encoder = speed !== null && kind !== 'locked-rotor' && !table ? (seenEncoder !== undefined ? seenEncoder : detectEncoderSpeed(time, speed)) : null;
   const currentNoise = kind === 'coast-down' && !(voltage !== null && current !== null) ? null : noise(current);
   let speedNoise = kind === 'locked-rotor' ? null : noise(speed);
   // Encoder speed: the fit compares angles, whose quantisation error q/√12 is close to white.
@@ -275,8 +278,7 @@ function prepareOnce(item: MotorRecordingInput, index: number, voltageMode: 'aut
     };
   } else {
     // Jittered samples see the command's value on its own clock: the index of that value.
-    const g1 = nominalTimeGrid(time);
-    const g0 = g1;
+    const g0 = grid;
     const phase = g0 === null ? null : Float64Array.from(time, (t) => Math.floor((t - g0.start) / g0.interval + 1e-9));
     grid = g0;
     let rb = rebuildCommand(time, voltage!, voltageMode, phase);
