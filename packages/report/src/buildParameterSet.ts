@@ -200,7 +200,13 @@ export function buildParameterSet(fit: MotorFit, options: BuildParameterSetOptio
       residualVariance: finiteOrNull(fit.residualVariance),
       recordings: fit.recordings.map((r) => ({
         name: r.name, kind: r.kind, samples: r.samples,
-        channels: r.channels.map((c) => ({ channel: c.channel, sigma: finiteOrNull(c.sigma), rms: finiteOrNull(c.rms), nrmse: finiteOrNull(c.nrmse) })),
+        channels: r.channels.map((c) => {
+          const lb = options.diagnosis?.residuals?.find((d) => d.recording === r.name && d.channel === c.channel)?.stats.ljungBox;
+          return {
+            channel: c.channel, sigma: finiteOrNull(c.sigma), rms: finiteOrNull(c.rms), nrmse: finiteOrNull(c.nrmse),
+            whiteness: lb === undefined ? null : { lags: lb.lags, statistic: finiteOrNull(lb.statistic), pValue: finiteOrNull(lb.pValue) },
+          };
+        }),
       })),
     },
     notInformed: fit.notInformed.map((u) => ({ name: u.name, reason: u.reason, wouldInform: u.wouldInform })),

@@ -75,10 +75,12 @@ export function formatParameterSetMarkdown(set: ParameterSet): string {
     out.push('', '## Not informed by these recordings', '');
     for (const u of set.notInformed) out.push(`- ${u.name}: ${esc(u.reason)}; ${esc(u.wouldInform)} would inform it.`);
   }
-  out.push('', '## Fit', '', '| recording | kind | samples | channel | σ | RMS | NRMSE |', '|---|---|---:|---|---:|---:|---:|');
+  out.push('', '## Fit', '', '| recording | kind | samples | channel | σ | RMS | NRMSE | Ljung–Box p (whiteness) |', '|---|---|---:|---|---:|---:|---:|---:|');
   for (const rec of set.fit.recordings) {
     for (const c of rec.channels) {
-      out.push(`| ${esc(rec.name)} | ${rec.kind} | ${rec.samples} | ${c.channel} | ${formatNumber(c.sigma)} | ${formatNumber(c.rms)} | ${formatNumber(c.nrmse)} |`);
+      const w = c.whiteness;
+      const white = w === undefined || w === null || w.pValue === null ? '—' : `${formatNumber(w.pValue, 2)} (${w.lags} lags)`;
+      out.push(`| ${esc(rec.name)} | ${rec.kind} | ${rec.samples} | ${c.channel} | ${formatNumber(c.sigma)} | ${formatNumber(c.rms)} | ${formatNumber(c.nrmse)} | ${white} |`);
     }
   }
   out.push('', `Residual variance (≈ 1 when noise levels and model are right): ${formatNumber(set.fit.residualVariance)}; rows ${set.fit.rows}.`);

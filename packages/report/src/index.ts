@@ -11,7 +11,7 @@ export type {
   BuildParameterSetOptions, ConstantCovariance, ConstantName, ConstantValues, CopperLawConstant, DerivedFigure,
   DiagnosisComparisonLike, DiagnosisLike, DiagnosisParameterLike, DiagnosisResidualLike, HtmlReportInput, InputFile, JsonValue,
   OperatingCurve, ParameterEntry, ParameterSet, ParameterSetSchemaId, PlotOptions, PlotResult, PlotSeries, Provenance,
-  RecordingSummary, ReportFinding, ResistanceAtReference, LoopTuningOptions, TuningGain, TuningSection,
+  RecordingSummary, ReportFinding, ResidualWhiteness, ResistanceAtReference, LoopTuningOptions, TuningGain, TuningSection,
 } from './types.js';
 export { buildParameterSet } from './buildParameterSet.js';
 export { checkProvenance } from './checkProvenance.js';

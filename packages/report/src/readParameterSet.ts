@@ -1,6 +1,6 @@
 import { FIGURES, RENAMED_FIGURE_KEYS } from './figureDefinitions.js';
 import { ParameterSetError } from './ParameterSetError.js';
-import type { DerivedFigure, ParameterEntry, ParameterSet, TuningGain } from './types.js';
+import type { DerivedFigure, ParameterEntry, ParameterSet, RecordingSummary, TuningGain } from './types.js';
 
 const FN = 'readParameterSet';
 type Obj = Record<string, unknown>;
@@ -166,7 +166,13 @@ export function readParameterSet(text: string): ParameterSet {
         channels: (o.channels as unknown[]).map((y, j) => {
           const q = `${p}.channels[${j}]`;
           const c = obj(y, q);
-          return { channel: str(c, 'channel', `${q}.`), sigma: numOrNull(c, 'sigma', `${q}.`), rms: numOrNull(c, 'rms', `${q}.`), nrmse: numOrNull(c, 'nrmse', `${q}.`) };
+          const out: RecordingSummary['channels'][number] = { channel: str(c, 'channel', `${q}.`), sigma: numOrNull(c, 'sigma', `${q}.`), rms: numOrNull(c, 'rms', `${q}.`), nrmse: numOrNull(c, 'nrmse', `${q}.`) };
+          // Sets written before the whiteness was kept have no key; null when not judged.
+          if (c.whiteness !== undefined && c.whiteness !== null) {
+            const w = obj(c.whiteness, `${q}.whiteness`);
+            out.whiteness = { lags: num(w, 'lags', `${q}.whiteness.`), statistic: numOrNull(w, 'statistic', `${q}.whiteness.`), pValue: numOrNull(w, 'pValue', `${q}.whiteness.`) };
+          } else if (c.whiteness === null) out.whiteness = null;
+          return out;
         }),
       };
     }),

@@ -84,8 +84,21 @@ export interface RecordingSummary {
   kind: string;
   /** Number of samples. */
   samples: number;
-  /** Per fitted channel: noise σ, RMS of the residual and NRMSE. */
-  channels: { channel: string; sigma: number | null; rms: number | null; nrmse: number | null }[];
+  /**
+   * Per fitted channel: noise σ, RMS of the residual and NRMSE, and the residuals' whiteness
+   * (Ljung–Box test) when the diagnosis judged it (absent in sets written before it was kept).
+   */
+  channels: { channel: string; sigma: number | null; rms: number | null; nrmse: number | null; whiteness?: ResidualWhiteness | null }[];
+}
+
+/** Ljung–Box test of a channel's residuals (the diagnosis's): are they white, as the noise model says? */
+export interface ResidualWhiteness {
+  /** Lags m summed. */
+  lags: number;
+  /** The statistic Q. */
+  statistic: number | null;
+  /** Upper-tail χ² p-value (small: the residuals are correlated; the model leaves something out). */
+  pValue: number | null;
 }
 
 /** A finding about what the lumped linear model leaves out (same shape as `@motorprint/diagnose`). */

@@ -195,3 +195,32 @@ describe('formatParameterSetCsv / formatParameterSetMarkdown', () => {
     expect(md).toContain('| serial | X-0001 |');
   });
 });
+
+describe('the residuals\' whiteness in the parameter set', () => {
+  it('carries the diagnosis\'s Ljung–Box test per channel, validates, reads back and shows in Markdown; null where none was judged', () => {
+    // A hand-made diagnosis (the structural `DiagnosisLike`): the current channel of the first recording judged.
+    const rec = fit.recordings[0]!;
+    const ch = rec.channels[0]!.channel;
+    const withWhite = buildParameterSet(fit, {
+      recordings: inputs.map((i) => i.recording), provenance: INVENTED_PROVENANCE,
+      diagnosis: { residuals: [{ recording: rec.name, channel: ch, stats: { autocorrelation: [1], whitenessBand: 0.01, ljungBox: { statistic: 61.5, lags: 50, pValue: 0.127 } } }] },
+    });
+    const c0 = withWhite.fit.recordings[0]!.channels[0]!;
+    expect(c0.whiteness).toEqual({ lags: 50, statistic: 61.5, pValue: 0.127 });
+    expect(withWhite.fit.recordings[0]!.channels[1]?.whiteness ?? null).toBeNull();
+    const text = formatParameterSetJson(withWhite);
+    expect(validate(JSON.parse(text)), JSON.stringify(validate.errors)).toBe(true);
+    expect(readParameterSet(text).fit.recordings[0]!.channels[0]!.whiteness).toEqual(c0.whiteness);
+    expect(formatParameterSetMarkdown(withWhite)).toContain(`| ${ch} |`);
+    expect(formatParameterSetMarkdown(withWhite)).toMatch(/\| 0\.13 \(50 lags\) \|/);
+    // A set written before the key existed still reads.
+    const old = JSON.parse(text) as { fit: { recordings: { channels: Record<string, unknown>[] }[] } };
+    for (const r of old.fit.recordings) for (const c of r.channels) delete c.whiteness;
+    expect(readParameterSet(JSON.stringify(old)).fit.recordings[0]!.channels[0]!.whiteness).toBeUndefined();
+    // A broken entry is named by its path.
+    const bad = JSON.parse(text) as { fit: { recordings: { channels: { whiteness: Record<string, unknown> }[] }[] } };
+    bad.fit.recordings[0]!.channels[0]!.whiteness.lags = 'many';
+    expect(validate(bad)).toBe(false);
+    expect(() => readParameterSet(JSON.stringify(bad))).toThrow(/fit\.recordings\[0\]\.channels\[0\]\.whiteness\.lags/);
+  });
+});
