@@ -73,8 +73,11 @@ export function scanCell(text: string, start: number, lineEnd: number, delimiter
   } else if (c === PLUS) {
     i++;
   }
-  let mantissa = 0;
+  // The significant digits: the first 9 in `high`, the next 8 in `low` (`lowDigits` of them).
+  let high = 0;
+  let low = 0;
   let digits = 0;
+  let lowDigits = 0;
   let exponent = 0;
   let sawDigit = false;
   let sawPoint = false;
@@ -83,10 +86,15 @@ export function scanCell(text: string, start: number, lineEnd: number, delimiter
     c = text.charCodeAt(i);
     if (c >= ZERO && c <= NINE) {
       sawDigit = true;
-      if (mantissa === 0 && c === ZERO) {
+      if (digits === 0 && c === ZERO) {
         if (sawPoint) exponent--;
-      } else if (digits < 16) {
-        mantissa = mantissa * 10 + (c - ZERO);
+      } else if (digits < 9) {
+        high = high * 10 + (c - ZERO);
+        digits++;
+        if (sawPoint) exponent--;
+      } else if (digits < 17) {
+        low = low * 10 + (c - ZERO);
+        lowDigits++;
         digits++;
         if (sawPoint) exponent--;
       } else {
@@ -100,9 +108,6 @@ export function scanCell(text: string, start: number, lineEnd: number, delimiter
     c = -1;
   }
   if (!sawDigit) return slowCell(text, start, lineEnd, delimiter, decimal, out, slot);
-  // A 16th digit may take the integer past 2⁵³, where it is no longer exact. Below 2⁵³ every step
-  // of the accumulation was exact; at or past it the rounded sum is at least 2⁵³ too.
-  if (mantissa >= TWO_53) return slowCell(text, start, lineEnd, delimiter, decimal, out, slot);
   if (c === LOWER_E || c === UPPER_E) {
     i++;
     let expNegative = false;
@@ -135,8 +140,16 @@ export function scanCell(text: string, start: number, lineEnd: number, delimiter
     c = i < lineEnd ? text.charCodeAt(i) : -1;
   }
   if (i < lineEnd && c !== delimiter) return slowCell(text, start, lineEnd, delimiter, decimal, out, slot);
+  // high · 10^lowDigits is exact (below 10⁹ · 5⁸ · 2⁸ with a mantissa under 2⁵³), and so is `low`.
+  const top = lowDigits === 0 ? high : high * POW10[lowDigits]!;
+  // Their sum is exact below 2⁵³; at or past it the rounded sum is at least 2⁵³ too.
+  const mantissa = top + low;
   let value: number;
-  if (mantissa === 0) value = 0;
+  if (mantissa >= TWO_53) {
+    // 16 or 17 digits: Clinger's fast path does not apply, so the quotient is checked exactly.
+    value = exponent < 0 && exponent >= -22 ? roundQuotient(top, low, -exponent) : Number.NaN;
+    if (value !== value) return slowCell(text, start, lineEnd, delimiter, decimal, out, slot);
+  } else if (mantissa === 0) value = 0;
   else if (exponent === 0) value = mantissa;
   else if (exponent > 0 && exponent <= 22) value = mantissa * POW10[exponent]!;
   else if (exponent < 0 && exponent >= -22) value = mantissa / POW10[-exponent]!;
@@ -147,6 +160,95 @@ export function scanCell(text: string, start: number, lineEnd: number, delimiter
   }
   out[slot] = negative ? -value : value;
   return i;
+}
+
+/** 2²⁷ + 1, Dekker's splitting constant for doubles. */
+const SPLITTER = 134217729;
+/** Scratch for reading the bits of a double. */
+const bitsF64 = new Float64Array(1);
+const bitsU32 = new Uint32Array(bitsF64.buffer);
+const HIGH_WORD = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1 ? 1 : 0;
+
+/**
+ * The double nearest to (top + low) / 10^j, for integers top, low with top + low ≥ 2⁵³ (so at most
+ * 17 digits, the top ones in `top` with `top` ≥ 2⁵³ − 10⁸ and 0 ≤ low < 10⁸) and 1 ≤ j ≤ 22; NaN
+ * when the quotient lies exactly halfway between two doubles or the search does not settle, for
+ * the caller to fall back to `Number()`.
+ *
+ * ## Method
+ * A first guess x = fl(fl(top + low) / 10^j) is within a few units in the last place (ulp) of the
+ * quotient q. It is the correctly rounded result exactly when q lies strictly between the midpoints
+ * x − ulp⁻/2 and x + ulp/2 of x and its neighbours, i.e. when N = top + low − m · 10^j (m a
+ * midpoint) is negative for the upper one and positive for the lower one; otherwise x steps to the
+ * neighbour and the test repeats. Each N is evaluated exactly: 10^j (j ≤ 22) is a double, so x · 10^j
+ * = p + e exactly with p = fl(x · 10^j) and e from Dekker's product; (ulp/2) · 10^j = h is exact (a
+ * power of two times a double); `top − p` is exact by Sterbenz' lemma (p and top are within a factor
+ * of 2 of each other, both near the mantissa ≥ 2⁵³) and an integer (doubles ≥ 2⁵² are integers), so
+ * s = (top − p) + low is an exact integer below 2⁵³; the sign of N = s − e ∓ h, a sum of three
+ * doubles, is then read from the sorted non-overlapping expansion that Shewchuk's error-free
+ * Two-Sum steps make of it (the sign of such an expansion is that of its largest component).
+ *
+ * ## References
+ * T. J. Dekker, "A floating-point technique for extending the available precision", Numer. Math. 18
+ * (1971) 224–242, doi:10.1007/BF01397083;
+ * J. R. Shewchuk, "Adaptive precision floating-point arithmetic and fast robust geometric
+ * predicates", Discrete Comput. Geom. 18 (1997) 305–363, doi:10.1007/PL00009321
+ */
+export function roundQuotient(top: number, low: number, j: number): number {
+  const scale = POW10[j]!;
+  const scaleC = SPLITTER * scale;
+  const scaleHigh = scaleC - (scaleC - scale);
+  const scaleLow = scale - scaleHigh;
+  let x = (top + low) / scale;
+  for (let round = 0; round < 4; round++) {
+    // Exact product x · scale = p + e (Dekker).
+    const p = x * scale;
+    const xc = SPLITTER * x;
+    const xHigh = xc - (xc - x);
+    const xLow = x - xHigh;
+    const e = xHigh * scaleHigh - p + xHigh * scaleLow + xLow * scaleHigh + xLow * scaleLow;
+    const s = top - p + low;
+    // ulp(x), and the gap below x (half of it when x is a power of two).
+    bitsF64[0] = x;
+    const hi = bitsU32[HIGH_WORD]!;
+    const lo = bitsU32[1 - HIGH_WORD]!;
+    const biased = hi >>> 20;
+    bitsU32[HIGH_WORD] = (biased - 52) << 20;
+    bitsU32[1 - HIGH_WORD] = 0;
+    const ulp = bitsF64[0];
+    const up = signOfSum(s, -e, -0.5 * ulp * scale);
+    if (up > 0) {
+      x += ulp;
+      continue;
+    }
+    if (up === 0) return Number.NaN;
+    const below = lo === 0 && (hi & 0xfffff) === 0 ? 0.5 * ulp : ulp;
+    const down = signOfSum(s, -e, 0.5 * below * scale);
+    if (down < 0) {
+      x -= below;
+      continue;
+    }
+    if (down === 0) return Number.NaN;
+    return x;
+  }
+  return Number.NaN;
+}
+
+/** The exact sign (−1, 0 or 1) of a + b + c, from Two-Sum steps (no overflow assumed). */
+function signOfSum(a: number, b: number, c: number): number {
+  // a + b = x + y exactly, |y| ≤ ulp(x)/2.
+  const x = a + b;
+  const bv = x - a;
+  const y = a - (x - bv) + (b - bv);
+  // Grow the expansion (y, x) by c: components r1, r2, q2 in increasing magnitude.
+  const q1 = c + y;
+  const yv = q1 - c;
+  const r1 = c - (q1 - yv) + (y - yv);
+  const q2 = q1 + x;
+  const xv = q2 - q1;
+  const r2 = q1 - (q2 - xv) + (x - xv);
+  const top = q2 !== 0 ? q2 : r2 !== 0 ? r2 : r1;
+  return top > 0 ? 1 : top < 0 ? -1 : 0;
 }
 
 function slowCell(text: string, start: number, lineEnd: number, delimiter: number, decimal: number, out: Float64Array, slot: number): number {
