@@ -140,26 +140,148 @@ export function scanCell(text: string, start: number, lineEnd: number, delimiter
     c = i < lineEnd ? text.charCodeAt(i) : -1;
   }
   if (i < lineEnd && c !== delimiter) return slowCell(text, start, lineEnd, delimiter, decimal, out, slot);
+  const value = composeValue(high, low, lowDigits, exponent);
+  if (value !== value) return slowCell(text, start, lineEnd, delimiter, decimal, out, slot);
+  out[slot] = negative ? -value : value;
+  return i;
+}
+
+/**
+ * The value of the digits `high` (the first up to 9 significant digits) and `low` (the next
+ * `lowDigits` ≤ 8) times 10^exponent, or NaN when it cannot be had exactly without `Number()`.
+ */
+function composeValue(high: number, low: number, lowDigits: number, exponent: number): number {
   // high · 10^lowDigits is exact (below 10⁹ · 5⁸ · 2⁸ with a mantissa under 2⁵³), and so is `low`.
   const top = lowDigits === 0 ? high : high * POW10[lowDigits]!;
   // Their sum is exact below 2⁵³; at or past it the rounded sum is at least 2⁵³ too.
   const mantissa = top + low;
-  let value: number;
   if (mantissa >= TWO_53) {
     // 16 or 17 digits: Clinger's fast path does not apply, so the quotient is checked exactly.
-    value = exponent < 0 && exponent >= -22 ? roundQuotient(top, low, -exponent) : Number.NaN;
-    if (value !== value) return slowCell(text, start, lineEnd, delimiter, decimal, out, slot);
-  } else if (mantissa === 0) value = 0;
-  else if (exponent === 0) value = mantissa;
-  else if (exponent > 0 && exponent <= 22) value = mantissa * POW10[exponent]!;
-  else if (exponent < 0 && exponent >= -22) value = mantissa / POW10[-exponent]!;
-  else {
-    // The reference parse sees the sign itself.
-    out[slot] = parseCellReference(text.slice(start, i), decimal);
+    return exponent < 0 && exponent >= -22 ? roundQuotient(top, low, -exponent) : Number.NaN;
+  }
+  if (mantissa === 0) return 0;
+  if (exponent === 0) return mantissa;
+  if (exponent > 0 && exponent <= 22) return mantissa * POW10[exponent]!;
+  if (exponent < 0 && exponent >= -22) return mantissa / POW10[-exponent]!;
+  return Number.NaN;
+}
+
+/**
+ * {@link scanCell} for a line held as bytes (ASCII; every byte is one character, as `latin1`
+ * decodes it): the same cells, ends and bit-identical values, without making a string per cell.
+ * Cells the fast path cannot settle are decoded and go to {@link parseCellReference}.
+ */
+export function scanCellBytes(bytes: Buffer, start: number, lineEnd: number, delimiter: number, decimal: number, out: Float64Array, slot: number): number {
+  let i = start;
+  let c = -1;
+  while (i < lineEnd && ((c = bytes[i]!) === SPACE || (c === TAB && delimiter !== TAB))) i++;
+  if (i === lineEnd || c === delimiter) {
+    out[slot] = Number.NaN;
     return i;
   }
+  let negative = false;
+  if (c === MINUS) {
+    negative = true;
+    i++;
+  } else if (c === PLUS) {
+    i++;
+  }
+  let high = 0;
+  let low = 0;
+  let digits = 0;
+  let lowDigits = 0;
+  let exponent = 0;
+  let sawDigit = false;
+  c = -1;
+  // Leading zeros of the integer part, then its digits.
+  while (i < lineEnd && (c = bytes[i]!) === ZERO) {
+    sawDigit = true;
+    i++;
+  }
+  for (; i < lineEnd; i++) {
+    c = bytes[i]!;
+    const d = c - ZERO;
+    if (d < 0 || d > 9) break;
+    sawDigit = true;
+    if (digits < 9) high = high * 10 + d;
+    else if (digits < 17) {
+      low = low * 10 + d;
+      lowDigits++;
+    } else return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
+    digits++;
+    c = -1;
+  }
+  if (i < lineEnd && c === decimal) {
+    i++;
+    c = -1;
+    if (digits === 0) {
+      // Leading zeros of the fraction only move the exponent.
+      while (i < lineEnd && (c = bytes[i]!) === ZERO) {
+        sawDigit = true;
+        exponent--;
+        i++;
+      }
+      c = -1;
+    }
+    for (; i < lineEnd; i++) {
+      c = bytes[i]!;
+      const d = c - ZERO;
+      if (d < 0 || d > 9) break;
+      sawDigit = true;
+      if (digits < 9) high = high * 10 + d;
+      else if (digits < 17) {
+        low = low * 10 + d;
+        lowDigits++;
+      } else return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
+      digits++;
+      exponent--;
+      c = -1;
+    }
+  }
+  if (!sawDigit) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
+  if (c === LOWER_E || c === UPPER_E) {
+    i++;
+    let expNegative = false;
+    if (i < lineEnd) {
+      c = bytes[i]!;
+      if (c === MINUS) {
+        expNegative = true;
+        i++;
+      } else if (c === PLUS) {
+        i++;
+      }
+    }
+    let e = 0;
+    let expDigits = 0;
+    c = -1;
+    for (; i < lineEnd; i++) {
+      c = bytes[i]!;
+      if (c < ZERO || c > NINE) break;
+      if (expDigits >= 4) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
+      e = e * 10 + (c - ZERO);
+      expDigits++;
+      c = -1;
+    }
+    if (expDigits === 0) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
+    exponent += expNegative ? -e : e;
+  }
+  // Trailing blanks, then the delimiter or the line end.
+  while (c === SPACE || c === CR || (c === TAB && delimiter !== TAB)) {
+    i++;
+    c = i < lineEnd ? bytes[i]! : -1;
+  }
+  if (i < lineEnd && c !== delimiter) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
+  const value = composeValue(high, low, lowDigits, exponent);
+  if (value !== value) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
   out[slot] = negative ? -value : value;
   return i;
+}
+
+function slowCellBytes(bytes: Buffer, start: number, lineEnd: number, delimiter: number, decimal: number, out: Float64Array, slot: number): number {
+  let d = delimiter < 0 ? lineEnd : bytes.indexOf(delimiter, start);
+  if (d < 0 || d > lineEnd) d = lineEnd;
+  out[slot] = parseCellReference(bytes.toString('latin1', start, d), decimal);
+  return d;
 }
 
 /** 2²⁷ + 1, Dekker's splitting constant for doubles. */
