@@ -173,8 +173,8 @@ function composeValue(high: number, low: number, lowDigits: number, exponent: nu
  */
 export function scanCellBytes(bytes: Buffer, start: number, lineEnd: number, delimiter: number, decimal: number, out: Float64Array, slot: number): number {
   let i = start;
-  let c = -1;
-  while (i < lineEnd && ((c = bytes[i]!) === SPACE || (c === TAB && delimiter !== TAB))) i++;
+  let c = i < lineEnd ? bytes[i]! : -1;
+  while (c === SPACE || (c === TAB && delimiter !== TAB)) c = ++i < lineEnd ? bytes[i]! : -1;
   if (i === lineEnd || c === delimiter) {
     out[slot] = Number.NaN;
     return i;
@@ -186,57 +186,50 @@ export function scanCellBytes(bytes: Buffer, start: number, lineEnd: number, del
   } else if (c === PLUS) {
     i++;
   }
+  // Significant digits: the first 9 go to `high`, the next 8 to `low`; a 18th goes to the slow path.
+  const firstDigit = i;
   let high = 0;
   let low = 0;
   let digits = 0;
-  let lowDigits = 0;
-  let exponent = 0;
-  let sawDigit = false;
-  c = -1;
-  // Leading zeros of the integer part, then its digits.
-  while (i < lineEnd && (c = bytes[i]!) === ZERO) {
-    sawDigit = true;
-    i++;
+  while (i < lineEnd && bytes[i] === ZERO) i++;
+  for (; i < lineEnd && digits < 9; i++) {
+    const d = bytes[i]! - ZERO;
+    if (d < 0 || d > 9) break;
+    high = high * 10 + d;
+    digits++;
   }
   for (; i < lineEnd; i++) {
-    c = bytes[i]!;
-    const d = c - ZERO;
+    const d = bytes[i]! - ZERO;
     if (d < 0 || d > 9) break;
-    sawDigit = true;
-    if (digits < 9) high = high * 10 + d;
-    else if (digits < 17) {
-      low = low * 10 + d;
-      lowDigits++;
-    } else return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
+    if (digits === 17) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
+    low = low * 10 + d;
     digits++;
-    c = -1;
   }
-  if (i < lineEnd && c === decimal) {
+  let sawDigit = i > firstDigit;
+  let exponent = 0;
+  c = i < lineEnd ? bytes[i]! : -1;
+  if (c === decimal) {
     i++;
-    c = -1;
-    if (digits === 0) {
-      // Leading zeros of the fraction only move the exponent.
-      while (i < lineEnd && (c = bytes[i]!) === ZERO) {
-        sawDigit = true;
-        exponent--;
-        i++;
-      }
-      c = -1;
+    const fractionStart = i;
+    // Zeros before the first significant digit only move the exponent.
+    if (digits === 0) while (i < lineEnd && bytes[i] === ZERO) i++;
+    for (; i < lineEnd && digits < 9; i++) {
+      const d = bytes[i]! - ZERO;
+      if (d < 0 || d > 9) break;
+      high = high * 10 + d;
+      digits++;
     }
     for (; i < lineEnd; i++) {
-      c = bytes[i]!;
-      const d = c - ZERO;
+      const d = bytes[i]! - ZERO;
       if (d < 0 || d > 9) break;
-      sawDigit = true;
-      if (digits < 9) high = high * 10 + d;
-      else if (digits < 17) {
-        low = low * 10 + d;
-        lowDigits++;
-      } else return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
+      if (digits === 17) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
+      low = low * 10 + d;
       digits++;
-      exponent--;
-      c = -1;
     }
+    // Every digit after the point divides by 10.
+    exponent = fractionStart - i;
+    if (i > fractionStart) sawDigit = true;
+    c = i < lineEnd ? bytes[i]! : -1;
   }
   if (!sawDigit) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
   if (c === LOWER_E || c === UPPER_E) {
@@ -251,27 +244,22 @@ export function scanCellBytes(bytes: Buffer, start: number, lineEnd: number, del
         i++;
       }
     }
+    const expStart = i;
     let e = 0;
-    let expDigits = 0;
-    c = -1;
     for (; i < lineEnd; i++) {
-      c = bytes[i]!;
-      if (c < ZERO || c > NINE) break;
-      if (expDigits >= 4) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
-      e = e * 10 + (c - ZERO);
-      expDigits++;
-      c = -1;
+      const d = bytes[i]! - ZERO;
+      if (d < 0 || d > 9) break;
+      if (i - expStart >= 4) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
+      e = e * 10 + d;
     }
-    if (expDigits === 0) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
+    if (i === expStart) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
     exponent += expNegative ? -e : e;
-  }
-  // Trailing blanks, then the delimiter or the line end.
-  while (c === SPACE || c === CR || (c === TAB && delimiter !== TAB)) {
-    i++;
     c = i < lineEnd ? bytes[i]! : -1;
   }
+  // Trailing blanks, then the delimiter or the line end.
+  while (c === SPACE || c === CR || (c === TAB && delimiter !== TAB)) c = ++i < lineEnd ? bytes[i]! : -1;
   if (i < lineEnd && c !== delimiter) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
-  const value = composeValue(high, low, lowDigits, exponent);
+  const value = composeValue(high, low, digits > 9 ? digits - 9 : 0, exponent);
   if (value !== value) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
   out[slot] = negative ? -value : value;
   return i;
@@ -338,14 +326,20 @@ export function roundQuotient(top: number, low: number, j: number): number {
     bitsU32[HIGH_WORD] = (biased - 52) << 20;
     bitsU32[1 - HIGH_WORD] = 0;
     const ulp = bitsF64[0];
-    const up = signOfSum(s, -e, -0.5 * ulp * scale);
+    const below = lo === 0 && (hi & 0xfffff) === 0 ? 0.5 * ulp : ulp;
+    const halfUp = 0.5 * ulp * scale;
+    const halfDown = 0.5 * below * scale;
+    // Most often s − e lies well inside (−halfDown, halfUp): fl(s − e) is within a relative 2⁻⁵³
+    // of it, far less than the 10⁻³ margin, so both midpoint tests are settled at once.
+    const t = s - e;
+    if (t < 0.999 * halfUp && t > -0.999 * halfDown) return x;
+    const up = signOfSum(s, -e, -halfUp);
     if (up > 0) {
       x += ulp;
       continue;
     }
     if (up === 0) return Number.NaN;
-    const below = lo === 0 && (hi & 0xfffff) === 0 ? 0.5 * ulp : ulp;
-    const down = signOfSum(s, -e, 0.5 * below * scale);
+    const down = signOfSum(s, -e, halfDown);
     if (down < 0) {
       x -= below;
       continue;
