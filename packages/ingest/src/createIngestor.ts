@@ -301,6 +301,10 @@ class BodyReader {
   private rowText = '';
   /** The chunk being scanned by {@link readFastBytes}, for the text of a bad cell. */
   private rowBytes: Buffer | null = null;
+  /** Bytes given to {@link feedBytes} so far, and the file offset of the line being scanned there. */
+  private fed = 0;
+  private scanAt = 0;
+  private readonly sizeHint: number | undefined;
   private rowCells: string[] | null = null;
 
   private pending = '';
@@ -366,7 +370,11 @@ class BodyReader {
     this.spreadFactor = Float64Array.from(spreadCols, (c) => c.factor);
 
     const hint = options.sizeHint;
-    this.capacity = hint !== undefined && hint > 0 ? Math.ceil((hint / Math.max(head.meanLineLength, 2)) * 1.02) + 16 : 4096;
+    this.sizeHint = hint;
+    this.fed = head.bodyStart;
+    // 10 % to spare: the head's lines can be longer than the rest (time stamps such as
+    // 0.00030000000000000003 near the start), and a growth copies every column once more.
+    this.capacity = hint !== undefined && hint > 0 ? Math.ceil((hint / Math.max(head.meanLineLength, 2)) * 1.1) + 16 : 4096;
     this.roleBuffers = roleCols.map(() => new Float64Array(this.capacity));
     this.extraBuffers = extraCols.map(() => new Float64Array(this.capacity));
     this.spreadBuffers = spreadCols.map(() => new Float64Array(this.capacity));
@@ -415,6 +423,7 @@ class BodyReader {
    * characters the lines are scanned in the bytes themselves.
    */
   feedBytes(bytes: Buffer): void {
+    this.fed += bytes.length;
     if (this.opts.engine === 'papaparse' || this.pending.includes('"') || bytes.indexOf(34) >= 0) {
       this.feed(bytes.toString('latin1'), 0, false);
       return;
@@ -458,29 +467,27 @@ class BodyReader {
     const maxLineLength = this.opts.maxLineLength;
     this.rowCells = null;
     this.rowBytes = bytes;
+    const base = this.fed - bytes.length;
     let pos = from;
     while (pos < end) {
-      // Every line up to `end` ends with a newline.
-      const lineEnd = bytes.indexOf(nlCode, pos);
-      const next = lineEnd + 1;
+      // Every line up to `end` ends with a newline; the cell scanner finds it.
       const line = this.line++;
-      if (lineEnd - pos > maxLineLength) {
-        this.line = line;
-        this.rowBytes = null;
-        this.tooLong();
-      }
+      this.scanAt = base + pos;
       const first = bytes[pos]!;
       if (first === 35 || (first === 47 && bytes[pos + 1] === 47)) {
+        const lineEnd = bytes.indexOf(nlCode, pos);
+        if (lineEnd - pos > maxLineLength) this.lineTooLong(line);
         this.comment(line);
-        pos = next;
+        pos = lineEnd + 1;
         continue;
       }
       let c = 0;
       let cellStart = pos;
       let surplus = false;
+      let lineEnd: number;
       for (;;) {
         const slot = c < nCols ? c : nCols;
-        const cellEnd = scanCellBytes(bytes, cellStart, lineEnd, delimCode, decimal, vals, slot);
+        const cellEnd = scanCellBytes(bytes, cellStart, end, delimCode, decimal, vals, slot, nlCode);
         if (c < nCols) {
           starts[c] = cellStart;
           ends[c] = cellEnd;
@@ -488,9 +495,15 @@ class BodyReader {
           surplus = true;
         }
         c++;
-        if (cellEnd >= lineEnd) break;
+        if (bytes[cellEnd] !== delimCode) {
+          lineEnd = cellEnd;
+          break;
+        }
         cellStart = cellEnd + 1;
       }
+      // Checked once the line is scanned: scanning only filled the scratch arrays.
+      if (lineEnd - pos > maxLineLength) this.lineTooLong(line);
+      const next = lineEnd + 1;
       if (c === 1 && vals[0] !== vals[0] && bytes.toString('latin1', pos, lineEnd).trim() === '') {
         this.blank(line);
       } else {
@@ -501,6 +514,13 @@ class BodyReader {
     }
     this.rowBytes = null;
     this.pending = bytes.toString('latin1', end);
+  }
+
+  /** {@link tooLong} for line `line` of a byte chunk being scanned. */
+  private lineTooLong(line: number): never {
+    this.line = line;
+    this.rowBytes = null;
+    this.tooLong();
   }
 
   /** Scans the complete lines of `text[from…]` (all of it when `final`); keeps the rest in `pending`. */
@@ -736,7 +756,13 @@ class BodyReader {
   }
 
   private grow(): void {
-    const capacity = this.capacity * 2;
+    let capacity = this.capacity * 2;
+    const hint = this.sizeHint;
+    if (hint !== undefined && this.scanAt > 0 && this.scanAt < hint) {
+      // Rows per byte so far, over the whole file, with 3 % to spare (a growth of at least 1/8).
+      const estimate = Math.ceil(this.kept * (hint / this.scanAt) * 1.03) + 16;
+      capacity = Math.min(capacity, Math.max(estimate, Math.ceil(this.capacity * 1.125)));
+    }
     const grow = (b: Float64Array): Float64Array => {
       const out = new Float64Array(capacity);
       out.set(b);

@@ -170,12 +170,16 @@ function composeValue(high: number, low: number, lowDigits: number, exponent: nu
  * {@link scanCell} for a line held as bytes (ASCII; every byte is one character, as `latin1`
  * decodes it): the same cells, ends and bit-identical values, without making a string per cell.
  * Cells the fast path cannot settle are decoded and go to {@link parseCellReference}.
+ *
+ * When `newline` (a char code) is given, `lineEnd` may lie past the line: the line then ends at the
+ * first `newline` byte from `start` on, as if that were `lineEnd`, so the caller need not look for
+ * it first. (A `\r` that is not the newline is a trailing blank, as in {@link scanCell}.)
  */
-export function scanCellBytes(bytes: Buffer, start: number, lineEnd: number, delimiter: number, decimal: number, out: Float64Array, slot: number): number {
+export function scanCellBytes(bytes: Buffer, start: number, lineEnd: number, delimiter: number, decimal: number, out: Float64Array, slot: number, newline = -1): number {
   let i = start;
   let c = i < lineEnd ? bytes[i]! : -1;
   while (c === SPACE || (c === TAB && delimiter !== TAB)) c = ++i < lineEnd ? bytes[i]! : -1;
-  if (i === lineEnd || c === delimiter) {
+  if (i === lineEnd || c === delimiter || c === newline) {
     out[slot] = Number.NaN;
     return i;
   }
@@ -201,7 +205,7 @@ export function scanCellBytes(bytes: Buffer, start: number, lineEnd: number, del
   for (; i < lineEnd; i++) {
     const d = bytes[i]! - ZERO;
     if (d < 0 || d > 9) break;
-    if (digits === 17) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
+    if (digits === 17) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot, newline);
     low = low * 10 + d;
     digits++;
   }
@@ -222,7 +226,7 @@ export function scanCellBytes(bytes: Buffer, start: number, lineEnd: number, del
     for (; i < lineEnd; i++) {
       const d = bytes[i]! - ZERO;
       if (d < 0 || d > 9) break;
-      if (digits === 17) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
+      if (digits === 17) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot, newline);
       low = low * 10 + d;
       digits++;
     }
@@ -231,7 +235,7 @@ export function scanCellBytes(bytes: Buffer, start: number, lineEnd: number, del
     if (i > fractionStart) sawDigit = true;
     c = i < lineEnd ? bytes[i]! : -1;
   }
-  if (!sawDigit) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
+  if (!sawDigit) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot, newline);
   if (c === LOWER_E || c === UPPER_E) {
     i++;
     let expNegative = false;
@@ -249,23 +253,27 @@ export function scanCellBytes(bytes: Buffer, start: number, lineEnd: number, del
     for (; i < lineEnd; i++) {
       const d = bytes[i]! - ZERO;
       if (d < 0 || d > 9) break;
-      if (i - expStart >= 4) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
+      if (i - expStart >= 4) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot, newline);
       e = e * 10 + d;
     }
-    if (i === expStart) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
+    if (i === expStart) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot, newline);
     exponent += expNegative ? -e : e;
     c = i < lineEnd ? bytes[i]! : -1;
   }
   // Trailing blanks, then the delimiter or the line end.
-  while (c === SPACE || c === CR || (c === TAB && delimiter !== TAB)) c = ++i < lineEnd ? bytes[i]! : -1;
-  if (i < lineEnd && c !== delimiter) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
+  while (c === SPACE || (c === CR && newline !== CR) || (c === TAB && delimiter !== TAB)) c = ++i < lineEnd ? bytes[i]! : -1;
+  if (i < lineEnd && c !== delimiter && c !== newline) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot, newline);
   const value = composeValue(high, low, digits > 9 ? digits - 9 : 0, exponent);
-  if (value !== value) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot);
+  if (value !== value) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot, newline);
   out[slot] = negative ? -value : value;
   return i;
 }
 
-function slowCellBytes(bytes: Buffer, start: number, lineEnd: number, delimiter: number, decimal: number, out: Float64Array, slot: number): number {
+function slowCellBytes(bytes: Buffer, start: number, lineEnd: number, delimiter: number, decimal: number, out: Float64Array, slot: number, newline: number): number {
+  if (newline >= 0) {
+    const nl = bytes.indexOf(newline, start);
+    if (nl >= 0 && nl < lineEnd) lineEnd = nl;
+  }
   let d = delimiter < 0 ? lineEnd : bytes.indexOf(delimiter, start);
   if (d < 0 || d > lineEnd) d = lineEnd;
   out[slot] = parseCellReference(bytes.toString('latin1', start, d), decimal);
