@@ -201,7 +201,8 @@ export function createIngestor(options: IngestOptions = {}): Ingestor {
         hash.update(chunk);
         bytes += chunk.byteLength;
         if (!decoder) {
-          headChunks.push(chunk.slice());
+          // A copy (Buffer#slice would share the memory): the caller may reuse its buffer.
+          headChunks.push(Uint8Array.prototype.slice.call(chunk));
           headBytes += chunk.byteLength;
           if (headBytes >= HEAD_BYTES) openDecoder();
           return;
