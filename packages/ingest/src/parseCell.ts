@@ -196,31 +196,11 @@ export function scanCellBytes(bytes: Buffer, start: number, lineEnd: number, del
   let low = 0;
   let digits = 0;
   while (i < lineEnd && bytes[i] === ZERO) i++;
-  if (i + 4 <= lineEnd) {
-    const view = viewOf(bytes);
-    while (digits <= 5 && i + 4 <= lineEnd) {
-      const q = fourDigits(view.getUint32(i, true));
-      if (q < 0) break;
-      high = high * 10000 + q;
-      digits += 4;
-      i += 4;
-    }
-  }
   for (; i < lineEnd && digits < 9; i++) {
     const d = bytes[i]! - ZERO;
     if (d < 0 || d > 9) break;
     high = high * 10 + d;
     digits++;
-  }
-  if (digits >= 9 && i + 4 <= lineEnd) {
-    const view = viewOf(bytes);
-    while (digits <= 13 && i + 4 <= lineEnd) {
-      const q = fourDigits(view.getUint32(i, true));
-      if (q < 0) break;
-      low = low * 10000 + q;
-      digits += 4;
-      i += 4;
-    }
   }
   for (; i < lineEnd; i++) {
     const d = bytes[i]! - ZERO;
@@ -237,31 +217,11 @@ export function scanCellBytes(bytes: Buffer, start: number, lineEnd: number, del
     const fractionStart = i;
     // Zeros before the first significant digit only move the exponent.
     if (digits === 0) while (i < lineEnd && bytes[i] === ZERO) i++;
-    if (i + 4 <= lineEnd) {
-      const view = viewOf(bytes);
-      while (digits <= 5 && i + 4 <= lineEnd) {
-        const q = fourDigits(view.getUint32(i, true));
-        if (q < 0) break;
-        high = high * 10000 + q;
-        digits += 4;
-        i += 4;
-      }
-    }
     for (; i < lineEnd && digits < 9; i++) {
       const d = bytes[i]! - ZERO;
       if (d < 0 || d > 9) break;
       high = high * 10 + d;
       digits++;
-    }
-    if (digits >= 9 && i + 4 <= lineEnd) {
-      const view = viewOf(bytes);
-      while (digits <= 13 && i + 4 <= lineEnd) {
-        const q = fourDigits(view.getUint32(i, true));
-        if (q < 0) break;
-        low = low * 10000 + q;
-        digits += 4;
-        i += 4;
-      }
     }
     for (; i < lineEnd; i++) {
       const d = bytes[i]! - ZERO;
@@ -307,31 +267,6 @@ export function scanCellBytes(bytes: Buffer, start: number, lineEnd: number, del
   if (value !== value) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot, newline);
   out[slot] = negative ? -value : value;
   return i;
-}
-
-/** The last buffer {@link scanCellBytes} read and a DataView on it. */
-let viewBytes: Buffer | null = null;
-let view: DataView<ArrayBufferLike> = new DataView(new ArrayBuffer(4));
-
-function viewOf(bytes: Buffer): DataView<ArrayBufferLike> {
-  if (bytes !== viewBytes) {
-    view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
-    viewBytes = bytes;
-  }
-  return view;
-}
-
-/**
- * The value 0…9999 of four ASCII digits read as a little-endian 32-bit word (first digit in the low
- * byte), or −1 when any of the four bytes is not a digit: a byte is one of 0x30…0x39 exactly when
- * its high nibble is 3 both as it is and plus 6 (which carries out of the nibble from 0x3A on).
- */
-function fourDigits(word: number): number {
-  if ((word & 0xf0f0f0f0) !== 0x30303030 || ((word + 0x06060606) & 0xf0f0f0f0) !== 0x30303030) return -1;
-  const d = word - 0x30303030;
-  // Pairs: byte 0 = 10·d0 + d1, byte 2 = 10·d2 + d3.
-  const pairs = (d * 10 + (d >>> 8)) & 0x00ff00ff;
-  return (pairs & 0xff) * 100 + (pairs >>> 16);
 }
 
 function slowCellBytes(bytes: Buffer, start: number, lineEnd: number, delimiter: number, decimal: number, out: Float64Array, slot: number, newline: number): number {
