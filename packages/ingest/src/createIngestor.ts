@@ -442,16 +442,6 @@ class BodyReader {
       this.readFast(joint, 0, false);
       from = nl + 1;
     }
-    this.readFastBytes(bytes, from);
-  }
-
-  // ---- fast path ---------------------------------------------------------------------------
-
-  /**
-   * {@link readFast} for ASCII bytes: scans the complete lines of `bytes[from…]` and keeps the rest
-   * (as text) in `pending`.
-   */
-  private readFastBytes(bytes: Buffer, from: number): void {
     const nlCode = this.newline.charCodeAt(0);
     const end = bytes.lastIndexOf(nlCode) + 1;
     if (end <= from) {
@@ -459,6 +449,23 @@ class BodyReader {
       if (this.pending.length > this.opts.maxLineLength) this.tooLong();
       return;
     }
+    this.rowCells = null;
+    this.rowBytes = bytes;
+    this.readFastBytes(bytes, from, end, nlCode);
+    // Here rather than at the end of readFastBytes: its loop is compiled while it runs (on-stack
+    // replacement), before any code after the loop has run, and V8 would leave that compiled code
+    // at such code on every later chunk.
+    this.rowBytes = null;
+    this.pending = bytes.toString('latin1', end);
+  }
+
+  // ---- fast path ---------------------------------------------------------------------------
+
+  /**
+   * {@link readFast} for ASCII bytes: scans the complete lines of `bytes[from…end)`, `end` being just
+   * after a newline (`nlCode`).
+   */
+  private readFastBytes(bytes: Buffer, from: number, end: number, nlCode: number): void {
     const delimCode = this.delimiter.charCodeAt(0);
     const nCols = this.nCols;
     const decimal = this.decimal;
@@ -466,8 +473,6 @@ class BodyReader {
     const starts = this.starts;
     const ends = this.ends;
     const maxLineLength = this.opts.maxLineLength;
-    this.rowCells = null;
-    this.rowBytes = bytes;
     const base = this.fed - bytes.length;
     let pos = from;
     while (pos < end) {
@@ -513,8 +518,6 @@ class BodyReader {
       }
       pos = next;
     }
-    this.rowBytes = null;
-    this.pending = bytes.toString('latin1', end);
   }
 
   /** {@link tooLong} for line `line` of a byte chunk being scanned. */
