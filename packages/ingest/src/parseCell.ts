@@ -140,30 +140,33 @@ export function scanCell(text: string, start: number, lineEnd: number, delimiter
     c = i < lineEnd ? text.charCodeAt(i) : -1;
   }
   if (i < lineEnd && c !== delimiter) return slowCell(text, start, lineEnd, delimiter, decimal, out, slot);
-  const value = composeValue(high, low, lowDigits, exponent);
-  if (value !== value) return slowCell(text, start, lineEnd, delimiter, decimal, out, slot);
-  out[slot] = negative ? -value : value;
+  if (!storeValue(high, low, lowDigits, exponent, negative, out, slot)) return slowCell(text, start, lineEnd, delimiter, decimal, out, slot);
   return i;
 }
 
 /**
- * The value of the digits `high` (the first up to 9 significant digits) and `low` (the next
- * `lowDigits` ≤ 8) times 10^exponent, or NaN when it cannot be had exactly without `Number()`.
+ * Stores ± the digits `high` (the first up to 9 significant digits) and `low` (the next
+ * `lowDigits` ≤ 8) times 10^exponent in `out[slot]` and returns true, or returns false (storing
+ * nothing) when the value cannot be had exactly without `Number()`. (Storing rather than returning
+ * the double spares V8 a heap number per cell when the call is not inlined.)
  */
-function composeValue(high: number, low: number, lowDigits: number, exponent: number): number {
+function storeValue(high: number, low: number, lowDigits: number, exponent: number, negative: boolean, out: Float64Array, slot: number): boolean {
   // high · 10^lowDigits is exact (below 10⁹ · 5⁸ · 2⁸ with a mantissa under 2⁵³), and so is `low`.
   const top = lowDigits === 0 ? high : high * POW10[lowDigits]!;
   // Their sum is exact below 2⁵³; at or past it the rounded sum is at least 2⁵³ too.
   const mantissa = top + low;
   if (mantissa >= TWO_53) {
     // 16 or 17 digits: Clinger's fast path does not apply, so the quotient is checked exactly.
-    return exponent < 0 && exponent >= -22 ? roundQuotient(top, low, -exponent) : Number.NaN;
+    return exponent < 0 && exponent >= -22 && storeQuotient(top, low, -exponent, negative, out, slot);
   }
-  if (mantissa === 0) return 0;
-  if (exponent === 0) return mantissa;
-  if (exponent > 0 && exponent <= 22) return mantissa * POW10[exponent]!;
-  if (exponent < 0 && exponent >= -22) return mantissa / POW10[-exponent]!;
-  return Number.NaN;
+  let value: number;
+  if (mantissa === 0) value = 0;
+  else if (exponent === 0) value = mantissa;
+  else if (exponent > 0 && exponent <= 22) value = mantissa * POW10[exponent]!;
+  else if (exponent < 0 && exponent >= -22) value = mantissa / POW10[-exponent]!;
+  else return false;
+  out[slot] = negative ? -value : value;
+  return true;
 }
 
 /**
@@ -263,9 +266,9 @@ export function scanCellBytes(bytes: Buffer, start: number, lineEnd: number, del
   // Trailing blanks, then the delimiter or the line end.
   while (c === SPACE || (c === CR && newline !== CR) || (c === TAB && delimiter !== TAB)) c = ++i < lineEnd ? bytes[i]! : -1;
   if (i < lineEnd && c !== delimiter && c !== newline) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot, newline);
-  const value = composeValue(high, low, digits > 9 ? digits - 9 : 0, exponent);
-  if (value !== value) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot, newline);
-  out[slot] = negative ? -value : value;
+  if (!storeValue(high, low, digits > 9 ? digits - 9 : 0, exponent, negative, out, slot)) {
+    return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot, newline);
+  }
   return i;
 }
 
@@ -313,12 +316,20 @@ const HIGH_WORD = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1 ? 1 : 0;
  * predicates", Discrete Comput. Geom. 18 (1997) 305–363, doi:10.1007/PL00009321
  */
 export function roundQuotient(top: number, low: number, j: number): number {
+  return storeQuotient(top, low, j, false, quotientScratch, 0) ? quotientScratch[0]! : Number.NaN;
+}
+
+const quotientScratch = new Float64Array(1);
+
+/** {@link roundQuotient}, stored (negated when `negative`) in `out[slot]`; false when it is NaN. */
+function storeQuotient(top: number, low: number, j: number, negative: boolean, out: Float64Array, slot: number): boolean {
   const scale = POW10[j]!;
   const scaleC = SPLITTER * scale;
   const scaleHigh = scaleC - (scaleC - scale);
   const scaleLow = scale - scaleHigh;
   let x = (top + low) / scale;
-  for (let round = 0; round < 4; round++) {
+  let round = 0;
+  for (; round < 4; round++) {
     // Exact product x · scale = p + e (Dekker).
     const p = x * scale;
     const xc = SPLITTER * x;
@@ -340,22 +351,25 @@ export function roundQuotient(top: number, low: number, j: number): number {
     // Most often s − e lies well inside (−halfDown, halfUp): fl(s − e) is within a relative 2⁻⁵³
     // of it, far less than the 10⁻³ margin, so both midpoint tests are settled at once.
     const t = s - e;
-    if (t < 0.999 * halfUp && t > -0.999 * halfDown) return x;
+    if (t < 0.999 * halfUp && t > -0.999 * halfDown) break;
     const up = signOfSum(s, -e, -halfUp);
     if (up > 0) {
       x += ulp;
       continue;
     }
-    if (up === 0) return Number.NaN;
+    if (up === 0) return false;
     const down = signOfSum(s, -e, halfDown);
     if (down < 0) {
       x -= below;
       continue;
     }
-    if (down === 0) return Number.NaN;
-    return x;
+    if (down === 0) return false;
+    break;
   }
-  return Number.NaN;
+  // Not settled in four rounds (the first guess is within a few ulp, so this is not expected).
+  if (round === 4) return false;
+  out[slot] = negative ? -x : x;
+  return true;
 }
 
 /** The exact sign (−1, 0 or 1) of a + b + c, from Two-Sum steps (no overflow assumed). */
