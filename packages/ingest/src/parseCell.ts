@@ -50,8 +50,11 @@ export function parseCellReference(cell: string, decimal: number): number {
  * Plain decimals whose significant digits form an integer below 2⁵³ (every one of at most 15
  * digits, and 16-digit ones up to 9007199254740991) and a decimal exponent of at most 22 in
  * magnitude are computed as one multiplication or division of two exactly representable doubles,
- * which IEEE 754 rounds correctly (Clinger's fast path), so the result equals `Number()`'s. Anything
- * else (more digits, hex, `Infinity`, odd whitespace, stray characters) goes to
+ * which IEEE 754 rounds correctly (Clinger's fast path), so the result equals `Number()`'s. Those
+ * with 16 or 17 significant digits forming an integer of 2⁵³ or more, divided by 10^1 … 10^22 (as
+ * JavaScript and C print doubles, e.g. 0.019926150997693796), are rounded by
+ * {@link roundQuotient}, which checks its result exactly. Anything else (more digits, larger
+ * exponents, hex, `Infinity`, odd whitespace, stray characters, exact ties) goes to
  * {@link parseCellReference} on the cell's slice. The value is written to a typed array rather than
  * returned so that V8 need not box a double per cell.
  *
