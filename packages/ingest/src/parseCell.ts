@@ -202,18 +202,25 @@ export function scanCellBytes(bytes: Buffer, start: number, lineEnd: number, del
   let low = 0;
   let digits = 0;
   while (i < lineEnd && bytes[i] === ZERO) i++;
-  for (; i < lineEnd && digits < 9; i++) {
+  // Each loop stops at a non-digit or when its part is full, so it need not count.
+  let from = i;
+  let stop = i + 9 < lineEnd ? i + 9 : lineEnd;
+  for (; i < stop; i++) {
     const d = bytes[i]! - ZERO;
     if (d < 0 || d > 9) break;
     high = high * 10 + d;
-    digits++;
   }
-  for (; i < lineEnd; i++) {
-    const d = bytes[i]! - ZERO;
-    if (d < 0 || d > 9) break;
-    if (digits === 17) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot, newline);
-    low = low * 10 + d;
-    digits++;
+  digits = i - from;
+  if (digits === 9) {
+    from = i;
+    stop = i + 8 < lineEnd ? i + 8 : lineEnd;
+    for (; i < stop; i++) {
+      const d = bytes[i]! - ZERO;
+      if (d < 0 || d > 9) break;
+      low = low * 10 + d;
+    }
+    digits += i - from;
+    if (digits === 17 && i < lineEnd && bytes[i]! >= ZERO && bytes[i]! <= NINE) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot, newline);
   }
   let sawDigit = i > firstDigit;
   let exponent = 0;
@@ -223,18 +230,26 @@ export function scanCellBytes(bytes: Buffer, start: number, lineEnd: number, del
     const fractionStart = i;
     // Zeros before the first significant digit only move the exponent.
     if (digits === 0) while (i < lineEnd && bytes[i] === ZERO) i++;
-    for (; i < lineEnd && digits < 9; i++) {
-      const d = bytes[i]! - ZERO;
-      if (d < 0 || d > 9) break;
-      high = high * 10 + d;
-      digits++;
+    if (digits < 9) {
+      from = i;
+      stop = i + 9 - digits < lineEnd ? i + 9 - digits : lineEnd;
+      for (; i < stop; i++) {
+        const d = bytes[i]! - ZERO;
+        if (d < 0 || d > 9) break;
+        high = high * 10 + d;
+      }
+      digits += i - from;
     }
-    for (; i < lineEnd; i++) {
-      const d = bytes[i]! - ZERO;
-      if (d < 0 || d > 9) break;
-      if (digits === 17) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot, newline);
-      low = low * 10 + d;
-      digits++;
+    if (digits >= 9) {
+      from = i;
+      stop = i + 17 - digits < lineEnd ? i + 17 - digits : lineEnd;
+      for (; i < stop; i++) {
+        const d = bytes[i]! - ZERO;
+        if (d < 0 || d > 9) break;
+        low = low * 10 + d;
+      }
+      digits += i - from;
+      if (digits === 17 && i < lineEnd && bytes[i]! >= ZERO && bytes[i]! <= NINE) return slowCellBytes(bytes, start, lineEnd, delimiter, decimal, out, slot, newline);
     }
     // Every digit after the point divides by 10.
     exponent = fractionStart - i;
