@@ -21,6 +21,7 @@ export function checkTimeBase(time: Float64Array): { timeBase: TimeBase; issues:
   let sum = 0;
   let maxDt = 0;
   let maxAt = 0;
+  let minDt = Number.POSITIVE_INFINITY;
   for (let k = 0; k < m; k++) {
     const d = time[k + 1]! - time[k]!;
     dt[k] = d;
@@ -29,6 +30,7 @@ export function checkTimeBase(time: Float64Array): { timeBase: TimeBase; issues:
       maxDt = d;
       maxAt = k;
     }
+    if (d < minDt) minDt = d;
   }
   const mean = sum / m;
   let ss = 0;
@@ -37,8 +39,6 @@ export function checkTimeBase(time: Float64Array): { timeBase: TimeBase; issues:
     ss += e * e;
   }
   const std = m > 1 ? Math.sqrt(ss / (m - 1)) : 0;
-  let minDt = Number.POSITIVE_INFINITY;
-  for (let k = 0; k < m; k++) if (dt[k]! < minDt) minDt = dt[k]!;
   // The median reorders dt; the rest needs no order.
   const median = medianOf(dt);
   const maxDev = Math.max(maxDt - median, median - minDt);

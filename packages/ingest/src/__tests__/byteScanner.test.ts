@@ -359,3 +359,51 @@ describe('readRecording', () => {
     await expect(readRecording(join(dir, 'missing.csv'))).rejects.toMatchObject({ code: 'file-unreadable' });
   });
 });
+
+describe('the head check for text that is not a CSV', () => {
+  /** The check as a loop over the characters (the reference for the native searches). */
+  function reference(text: string): string | null {
+    const n = Math.min(text.length, 65536);
+    let controls = 0;
+    for (let i = 0; i < n; i++) {
+      const c = text.charCodeAt(i);
+      if (c === 0) return `NUL@${text.slice(0, i).split('\n').length}`;
+      if (c < 32 && c !== 9 && c !== 10 && c !== 13 && c !== 12 && c !== 11 && c !== 26) controls++;
+    }
+    return controls > 0 && controls * 100 > n ? `controls ${controls} of ${n}` : null;
+  }
+
+  function actual(text: string): string | null {
+    try {
+      ingestText(text, { fileName: 'x.csv' });
+      return null;
+    } catch (e) {
+      const error = e as { code?: string; line?: number; message: string };
+      if (error.code !== 'not-text') return null;
+      if (error.message.includes('NUL')) return `NUL@${error.line}`;
+      const m = /\((\d+) control characters in the first (\d+) characters\)/.exec(error.message);
+      return m ? `controls ${m[1]} of ${m[2]}` : error.message;
+    }
+  }
+
+  it('finds NUL characters and counts control characters as a character loop does', () => {
+    const body = 'time [s],voltage [V]\n' + Array.from({ length: 4000 }, (_, k) => `${k / 1000},${k % 13}`).join('\n') + '\n';
+    const cases = [
+      body,
+      body.replace('\n2,', '\n2\u0000,'),
+      'time [s],v\n0,1\n\u0000\n',
+      body + '\u0000',
+      body.slice(0, 300) + '\u0001\u0002\u0003'.repeat(10) + body.slice(300),
+      body.slice(0, 300) + '\u0007'.repeat(700) + body.slice(300),
+      body.slice(0, 300) + '\u001b\u0019\u000e\u0008'.repeat(200) + body.slice(300),
+      body.slice(0, 300) + '\u000b\u000c\u001a\t'.repeat(500) + body.slice(300),
+      body.slice(0, 300) + '\u0007'.repeat(20) + 'x'.repeat(70000) + '\u0000',
+    ];
+    for (const text of cases) {
+      const want = reference(text);
+      if (want !== null) expect(actual(text)).toBe(want);
+      else expect(actual(text)).toBeNull();
+    }
+    expect(cases.map(reference).filter((r) => r !== null).length).toBeGreaterThanOrEqual(4);
+  });
+});
