@@ -432,3 +432,22 @@ export function classifyBadCell(cell: string, decimal = DOT): Exclude<DropReason
   const v = parseCellReference(s, decimal);
   return v === Number.POSITIVE_INFINITY || v === Number.NEGATIVE_INFINITY ? 'non-finite' : 'non-numeric';
 }
+
+/**
+ * Runs {@link scanCellBytes} once over cells that take its rarer branches (exponents, signs, blank
+ * and non-numeric cells, 17-digit values, a carriage return), so that V8 has seen them by the time
+ * it compiles the scanner; a branch first taken after that would send the compiled code back to
+ * the interpreter and have it compiled again. The values go to a scratch array.
+ */
+function primeByteScanner(): void {
+  const sample = Buffer.from(' 1.5e-7 ,-2.5E+3,+.5,,abc,0.019926150997693796,-0.0035299454618450887,12345678901234567,1e,2.3531073170362536e-7,7\r\n', 'latin1');
+  const scratch = new Float64Array(2);
+  for (let round = 0; round < 2; round++) {
+    for (let start = 0; start < sample.length; ) {
+      const end = scanCellBytes(sample, start, sample.length, COMMA, DOT, scratch, 0, 10);
+      if (sample[end] !== COMMA) break;
+      start = end + 1;
+    }
+  }
+}
+primeByteScanner();
