@@ -273,6 +273,7 @@ describe('reading bytes gives what reading text gives', () => {
         expect(summary(pushInPieces(text, sizes, 'log.csv'))).toEqual(want);
       }
       const result = ingestText(text, { fileName: 'log.csv' });
+      expect(pushInPieces(bytes, [bytes.length], 'log.csv').recording.meta.source.file).toBe('log.csv');
       const dropped = result.recording.meta.rowsDropped;
       // Line numbers count the comment line and the header: data row k is on line k + 3.
       expect(dropped).toContainEqual({ line: 10, reason: 'non-numeric', column: 'current [A]', detail: 'cell "abc"' });
@@ -291,6 +292,25 @@ describe('reading bytes gives what reading text gives', () => {
       expect(at(9)).toBe(0.019926150997693796);
     });
   }
+
+  it('for errors thrown from inside a byte chunk, with file, line and column', () => {
+    const text = loggerFile(6000, '\n').replace(/\n0\.4\d*,/, (m) => m.replace('0.4', '0.1'));
+    const bytes = Buffer.from(text, 'latin1');
+    const failure = (run: () => unknown): unknown => {
+      try {
+        run();
+      } catch (e) {
+        const error = e as { code: string; file: string; line: number; column: string; message: string };
+        return { code: error.code, file: error.file, line: error.line, column: error.column, message: error.message };
+      }
+      return null;
+    };
+    const want = failure(() => ingestText(text, { fileName: 'log.csv' }));
+    expect(want).toMatchObject({ code: 'time-not-increasing', file: 'log.csv', column: 'time [s]' });
+    for (const sizes of [[bytes.length], [65536, 4096], [100_000, 5]]) {
+      expect(failure(() => pushInPieces(bytes, sizes, 'log.csv'))).toEqual(want);
+    }
+  });
 
   it('for a quoted cell, which sends its chunk to papaparse', () => {
     const text = loggerFile(4000, '\n', 2500);
