@@ -29,7 +29,8 @@ import type {
 export interface Ingestor {
   /**
    * Feeds the next piece of the file: bytes (decoded as UTF-8, or Windows-1252 when the head is not
-   * valid UTF-8) or text. Do not mix the two in one ingestor.
+   * valid UTF-8) or text. Do not mix the two in one ingestor. No reference to the chunk is kept, so
+   * the caller may refill its buffer once push() returns.
    * @throws IngestError as soon as the input is known to be unusable (e.g. time steps back)
    */
   push(chunk: Uint8Array | string): void;
