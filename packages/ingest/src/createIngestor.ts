@@ -93,8 +93,9 @@ function checkOptions(options: IngestOptions): ResolvedOptions {
  * scanner that splits lines and cells exactly as papaparse does for quote-free text and parses
  * numbers bit-identically to `Number()` (pure-ASCII byte chunks are scanned as bytes, without
  * decoding them into a string first); chunks with quotes (or `engine: 'papaparse'`) go through
- * papaparse's own parser. Values stream into `Float64Array`s that grow by doubling (pre-sized from
- * `options.sizeHint`), so memory stays near 8 bytes per kept cell.
+ * papaparse's own parser. Values stream into `Float64Array`s pre-sized from `options.sizeHint` that
+ * grow (at most doubling; to an estimate from the bytes read so far when the size is known), so
+ * memory stays near 8 bytes per kept cell.
  *
  * @param options - see {@link IngestOptions}
  * @returns an {@link Ingestor}
