@@ -312,6 +312,35 @@ describe('reading bytes gives what reading text gives', () => {
     }
   });
 
+  it('for a line longer than maxLineLength inside a byte chunk, and a comment line that is', () => {
+    const lines = loggerFile(6000, '\n').split('\n');
+    for (const [at, long] of [[3500, `0.35,12,0.5,25${' '.repeat(2000)}`], [4200, `# ${'x'.repeat(2000)}`]] as const) {
+      const text = [...lines.slice(0, at), long, ...lines.slice(at + 1)].join('\n');
+      const bytes = Buffer.from(text, 'latin1');
+      const failure = (run: () => unknown): unknown => {
+        try {
+          run();
+        } catch (e) {
+          const error = e as { code: string; line: number; message: string };
+          return { code: error.code, line: error.line, message: error.message };
+        }
+        return null;
+      };
+      const want = failure(() => ingestText(text, { fileName: 'long.csv', maxLineLength: 1000 }));
+      expect(want).toMatchObject({ code: 'line-too-long', line: at + 1 });
+      for (const sizes of [[bytes.length], [65536, 4096]]) {
+        expect(failure(() => {
+          const ing = createIngestor({ fileName: 'long.csv', maxLineLength: 1000 });
+          for (let p = 0, k = 0; p < bytes.length; k++) {
+            ing.push(bytes.subarray(p, p + sizes[k % sizes.length]!));
+            p += sizes[k % sizes.length]!;
+          }
+          return ing.finish();
+        })).toEqual(want);
+      }
+    }
+  });
+
   it('for a quoted cell, which sends its chunk to papaparse', () => {
     const text = loggerFile(4000, '\n', 2500);
     expect(text).toContain(',"0.25",');
