@@ -18,32 +18,20 @@ export function checkTimeBase(time: Float64Array): { timeBase: TimeBase; issues:
   const n = time.length;
   const m = n - 1;
   const dt = new Float64Array(m);
-  let sum = 0;
-  let maxDt = 0;
-  let maxAt = 0;
-  for (let k = 0; k < m; k++) {
-    const d = time[k + 1]! - time[k]!;
-    dt[k] = d;
-    sum += d;
-    if (d > maxDt) {
-      maxDt = d;
-      maxAt = k;
-    }
-  }
+  // Each loop is a function of its own: V8 compiles a long loop while it runs, and code after the
+  // loop in the same function would send that compiled code back to the interpreter.
+  const pass = intervalPass(time, dt);
+  const sum = pass[0]!;
+  const maxDt = pass[1]!;
+  const maxAt = pass[2]!;
+  const minDt = pass[3]!;
   const mean = sum / m;
-  let ss = 0;
-  for (let k = 0; k < m; k++) {
-    const e = dt[k]! - mean;
-    ss += e * e;
-  }
+  const ss = sumOfSquares(dt, mean);
   const std = m > 1 ? Math.sqrt(ss / (m - 1)) : 0;
-  let minDt = Number.POSITIVE_INFINITY;
-  for (let k = 0; k < m; k++) if (dt[k]! < minDt) minDt = dt[k]!;
   // The median reorders dt; the rest needs no order.
   const median = medianOf(dt);
   const maxDev = Math.max(maxDt - median, median - minDt);
-  let gaps = 0;
-  for (let k = 0; k < m; k++) if (dt[k]! > GAP_FACTOR * median) gaps++;
+  const gaps = countAbove(dt, GAP_FACTOR * median);
   const timeBase: TimeBase = {
     start: time[0]!,
     end: time[n - 1]!,
@@ -71,6 +59,43 @@ export function checkTimeBase(time: Float64Array): { timeBase: TimeBase; issues:
     });
   }
   return { timeBase, issues };
+}
+
+/** Fills `dt` with the intervals of `time`; returns [their sum in order, the largest, its index, the smallest]. */
+function intervalPass(time: Float64Array, dt: Float64Array): Float64Array {
+  const m = dt.length;
+  let sum = 0;
+  let maxDt = 0;
+  let maxAt = 0;
+  let minDt = Number.POSITIVE_INFINITY;
+  for (let k = 0; k < m; k++) {
+    const d = time[k + 1]! - time[k]!;
+    dt[k] = d;
+    sum += d;
+    if (d > maxDt) {
+      maxDt = d;
+      maxAt = k;
+    }
+    if (d < minDt) minDt = d;
+  }
+  return Float64Array.of(sum, maxDt, maxAt, minDt);
+}
+
+/** Σ (x[k] − mean)², summed in order. */
+function sumOfSquares(x: Float64Array, mean: number): number {
+  let ss = 0;
+  for (let k = 0; k < x.length; k++) {
+    const e = x[k]! - mean;
+    ss += e * e;
+  }
+  return ss;
+}
+
+/** How many x[k] exceed `limit`. */
+function countAbove(x: Float64Array, limit: number): number {
+  let count = 0;
+  for (let k = 0; k < x.length; k++) if (x[k]! > limit) count++;
+  return count;
 }
 
 function fmt(x: number): string {

@@ -1,3 +1,4 @@
+import { isAscii } from 'node:buffer';
 import { createHash } from 'node:crypto';
 import { StringDecoder } from 'node:string_decoder';
 import { TextDecoder } from 'node:util';
@@ -6,7 +7,7 @@ import { IngestError } from './IngestError.js';
 import { planColumns, ROLE_LIMITS } from './columns.js';
 import { checkTimeBase } from './checkTimeBase.js';
 import { deriveSpeed } from './deriveSpeed.js';
-import { classifyBadCell, COMMA, DOT, scanCell } from './parseCell.js';
+import { classifyBadCell, COMMA, DOT, scanCell, scanCellBytes } from './parseCell.js';
 import { settleDialect } from './settleDialect.js';
 import type { SettledHead } from './settleDialect.js';
 import type {
@@ -28,7 +29,8 @@ import type {
 export interface Ingestor {
   /**
    * Feeds the next piece of the file: bytes (decoded as UTF-8, or Windows-1252 when the head is not
-   * valid UTF-8) or text. Do not mix the two in one ingestor.
+   * valid UTF-8) or text. Do not mix the two in one ingestor. No reference to the chunk is kept, so
+   * the caller may refill its buffer once push() returns.
    * @throws IngestError as soon as the input is known to be unusable (e.g. time steps back)
    */
   push(chunk: Uint8Array | string): void;
@@ -89,9 +91,11 @@ function checkOptions(options: IngestOptions): ResolvedOptions {
  * The head of the file (64 KiB) settles the encoding, the dialect and the header (papaparse splits
  * the header and the sampled rows). Body chunks without quote characters go through a hand-written
  * scanner that splits lines and cells exactly as papaparse does for quote-free text and parses
- * numbers bit-identically to `Number()`; chunks with quotes (or `engine: 'papaparse'`) go through
- * papaparse's own parser. Values stream into `Float64Array`s that grow by doubling (pre-sized from
- * `options.sizeHint`), so memory stays near 8 bytes per kept cell.
+ * numbers bit-identically to `Number()` (pure-ASCII byte chunks are scanned as bytes, without
+ * decoding them into a string first); chunks with quotes (or `engine: 'papaparse'`) go through
+ * papaparse's own parser. Values stream into `Float64Array`s pre-sized from `options.sizeHint` that
+ * grow (at most doubling; to an estimate from the bytes read so far when the size is known), so
+ * memory stays near 8 bytes per kept cell.
  *
  * @param options - see {@link IngestOptions}
  * @returns an {@link Ingestor}
@@ -113,6 +117,12 @@ export function createIngestor(options: IngestOptions = {}): Ingestor {
   let decoder: { decode(chunk?: Uint8Array): string } | undefined;
   let encoding: Dialect['encoding'] = 'string';
   let headText = '';
+  /**
+   * True when the decoder holds no part of a multi-byte character, i.e. the bytes it was last given
+   * ended with an ASCII byte: an ASCII chunk then decodes to exactly its bytes, so the body reader
+   * may scan it as bytes.
+   */
+  let decoderClean = false;
   const earlyIssues: IngestIssue[] = [];
   let body: BodyReader | undefined;
 
@@ -141,11 +151,15 @@ export function createIngestor(options: IngestOptions = {}): Ingestor {
       const td = new TextDecoder(encoding, { ignoreBOM: true });
       decoder = { decode: (chunk?: Uint8Array): string => (chunk ? td.decode(chunk, { stream: true }) : td.decode()) };
     }
-    feedText(decoder.decode(head), false);
+    decoderClean = head.length === 0 || head[head.length - 1]! < 0x80;
+    const ascii = decoderClean && isAscii(head);
+    feedText(decoder.decode(head), false, ascii ? toBuffer(head) : undefined);
   }
 
-  function feedText(text: string, final: boolean): void {
+  /** `asBytes`, when given, holds `text` as ASCII bytes (one byte per character). */
+  function feedText(text: string, final: boolean, asBytes?: Buffer): void {
     if (state === 'head') {
+      const whole = headText === '';
       headText += text;
       if (!final && headText.length < HEAD_CHARS) return;
       const settled = settleDialect(headText, final, options, file, opts.maxLineLength);
@@ -154,7 +168,8 @@ export function createIngestor(options: IngestOptions = {}): Ingestor {
       state = 'body';
       const head = headText;
       headText = '';
-      body.feed(head, settled.bodyStart, final);
+      if (whole && asBytes && !final) body.feedBytes(asBytes.subarray(settled.bodyStart));
+      else body.feed(head, settled.bodyStart, final);
     } else if (body) {
       body.feed(text, 0, final);
     }
@@ -188,11 +203,17 @@ export function createIngestor(options: IngestOptions = {}): Ingestor {
         hash.update(chunk);
         bytes += chunk.byteLength;
         if (!decoder) {
-          headChunks.push(chunk.slice());
+          // A copy (Buffer#slice would share the memory): the caller may reuse its buffer.
+          headChunks.push(Uint8Array.prototype.slice.call(chunk));
           headBytes += chunk.byteLength;
           if (headBytes >= HEAD_BYTES) openDecoder();
           return;
         }
+        if (state === 'body' && body && decoderClean && isAscii(chunk)) {
+          body.feedBytes(toBuffer(chunk));
+          return;
+        }
+        if (chunk.byteLength > 0) decoderClean = chunk[chunk.byteLength - 1]! < 0x80;
         feedText(decoder.decode(chunk), false);
       });
     },
@@ -211,6 +232,11 @@ export function createIngestor(options: IngestOptions = {}): Ingestor {
       });
     },
   };
+}
+
+/** A Buffer view of the bytes (no copy). */
+function toBuffer(bytes: Uint8Array): Buffer {
+  return Buffer.isBuffer(bytes) ? bytes : Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
 }
 
 function concat(chunks: Uint8Array[], length: number): Uint8Array {
@@ -276,6 +302,12 @@ class BodyReader {
   private readonly starts: Int32Array;
   private readonly ends: Int32Array;
   private rowText = '';
+  /** The chunk being scanned by {@link readFastBytes}, for the text of a bad cell. */
+  private rowBytes: Buffer | null = null;
+  /** Bytes given to {@link feedBytes} so far, and the file offset of the line being scanned there. */
+  private fed = 0;
+  private scanAt = 0;
+  private readonly sizeHint: number | undefined;
   private rowCells: string[] | null = null;
 
   private pending = '';
@@ -341,7 +373,11 @@ class BodyReader {
     this.spreadFactor = Float64Array.from(spreadCols, (c) => c.factor);
 
     const hint = options.sizeHint;
-    this.capacity = hint !== undefined && hint > 0 ? Math.ceil((hint / Math.max(head.meanLineLength, 2)) * 1.02) + 16 : 4096;
+    this.sizeHint = hint;
+    this.fed = head.bodyStart;
+    // 10 % to spare: the head's lines can be longer than the rest (time stamps such as
+    // 0.00030000000000000003 near the start), and a growth copies every column once more.
+    this.capacity = hint !== undefined && hint > 0 ? Math.ceil((hint / Math.max(head.meanLineLength, 2)) * 1.1) + 16 : 4096;
     this.roleBuffers = roleCols.map(() => new Float64Array(this.capacity));
     this.extraBuffers = extraCols.map(() => new Float64Array(this.capacity));
     this.spreadBuffers = spreadCols.map(() => new Float64Array(this.capacity));
@@ -384,7 +420,114 @@ class BodyReader {
     this.readFast(text, from, final);
   }
 
+  /**
+   * Reads a chunk of pure-ASCII bytes (not the last piece: {@link feed} with `final` ends the
+   * input). It is read exactly as {@link feed} reads the same characters as text; without quote
+   * characters the lines are scanned in the bytes themselves.
+   */
+  feedBytes(bytes: Buffer): void {
+    this.fed += bytes.length;
+    if (this.opts.engine === 'papaparse' || this.pending.includes('"') || bytes.indexOf(34) >= 0) {
+      this.feed(bytes.toString('latin1'), 0, false);
+      return;
+    }
+    let from = 0;
+    if (this.pending.length) {
+      const nl = bytes.indexOf(this.newline.charCodeAt(0));
+      if (nl < 0) {
+        this.pending += bytes.toString('latin1');
+        if (this.pending.length > this.opts.maxLineLength) this.tooLong();
+        return;
+      }
+      const joint = this.pending + bytes.toString('latin1', 0, nl + 1);
+      this.pending = '';
+      this.readFast(joint, 0, false);
+      from = nl + 1;
+    }
+    const nlCode = this.newline.charCodeAt(0);
+    const end = bytes.lastIndexOf(nlCode) + 1;
+    if (end <= from) {
+      this.pending = bytes.toString('latin1', from);
+      if (this.pending.length > this.opts.maxLineLength) this.tooLong();
+      return;
+    }
+    this.rowCells = null;
+    this.rowBytes = bytes;
+    this.readFastBytes(bytes, from, end, nlCode);
+    // Here rather than at the end of readFastBytes: its loop is compiled while it runs (on-stack
+    // replacement), before any code after the loop has run, and V8 would leave that compiled code
+    // at such code on every later chunk.
+    this.rowBytes = null;
+    this.pending = bytes.toString('latin1', end);
+  }
+
   // ---- fast path ---------------------------------------------------------------------------
+
+  /**
+   * {@link readFast} for ASCII bytes: scans the complete lines of `bytes[from…end)`, `end` being just
+   * after a newline (`nlCode`).
+   */
+  private readFastBytes(bytes: Buffer, from: number, end: number, nlCode: number): void {
+    const delimCode = this.delimiter.charCodeAt(0);
+    const nCols = this.nCols;
+    const decimal = this.decimal;
+    const vals = this.vals;
+    const starts = this.starts;
+    const ends = this.ends;
+    const maxLineLength = this.opts.maxLineLength;
+    const base = this.fed - bytes.length;
+    let pos = from;
+    while (pos < end) {
+      // Every line up to `end` ends with a newline; the cell scanner finds it.
+      const line = this.line++;
+      this.scanAt = base + pos;
+      const first = bytes[pos]!;
+      if (first === 35 || (first === 47 && bytes[pos + 1] === 47)) {
+        const lineEnd = bytes.indexOf(nlCode, pos);
+        if (lineEnd - pos > maxLineLength) this.lineTooLong(line);
+        this.comment(line);
+        pos = lineEnd + 1;
+        continue;
+      }
+      let c = 0;
+      let cellStart = pos;
+      let surplus = false;
+      let lineEnd: number;
+      for (;;) {
+        const slot = c < nCols ? c : nCols;
+        const cellEnd = scanCellBytes(bytes, cellStart, end, delimCode, decimal, vals, slot, nlCode);
+        if (c < nCols) {
+          starts[c] = cellStart;
+          ends[c] = cellEnd;
+        } else if (!surplus && !(vals[nCols] !== vals[nCols] && bytes.toString('latin1', cellStart, cellEnd).trim() === '')) {
+          surplus = true;
+        }
+        c++;
+        if (bytes[cellEnd] !== delimCode) {
+          lineEnd = cellEnd;
+          break;
+        }
+        cellStart = cellEnd + 1;
+      }
+      // Checked once the line is scanned: scanning only filled the scratch arrays.
+      if (lineEnd - pos > maxLineLength) this.lineTooLong(line);
+      const next = lineEnd + 1;
+      if (c === 1 && vals[0] !== vals[0] && bytes.toString('latin1', pos, lineEnd).trim() === '') {
+        this.blank(line);
+      } else {
+        this.fastRows++;
+        this.commit(line, c, surplus);
+      }
+      pos = next;
+    }
+  }
+
+  /** {@link tooLong} for line `line` of a byte chunk being scanned. */
+  private lineTooLong(line: number): never {
+    this.line = line;
+    this.rowBytes = null;
+    this.tooLong();
+  }
 
   /** Scans the complete lines of `text[from…]` (all of it when `final`); keeps the rest in `pending`. */
   private readFast(text: string, from: number, final: boolean): void {
@@ -518,7 +661,9 @@ class BodyReader {
   // ---- rows --------------------------------------------------------------------------------
 
   private cellText(c: number): string {
-    return this.rowCells ? (this.rowCells[c] ?? '') : this.rowText.slice(this.starts[c]!, this.ends[c]!);
+    if (this.rowCells) return this.rowCells[c] ?? '';
+    if (this.rowBytes) return this.rowBytes.toString('latin1', this.starts[c]!, this.ends[c]!);
+    return this.rowText.slice(this.starts[c]!, this.ends[c]!);
   }
 
   private comment(line: number): void {
@@ -617,7 +762,13 @@ class BodyReader {
   }
 
   private grow(): void {
-    const capacity = this.capacity * 2;
+    let capacity = this.capacity * 2;
+    const hint = this.sizeHint;
+    if (hint !== undefined && this.scanAt > 0 && this.scanAt < hint) {
+      // Rows per byte so far, over the whole file, with 3 % to spare (a growth of at least 1/8).
+      const estimate = Math.ceil(this.kept * (hint / this.scanAt) * 1.03) + 16;
+      capacity = Math.min(capacity, Math.max(estimate, Math.ceil(this.capacity * 1.125)));
+    }
     const grow = (b: Float64Array): Float64Array => {
       const out = new Float64Array(capacity);
       out.set(b);

@@ -1,12 +1,15 @@
-import { createReadStream } from 'node:fs';
-import { stat } from 'node:fs/promises';
+import { open, stat } from 'node:fs/promises';
 import { createIngestor } from './createIngestor.js';
 import { IngestError } from './IngestError.js';
 import type { IngestOptions, IngestResult } from './types.js';
 
+/** Bytes per read. */
+const CHUNK = 1 << 20;
+
 /**
  * Reads a CSV file from disk, streaming it through {@link createIngestor} in 1 MiB chunks (the file
- * is hashed with SHA-256 as it streams). This is the package's only file-system use.
+ * is hashed with SHA-256 as it streams). Two buffers take turns: the next chunk is read into one
+ * while the other is parsed. This is the package's only file-system use.
  *
  * @param path - file path
  * @param options - see {@link IngestOptions}; `fileName` defaults to `path`
@@ -29,14 +32,30 @@ export async function readRecording(path: string, options: IngestOptions = {}): 
     throw new IngestError('file-unreadable', fileName, why, { cause: error });
   }
   const ingestor = createIngestor({ ...options, fileName, sizeHint: options.sizeHint ?? size });
-  const stream = createReadStream(path, { highWaterMark: 1 << 20 });
+  let handle: Awaited<ReturnType<typeof open>> | undefined;
+  let next: Promise<{ bytesRead: number }> | undefined;
   try {
-    for await (const chunk of stream) ingestor.push(chunk as Buffer);
+    handle = await open(path, 'r');
+    const buffers = [Buffer.allocUnsafeSlow(CHUNK), Buffer.allocUnsafeSlow(CHUNK)];
+    let turn = 0;
+    next = handle.read(buffers[0]!, 0, CHUNK, null);
+    for (;;) {
+      const { bytesRead } = await next;
+      next = undefined;
+      if (bytesRead === 0) break;
+      const chunk = buffers[turn]!;
+      turn ^= 1;
+      next = handle.read(buffers[turn]!, 0, CHUNK, null);
+      // push() keeps no reference to the chunk, so its buffer can be refilled afterwards.
+      ingestor.push(bytesRead === CHUNK ? chunk : chunk.subarray(0, bytesRead));
+    }
   } catch (error) {
     if (error instanceof IngestError) throw error;
     throw new IngestError('file-unreadable', fileName, `reading failed (${(error as Error).message})`, { cause: error });
   } finally {
-    stream.destroy();
+    // A read still in flight (after an error) must end before the file is closed.
+    if (next) await next.catch(() => undefined);
+    await handle?.close();
   }
   return ingestor.finish();
 }
