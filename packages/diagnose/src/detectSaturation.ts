@@ -1,5 +1,5 @@
-import { detectEncoderSpeed, estimateNoiseLevel, selectKth } from '@motorprint/estimate';
-import { checkRecording, noiseOf, sig } from './internal.js';
+import { detectEncoderSpeed, selectKth } from '@motorprint/estimate';
+import { checkRecording, noiseLevel, noiseOf, sig } from './internal.js';
 import type { Finding, RecordingLike } from './types.js';
 
 /**
@@ -34,7 +34,7 @@ export function detectSaturation(recording: RecordingLike, options: { commandedV
   for (const name of ['voltage', 'current', 'speed', 'torque'] as const) {
     const x = recording.channels[name];
     if (!x || n < 20) continue;
-    const lvl = estimateNoiseLevel(x);
+    const lvl = noiseLevel(x);
     const sigma = lvl.sigma;
     if (!(sigma > 0)) continue;
     let max = -Infinity, min = Infinity;

@@ -2,13 +2,45 @@
  * Small shared helpers of the detectors (not exported from the package).
  */
 import { estimateNoiseLevel, medianInterval } from '@motorprint/estimate';
+import type { NoiseLevel } from '@motorprint/estimate';
 import type { RecordingLike } from './types.js';
 
 export { medianInterval } from '@motorprint/estimate';
 
+/**
+ * The noise levels already estimated inside the current `withSharedNoise` call, by array: the
+ * detectors of one diagnosis ask for the same channels' levels again and again, and
+ * `estimateNoiseLevel`'s own memo compares every sample to its copy on each of those asks. Inside
+ * one synchronous call no array changes (the detectors only read them), so the level is kept by
+ * identity; the map is dropped when the outermost call returns or throws.
+ */
+let shared: Map<Float64Array, NoiseLevel> | null = null;
+
+/** Runs `work` with the noise levels of its arrays estimated once each (see `noiseLevel`). */
+export function withSharedNoise<T>(work: () => T): T {
+  if (shared !== null) return work();
+  shared = new Map();
+  try {
+    return work();
+  } finally {
+    shared = null;
+  }
+}
+
+/** `estimateNoiseLevel(x)`, once per array inside a `withSharedNoise` call (a failure is not kept: it is raised again). */
+export function noiseLevel(x: Float64Array): NoiseLevel {
+  if (shared === null) return estimateNoiseLevel(x);
+  let level = shared.get(x);
+  if (level === undefined) {
+    level = estimateNoiseLevel(x);
+    shared.set(x, level);
+  }
+  return { ...level };
+}
+
 /** Noise SD of a channel, or NaN when the channel is absent. */
 export function noiseOf(x: Float64Array | undefined): number {
-  return x instanceof Float64Array && x.length >= 4 ? estimateNoiseLevel(x).sigma : NaN;
+  return x instanceof Float64Array && x.length >= 4 ? noiseLevel(x).sigma : NaN;
 }
 
 /**

@@ -1,5 +1,6 @@
-import { estimateNoiseLevel, zeroPhaseLowPass } from '@motorprint/estimate';
+import { zeroPhaseLowPass } from '@motorprint/estimate';
 import { compareNestedModels } from './compareNestedModels.js';
+import { noiseLevel } from './internal.js';
 import { fitLinearModel } from './fitLinearModel.js';
 import type { LinearFit, ModelComparison } from './types.js';
 
@@ -116,14 +117,14 @@ export function mechanicalRegression(input: MechanicalRegressionInput): Mechanic
   let rawSigma: number;
   if (speed) {
     w.set(lp(speed));
-    rawSigma = estimateNoiseLevel(speed).sigma;
+    rawSigma = noiseLevel(speed).sigma;
   } else {
     const q = lp(position!);
     for (let k = 1; k + 1 < n; k++) w[k] = (q[k + 1]! - q[k - 1]!) / (2 * h);
     w[0] = w[1]!;
     w[n - 1] = w[n - 2]!;
     // Position noise σq becomes speed noise ≈ σq/h (difference of two samples, divided by 2h).
-    rawSigma = estimateNoiseLevel(position!).sigma / h;
+    rawSigma = noiseLevel(position!).sigma / h;
   }
   const acc = new Float64Array(n);
   for (let k = 1; k + 1 < n; k++) acc[k] = (w[k + 1]! - w[k - 1]!) / (2 * h);
@@ -142,9 +143,13 @@ export function mechanicalRegression(input: MechanicalRegressionInput): Mechanic
   const used = rows.slice(trim, rows.length - trim);
   const m = used.length;
   if (m < 20) throw new RangeError(`${fn}: only ${m} rows remain after decimation by ${dec} and trimming (need >= 20)`);
-  const pick = (x: Float64Array): Float64Array => Float64Array.from(used, (k) => x[k]!);
-  const cAcc = pick(acc), cW = pick(w), cS = pick(sgn), cY = pick(y);
-  const cD = Float64Array.from(cW, (v) => v * Math.abs(v));
+  // The decimated rows (plain loops: a typed array's from() with a map function is slow).
+  const cAcc = new Float64Array(m), cW = new Float64Array(m), cS = new Float64Array(m), cY = new Float64Array(m), cD = new Float64Array(m);
+  for (let j = 0; j < m; j++) {
+    const k = used[j]!;
+    const v = w[k]!;
+    cAcc[j] = acc[k]!; cW[j] = v; cS[j] = sgn[k]!; cY[j] = y[k]!; cD[j] = v * Math.abs(v);
+  }
   const extra = input.offset === true ? [new Float64Array(m).fill(1)] : [];
   const q = extra.length;
   const viscous = fitLinearModel([cAcc, cW, ...extra], cY);

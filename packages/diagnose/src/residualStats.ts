@@ -1,4 +1,4 @@
-import { autocorrelationInto } from './autocorrelationInto.js';
+import { autocorrelationOfDeviations } from './autocorrelationInto.js';
 import { ljungBoxTest } from './ljungBoxTest.js';
 import { runsTest } from './runsTest.js';
 import type { ResidualStats } from './types.js';
@@ -41,27 +41,36 @@ export function residualStats(measured: Float64Array, predicted: Float64Array, m
   const N = measured.length;
   const e = new Float64Array(N);
   let n = 0;
-  let sy = 0;
+  let sy = 0, se = 0;
   for (let k = 0; k < N; k++) {
     const y = measured[k]!;
     const yh = predicted[k]!;
     if (!Number.isFinite(y) || !Number.isFinite(yh)) continue;
-    e[n++] = yh - y;
+    const r = yh - y;
+    e[n++] = r;
     sy += y;
+    se += r;
   }
   if (n < 8) throw new RangeError(`${fn}: need at least 8 finite sample pairs (got ${n})`);
   const res = e.subarray(0, n);
   const m = maxLag ?? Math.min(50, Math.floor(n / 4));
   if (!Number.isInteger(m) || m < 1 || m >= n) throw new RangeError(`${fn}: maxLag must be an integer in [1, ${n - 1}] (got ${maxLag})`);
   const ybar = sy / n;
+  // The residuals' mean and deviations for the autocorrelation, in the same pass as the sums of
+  // squares (the numbers `autocorrelationInto` would compute: the same plain sum for the mean).
+  const mean = se / n;
+  const dev = new Float64Array(n);
+  let c0 = 0;
   // Compensated (Neumaier) sums: the squares of 1e6 residuals lose digits in a plain sum.
-  let see = 0, cee = 0, syy = 0, cyy = 0, se = 0;
+  let see = 0, cee = 0, syy = 0, cyy = 0;
   let j = 0;
   for (let k = 0; k < N; k++) {
     const y = measured[k]!;
     if (!Number.isFinite(y) || !Number.isFinite(predicted[k]!)) continue;
-    const r = res[j++]!;
-    se += r;
+    const r = res[j]!;
+    const v = r - mean;
+    dev[j++] = v;
+    c0 += v * v;
     const a = r * r;
     const t1 = see + a;
     cee += Math.abs(see) >= a ? see - t1 + a : a - t1 + see;
@@ -75,7 +84,7 @@ export function residualStats(measured: Float64Array, predicted: Float64Array, m
   const sst = syy + cyy;
   const rms = Math.sqrt(sse / n);
   const nrmse = sst > 0 ? Math.sqrt(sse / sst) : NaN;
-  const acf = autocorrelationInto(new Float64Array(m + 1), res, m);
+  const acf = autocorrelationOfDeviations(new Float64Array(m + 1), dev, c0, m);
   const band = Z975 / Math.sqrt(n);
   let outside = 0;
   for (let k = 1; k <= m; k++) if (Math.abs(acf[k]!) > band) outside++;
