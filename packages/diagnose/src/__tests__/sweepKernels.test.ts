@@ -4,7 +4,7 @@ import { describe, expect, it } from 'vitest';
 import { autocorrelationInto } from '../autocorrelationInto.js';
 import { detectResidualDelay } from '../detectResidualDelay.js';
 import { fitLinearModel } from '../fitLinearModel.js';
-import { laggedSumsInto } from '../laggedSums.js';
+import { laggedSumsInto, laggedSumsScalarInto, laggedSumsSimdInto } from '../laggedSums.js';
 import { residualStats } from '../residualStats.js';
 
 /** Invented noisy signal: a slow sine plus Gaussian noise, quantised to 1/64, on an offset. */
@@ -42,11 +42,21 @@ function directAutocorrelation(x: Float64Array, m: number): number[] {
 }
 
 describe('the one-sweep kernels give the numbers of the one-sum-per-loop code, bit for bit', () => {
-  it('laggedSumsInto equals the direct sums for every lag range, start and length tried (including series shorter than the lags)', () => {
+  it('laggedSumsInto, its plain loop and its SIMD kernel equal the direct sums for every lag range, start and length tried (including series shorter than the lags)', () => {
     const a = quantised(3001, 1), b = quantised(3001, 2, -0.25);
-    for (const [from, to, first, last] of [[0, 3001, 0, 50], [1, 3001, 0, 20], [0, 2999, 3, 17], [5, 40, 0, 50], [0, 9, 0, 12], [2, 3001, 7, 7]] as const) {
-      const out = laggedSumsInto(new Float64Array(last - first + 1), a, b, from, to, first, last);
-      expect(Array.from(out), `${from}…${to}, lags ${first}…${last}`).toEqual(directLagged(a, b, from, to, first, last));
+    for (const [from, to, first, last] of [[0, 3001, 0, 50], [1, 3001, 0, 20], [0, 2999, 3, 17], [5, 40, 0, 50], [0, 9, 0, 12], [2, 3001, 7, 7], [0, 3001, 1, 16], [0, 3001, 1, 33]] as const) {
+      const label = `${from}…${to}, lags ${first}…${last}`;
+      const ref = directLagged(a, b, from, to, first, last);
+      const m = last - first + 1;
+      expect(Array.from(laggedSumsInto(new Float64Array(m), a, b, from, to, first, last)), label).toEqual(ref);
+      expect(Array.from(laggedSumsScalarInto(new Float64Array(m), a, b, from, to, first, last)), label).toEqual(ref);
+      const simd = new Float64Array(m);
+      // Node has WebAssembly SIMD: the kernel runs (elsewhere it declines and the plain loop is used).
+      expect(laggedSumsSimdInto(simd, a, b, from, to, first, last)).toBe(true);
+      expect(Array.from(simd), label).toEqual(ref);
+      // The same series as both arguments (the autocorrelation's case: one copy in the kernel).
+      expect(laggedSumsSimdInto(simd, a, a, from, to, first, last)).toBe(true);
+      expect(Array.from(simd), `${label}, a with itself`).toEqual(directLagged(a, a, from, to, first, last));
     }
   });
 
