@@ -152,9 +152,28 @@ function simdKernel(): { wasm: Wasm; module: object } | null {
   return kernel;
 }
 
+/** Scratch memories up to this size are kept for the next call (a fresh one costs its page faults again). */
+const KEEP_BYTES = 64 * 2 ** 20;
+
+/** The kernel's last memory when it was small enough to keep (no state that changes a result: it is overwritten before use). */
+let kept: { sums16: (pa: number, pb: number, pe: number, out: number) => void; mem: Float64Array } | null = null;
+
+/** An instance of the kernel with at least `bytes` of memory: the kept one when it is big enough, else a new one. */
+function scratch(k: { wasm: Wasm; module: object }, bytes: number): { sums16: (pa: number, pb: number, pe: number, out: number) => void; mem: Float64Array } | null {
+  if (kept !== null && kept.mem.byteLength >= bytes) return kept;
+  try {
+    const memory = new k.wasm.Memory({ initial: Math.ceil(bytes / 65536) });
+    const instance = new k.wasm.Instance(k.module, { env: { memory } });
+    const room = { sums16: instance.exports.sums16 as (pa: number, pb: number, pe: number, out: number) => void, mem: new Float64Array(memory.buffer) };
+    if (bytes <= KEEP_BYTES) kept = room;
+    return room;
+  } catch {
+    return null;
+  }
+}
+
 /**
- * `laggedSumsInto` through the SIMD kernel: both series copied into a fresh memory of the kernel
- * (dropped with it), sixteen lags per sweep over their common range, then each lag's remaining
+ * `laggedSumsInto` through the SIMD kernel: both series copied into the kernel's memory, sixteen lags per sweep over their common range, then each lag's remaining
  * terms added in order of t in JavaScript. Returns false (and writes nothing) where the kernel
  * cannot run.
  */
@@ -167,16 +186,9 @@ export function laggedSumsSimdInto(out: Float64Array, a: Float64Array, b: Float6
   const outAt = bAt + to;
   const bytes = 8 * (outAt + 16);
   if (bytes >= 2 ** 31) return false;
-  let sums16: (pa: number, pb: number, pe: number, out: number) => void;
-  let mem: Float64Array;
-  try {
-    const memory = new k.wasm.Memory({ initial: Math.ceil(bytes / 65536) });
-    const instance = new k.wasm.Instance(k.module, { env: { memory } });
-    sums16 = instance.exports.sums16 as typeof sums16;
-    mem = new Float64Array(memory.buffer);
-  } catch {
-    return false;
-  }
+  const room = scratch(k, bytes);
+  if (room === null) return false;
+  const { sums16, mem } = room;
   mem.set(a.subarray(0, to), 0);
   if (!same) mem.set(b.subarray(0, to), bAt);
   for (let lag = first; lag <= last; lag += 16) {

@@ -127,11 +127,17 @@ export function mechanicalRegression(input: MechanicalRegressionInput): Mechanic
     rawSigma = noiseLevel(position!).sigma / h;
   }
   const acc = new Float64Array(n);
-  for (let k = 1; k + 1 < n; k++) acc[k] = (w[k + 1]! - w[k - 1]!) / (2 * h);
+  // The central differences and the speed's range in one pass (the range still read in order of k).
+  let wmin = Infinity, wmax = -Infinity;
+  const h2 = 2 * h;
+  for (let k = 0; k < n; k++) {
+    const v = w[k]!;
+    if (v < wmin) wmin = v;
+    if (v > wmax) wmax = v;
+    if (k >= 1 && k + 1 < n) acc[k] = (w[k + 1]! - w[k - 1]!) / h2;
+  }
   acc[0] = acc[1]!;
   acc[n - 1] = acc[n - 2]!;
-  let wmin = Infinity, wmax = -Infinity;
-  for (let k = 0; k < n; k++) { if (w[k]! < wmin) wmin = w[k]!; if (w[k]! > wmax) wmax = w[k]!; }
   // Filtered white noise keeps the fraction ≈ √(2·fc·h·(π/4)) of its SD (4th-order response, squared by the two passes);
   // √(2·fc·h) is used as a slightly generous bound.
   const deadBand = 4 * rawSigma * Math.sqrt(Math.min(1, 2 * fc * h)) + 1e-3 * (wmax - wmin);
