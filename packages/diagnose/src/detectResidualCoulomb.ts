@@ -51,12 +51,7 @@ export function detectResidualCoulomb(speed: Float64Array, residual: Float64Arra
   const g = fit.coefficients[1]!, se = fit.standardErrors[1]!;
   if (!(se > 0)) return null;
   // Lag-1 autocorrelation of the regression residuals over consecutive fitted rows.
-  let ss = 0, s1 = 0;
-  for (let j = 0; j < m; j++) {
-    const e = y[j]! - fit.coefficients[0]! - g * s[j]!;
-    ss += e * e;
-    if (j > 0 && rows[j]! === rows[j - 1]! + 1) s1 += e * (y[j - 1]! - fit.coefficients[0]! - g * s[j - 1]!);
-  }
+  const [ss, s1] = lagOneSums(y, s, rows, fit.coefficients[0]!, g);
   const r1 = ss > 0 ? Math.min(0.98, Math.max(0, s1 / ss)) : 0;
   const seAdj = se * Math.sqrt((1 + r1) / (1 - r1));
   const z = (channel === 'current' ? -g : g) / seAdj;
@@ -70,4 +65,20 @@ export function detectResidualCoulomb(speed: Float64Array, residual: Float64Arra
     },
     advice: 'Fit with Coulomb friction in the model and compare the two fits; a constant friction torque otherwise biases b, J and the current offset.',
   };
+}
+
+/**
+ * Σ e_j² and Σ e_j·e_{j−1} over consecutive rows, e_j = y_j − c − g·s_j (each residual formed once
+ * and reused as the previous one: the same number the formula gives again).
+ */
+function lagOneSums(y: Float64Array, s: Float64Array, rows: Int32Array, c: number, g: number): [number, number] {
+  const m = y.length;
+  let ss = 0, s1 = 0, prev = 0;
+  for (let j = 0; j < m; j++) {
+    const e = y[j]! - c - g * s[j]!;
+    ss += e * e;
+    if (j > 0 && rows[j]! === rows[j - 1]! + 1) s1 += e * prev;
+    prev = e;
+  }
+  return [ss, s1];
 }

@@ -5,7 +5,7 @@ import { detectResidualDelay } from './detectResidualDelay.js';
 import { detectResidualTrend } from './detectResidualTrend.js';
 import { detectWeakExcitation } from './detectWeakExcitation.js';
 import { diagnoseParameters } from './diagnoseParameters.js';
-import { medianInterval, withSharedNoise } from './internal.js';
+import { sampleIntervalOf, withSharedNoise } from './internal.js';
 import { residualStats } from './residualStats.js';
 import { scanRecording } from './scanRecording.js';
 import type {
@@ -88,7 +88,7 @@ function diagnoseShared(fit: MotorFit, recordings: MotorRecordingInput[], option
     name: fit.recordings[i]!.name,
     kind: fit.recordings[i]!.kind,
     channels: CHANNELS.filter((c) => item.recording.channels[c] instanceof Float64Array),
-    sampleInterval: medianInterval(item.recording.time),
+    sampleInterval: sampleIntervalOf(item.recording),
   }));
   const part = diagnoseParameters(fit, descriptions);
 

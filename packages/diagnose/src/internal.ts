@@ -8,18 +8,19 @@ import type { RecordingLike } from './types.js';
 export { medianInterval } from '@motorprint/estimate';
 
 /**
- * The noise levels already estimated inside the current `withSharedNoise` call, by array: the
- * detectors of one diagnosis ask for the same channels' levels again and again, and
- * `estimateNoiseLevel`'s own memo compares every sample to its copy on each of those asks. Inside
- * one synchronous call no array changes (the detectors only read them), so the level is kept by
- * identity; the map is dropped when the outermost call returns or throws.
+ * What was already computed inside the current `withSharedNoise` call, by array: the noise levels
+ * (the detectors of one diagnosis ask for the same channels' levels again and again, and
+ * `estimateNoiseLevel`'s own memo compares every sample to its copy on each of those asks) and
+ * the median sample intervals of the time arrays. Inside one synchronous call no array changes
+ * (the detectors only read them), so the values are kept by identity; the maps are dropped when
+ * the outermost call returns or throws.
  */
-let shared: Map<Float64Array, NoiseLevel> | null = null;
+let shared: { noise: Map<Float64Array, NoiseLevel>; intervals: Map<Float64Array, number> } | null = null;
 
-/** Runs `work` with the noise levels of its arrays estimated once each (see `noiseLevel`). */
+/** Runs `work` with the noise levels and sample intervals of its arrays computed once each (see `noiseLevel`). */
 export function withSharedNoise<T>(work: () => T): T {
   if (shared !== null) return work();
-  shared = new Map();
+  shared = { noise: new Map(), intervals: new Map() };
   try {
     return work();
   } finally {
@@ -30,12 +31,23 @@ export function withSharedNoise<T>(work: () => T): T {
 /** `estimateNoiseLevel(x)`, once per array inside a `withSharedNoise` call (a failure is not kept: it is raised again). */
 export function noiseLevel(x: Float64Array): NoiseLevel {
   if (shared === null) return estimateNoiseLevel(x);
-  let level = shared.get(x);
+  let level = shared.noise.get(x);
   if (level === undefined) {
     level = estimateNoiseLevel(x);
-    shared.set(x, level);
+    shared.noise.set(x, level);
   }
   return { ...level };
+}
+
+/** `medianInterval(time)`, once per array inside a `withSharedNoise` call. */
+function intervalOf(time: Float64Array): number {
+  if (shared === null) return medianInterval(time);
+  let dt = shared.intervals.get(time);
+  if (dt === undefined) {
+    dt = medianInterval(time);
+    shared.intervals.set(time, dt);
+  }
+  return dt;
 }
 
 /** Noise SD of a channel, or NaN when the channel is absent. */
@@ -71,10 +83,23 @@ export function checkRecording(fn: string, rec: RecordingLike): { n: number; dt:
     if (v.length !== n) throw new TypeError(`${fn}: recording.channels.${name} has ${v.length} samples, time has ${n}`);
     for (let k = 0; k < n; k++) if (!Number.isFinite(v[k]!)) throw new RangeError(`${fn}: recording.channels.${name}[${k}] must be finite (got ${v[k]})`);
   }
-  const dt = medianInterval(rec.time);
+  const dt = intervalOf(rec.time);
   if (!(dt > 0)) throw new RangeError(`${fn}: recording.time must be increasing (median interval ${dt})`);
   checked.set(rec, { n, dt, arrays });
   return { n, dt };
+}
+
+/**
+ * `medianInterval(rec.time)`, read from `checkRecording`'s record of the recording when it was
+ * checked with these same arrays (it holds that very value), computed otherwise.
+ */
+export function sampleIntervalOf(rec: RecordingLike): number {
+  const seen = rec !== null && typeof rec === 'object' ? checked.get(rec) : undefined;
+  if (seen !== undefined && rec.time instanceof Float64Array && seen.n === rec.time.length) {
+    const arrays = arraysOf(rec);
+    if (seen.arrays.length === arrays.length && seen.arrays.every((a, i) => a === arrays[i])) return seen.dt;
+  }
+  return intervalOf(rec.time);
 }
 
 /** Rounds for evidence tables (4 significant digits). */
@@ -95,13 +120,19 @@ export function slopeWithSerialCorrection(x: Float64Array, y: Float64Array): { s
   const bad = { slope: NaN, intercept: NaN, se: NaN, rows: m, lag1: NaN, sd: NaN };
   if (m < 8) return bad;
   const xb = sx / m, yb = sy / m;
+  // Every row finite (the usual case): the same sums without the row tests.
+  const all = m === n;
   let sxx = 0, sxy = 0;
-  for (let k = 0; k < n; k++) if (Number.isFinite(y[k]!) && Number.isFinite(x[k]!)) { const dx = x[k]! - xb; sxx += dx * dx; sxy += dx * (y[k]! - yb); }
+  if (all) {
+    for (let k = 0; k < n; k++) { const dx = x[k]! - xb; sxx += dx * dx; sxy += dx * (y[k]! - yb); }
+  } else {
+    for (let k = 0; k < n; k++) if (Number.isFinite(y[k]!) && Number.isFinite(x[k]!)) { const dx = x[k]! - xb; sxx += dx * dx; sxy += dx * (y[k]! - yb); }
+  }
   if (!(sxx > 0)) return bad;
   const slope = sxy / sxx, intercept = yb - slope * xb;
   let ss = 0, s1 = 0, prev = NaN;
   for (let k = 0; k < n; k++) {
-    if (!Number.isFinite(y[k]!) || !Number.isFinite(x[k]!)) { prev = NaN; continue; }
+    if (!all && (!Number.isFinite(y[k]!) || !Number.isFinite(x[k]!))) { prev = NaN; continue; }
     const e = y[k]! - intercept - slope * x[k]!;
     ss += e * e;
     if (Number.isFinite(prev)) s1 += e * prev;
