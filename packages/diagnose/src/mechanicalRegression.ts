@@ -91,6 +91,15 @@ export interface MechanicalRegression {
  * mechanicalRegression({ sampleInterval: 1e-4, drive: current, speed }).coulombComparison.preferred; // => 'full' with Coulomb friction
  */
 export function mechanicalRegression(input: MechanicalRegressionInput): MechanicalRegression {
+  return mechanicalRegressionOf(input, false);
+}
+
+/**
+ * `mechanicalRegression`, skipping the scan for samples that are not finite when `finiteChecked`
+ * says the drive and the speed (or position) are channels `checkRecording` has already checked
+ * (the scan's regression: the same arrays, read twice otherwise).
+ */
+export function mechanicalRegressionOf(input: MechanicalRegressionInput, finiteChecked: boolean): MechanicalRegression {
   const fn = 'mechanicalRegression';
   if (input === null || typeof input !== 'object') throw new TypeError(`${fn}: input must be an object`);
   const { drive, speed, position } = input;
@@ -107,7 +116,7 @@ export function mechanicalRegression(input: MechanicalRegressionInput): Mechanic
   if (!Number.isInteger(dec) || dec < 1) throw new RangeError(`${fn}: input.decimation must be an integer >= 1 (got ${dec})`);
   const trim = input.trim ?? 5;
   if (!Number.isInteger(trim) || trim < 0) throw new RangeError(`${fn}: input.trim must be an integer >= 0 (got ${trim})`);
-  for (let k = 0; k < n; k++) {
+  for (let k = 0; !finiteChecked && k < n; k++) {
     if (!Number.isFinite(drive[k]!)) throw new RangeError(`${fn}: input.drive[${k}] must be finite (got ${drive[k]})`);
     if (!Number.isFinite(motion[k]!)) throw new RangeError(`${fn}: input.${speed ? 'speed' : 'position'}[${k}] must be finite (got ${motion[k]})`);
   }

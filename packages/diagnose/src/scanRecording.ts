@@ -7,7 +7,7 @@ import { stictionWith } from './detectStiction.js';
 import { detectWeakExcitation } from './detectWeakExcitation.js';
 import { detectWindingHeating } from './detectWindingHeating.js';
 import { checkRecording, withSharedNoise } from './internal.js';
-import { mechanicalRegression } from './mechanicalRegression.js';
+import { mechanicalRegressionOf } from './mechanicalRegression.js';
 import type { MechanicalRegression, MechanicalRegressionInput } from './mechanicalRegression.js';
 import type { Finding, ModelComparison, RecordingKind, RecordingLike } from './types.js';
 
@@ -93,7 +93,8 @@ function sharedRegression(): (input: MechanicalRegressionInput) => MechanicalReg
       return hit.result!;
     }
     try {
-      const result = mechanicalRegression(input);
+      // The drive and the speed are the recording's channels, checked finite by checkRecording above.
+      const result = mechanicalRegressionOf(input, true);
       done.push({ input: { ...input }, result });
       return result;
     } catch (error) {
