@@ -1,6 +1,6 @@
 import { autocorrelationOfDeviations } from './autocorrelationInto.js';
 import { ljungBoxTest } from './ljungBoxTest.js';
-import { runsTest } from './runsTest.js';
+import { runsFromCounts } from './runsTest.js';
 import type { ResidualStats } from './types.js';
 
 /** z_{0.975} of the standard normal (the ±1.96/√n whiteness band; common practice). */
@@ -63,10 +63,13 @@ export function residualStats(measured: Float64Array, predicted: Float64Array, m
   let c0 = 0;
   // Compensated (Neumaier) sums: the squares of 1e6 residuals lose digits in a plain sum.
   let see = 0, cee = 0, syy = 0, cyy = 0;
+  // The runs test's counts on the signs of e about 0 (as runsTest counts them), in the same pass.
+  let above = 0, below = 0, runs = 0, last = 0;
   let j = 0;
+  const all = n === N;
   for (let k = 0; k < N; k++) {
     const y = measured[k]!;
-    if (!Number.isFinite(y) || !Number.isFinite(predicted[k]!)) continue;
+    if (!all && (!Number.isFinite(y) || !Number.isFinite(predicted[k]!))) continue;
     const r = res[j]!;
     const v = r - mean;
     dev[j++] = v;
@@ -79,6 +82,13 @@ export function residualStats(measured: Float64Array, predicted: Float64Array, m
     const t2 = syy + d;
     cyy += Math.abs(syy) >= d ? syy - t2 + d : d - t2 + syy;
     syy = t2;
+    if (r !== 0) {
+      const sign = r > 0 ? 1 : -1;
+      if (sign > 0) above++;
+      else below++;
+      if (sign !== last) runs++;
+      last = sign;
+    }
   }
   const sse = see + cee;
   const sst = syy + cyy;
@@ -97,6 +107,6 @@ export function residualStats(measured: Float64Array, predicted: Float64Array, m
     whitenessBand: band,
     lagsOutsideBand: outside,
     ljungBox: ljungBoxTest(acf, n),
-    runs: runsTest(res),
+    runs: runsFromCounts(runs, above, below),
   };
 }

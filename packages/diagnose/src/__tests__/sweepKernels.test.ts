@@ -6,6 +6,7 @@ import { detectResidualDelay } from '../detectResidualDelay.js';
 import { fitLinearModel } from '../fitLinearModel.js';
 import { laggedSumsInto, laggedSumsScalarInto, laggedSumsSimdInto } from '../laggedSums.js';
 import { residualStats } from '../residualStats.js';
+import { runsTest } from '../runsTest.js';
 
 /** Invented noisy signal: a slow sine plus Gaussian noise, quantised to 1/64, on an offset. */
 function quantised(n: number, seed: number, offset = 5): Float64Array {
@@ -68,7 +69,7 @@ describe('the one-sweep kernels give the numbers of the one-sum-per-loop code, b
     expect(r[1]!).toBeGreaterThan(0.5);
   });
 
-  it('residualStats gives the same autocorrelation as autocorrelationInto on its residuals (with unfitted NaN samples skipped)', () => {
+  it('residualStats gives the autocorrelation and runs test of its residuals (unfitted NaN samples skipped), as the separate functions do', () => {
     const y = quantised(5000, 4);
     const rng = createRandom(5);
     const yh = Float64Array.from(y, (v, k) => (k % 101 === 7 ? NaN : v + 0.02 * rng.normal() + 1e-3));
@@ -76,6 +77,9 @@ describe('the one-sweep kernels give the numbers of the one-sum-per-loop code, b
     const e = Float64Array.from(y.map((v, k) => yh[k]! - v).filter((v) => Number.isFinite(v)));
     expect(s.samples).toBe(e.length);
     expect(Array.from(s.autocorrelation)).toEqual(directAutocorrelation(e, 30));
+    // The runs counted in residualStats' own pass are runsTest's on the same residuals.
+    expect(s.runs).toEqual(runsTest(e));
+    expect(s.runs.runs).toBeGreaterThan(100);
   });
 
   it('fitLinearModel equals a column-by-column normal-equation build on 2 to 5 columns (coefficients, SSR, covariance)', () => {
