@@ -44,7 +44,9 @@ export function fitLinearModel(columns: readonly Float64Array[], y: Float64Array
   const xy = new Float64Array(p);
   const cross = new Float64Array(p * p);
   let check = 0;
-  for (let k0 = 0; k0 < n; k0 += BLOCK) {
+  if (p === 2) check = sumsOfTwo(columns[0]!, columns[1]!, y, sq, xy, cross);
+  else if (p === 3) check = sumsOfThree(columns[0]!, columns[1]!, columns[2]!, y, sq, xy, cross);
+  else for (let k0 = 0; k0 < n; k0 += BLOCK) {
     const k1 = Math.min(n, k0 + BLOCK);
     // 0 while every y is finite; NaN from the first one that is not.
     for (let k = k0; k < k1; k++) check += y[k]! * 0;
@@ -143,4 +145,38 @@ function sumOfSquaredResiduals(columns: readonly Float64Array[], beta: Float64Ar
     }
   }
   return ssr;
+}
+
+/**
+ * The sums of the normal equations for two columns in one loop (each sum in order of k, as the
+ * blocked loop of `fitLinearModel` takes it): Σa², Σb² into sq, Σa·y, Σb·y into xy, Σa·b into
+ * cross[1]; returns Σ y·0 (0, or NaN when some y is not finite).
+ */
+function sumsOfTwo(a: Float64Array, b: Float64Array, y: Float64Array, sq: Float64Array, xy: Float64Array, cross: Float64Array): number {
+  const n = y.length;
+  let check = 0, aa = 0, bb = 0, ay = 0, by = 0, ab = 0;
+  for (let k = 0; k < n; k++) {
+    const u = a[k]!, v = b[k]!, w = y[k]!;
+    check += w * 0;
+    aa += u * u; ay += u * w; ab += u * v;
+    bb += v * v; by += v * w;
+  }
+  sq[0] = aa; sq[1] = bb; xy[0] = ay; xy[1] = by; cross[1] = ab;
+  return check;
+}
+
+/** `sumsOfTwo` for three columns (cross[p·i + j] for i < j, p = 3). */
+function sumsOfThree(a: Float64Array, b: Float64Array, c: Float64Array, y: Float64Array, sq: Float64Array, xy: Float64Array, cross: Float64Array): number {
+  const n = y.length;
+  let check = 0, aa = 0, bb = 0, cc = 0, ay = 0, by = 0, cy = 0, ab = 0, ac = 0, bc = 0;
+  for (let k = 0; k < n; k++) {
+    const u = a[k]!, v = b[k]!, t = c[k]!, w = y[k]!;
+    check += w * 0;
+    aa += u * u; ay += u * w; ab += u * v; ac += u * t;
+    bb += v * v; by += v * w; bc += v * t;
+    cc += t * t; cy += t * w;
+  }
+  sq[0] = aa; sq[1] = bb; sq[2] = cc; xy[0] = ay; xy[1] = by; xy[2] = cy;
+  cross[1] = ab; cross[2] = ac; cross[5] = bc;
+  return check;
 }
