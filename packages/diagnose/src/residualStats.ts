@@ -40,6 +40,41 @@ export function residualStats(measured: Float64Array, predicted: Float64Array, m
   }
   const N = measured.length;
   const e = new Float64Array(N);
+  const { n, sy, se } = finiteResiduals(measured, predicted, e);
+  if (n < 8) throw new RangeError(`${fn}: need at least 8 finite sample pairs (got ${n})`);
+  const res = e.subarray(0, n);
+  const m = maxLag ?? Math.min(50, Math.floor(n / 4));
+  if (!Number.isInteger(m) || m < 1 || m >= n) throw new RangeError(`${fn}: maxLag must be an integer in [1, ${n - 1}] (got ${maxLag})`);
+  const ybar = sy / n;
+  // The residuals' mean and deviations for the autocorrelation, in the same pass as the sums of
+  // squares (the numbers `autocorrelationInto` would compute: the same plain sum for the mean).
+  const mean = se / n;
+  const dev = new Float64Array(n);
+  const { c0, see, cee, syy, cyy, above, below, runs } = residualSums(measured, predicted, res, dev, mean, ybar, n === N);
+  const sse = see + cee;
+  const sst = syy + cyy;
+  const rms = Math.sqrt(sse / n);
+  const nrmse = sst > 0 ? Math.sqrt(sse / sst) : NaN;
+  const acf = autocorrelationOfDeviations(new Float64Array(m + 1), dev, c0, m);
+  const band = Z975 / Math.sqrt(n);
+  let outside = 0;
+  for (let k = 1; k <= m; k++) if (Math.abs(acf[k]!) > band) outside++;
+  return {
+    samples: n,
+    mean: se / n,
+    rms,
+    nrmse,
+    autocorrelation: acf,
+    whitenessBand: band,
+    lagsOutsideBand: outside,
+    ljungBox: ljungBoxTest(acf, n),
+    runs: runsFromCounts(runs, above, below),
+  };
+}
+
+/** e[0…n) = ŷ − y over the rows where both are finite, with n, Σy and Σe (in order of k; a kernel of its own). */
+function finiteResiduals(measured: Float64Array, predicted: Float64Array, e: Float64Array): { n: number; sy: number; se: number } {
+  const N = measured.length;
   let n = 0;
   let sy = 0, se = 0;
   for (let k = 0; k < N; k++) {
@@ -51,22 +86,22 @@ export function residualStats(measured: Float64Array, predicted: Float64Array, m
     sy += y;
     se += r;
   }
-  if (n < 8) throw new RangeError(`${fn}: need at least 8 finite sample pairs (got ${n})`);
-  const res = e.subarray(0, n);
-  const m = maxLag ?? Math.min(50, Math.floor(n / 4));
-  if (!Number.isInteger(m) || m < 1 || m >= n) throw new RangeError(`${fn}: maxLag must be an integer in [1, ${n - 1}] (got ${maxLag})`);
-  const ybar = sy / n;
-  // The residuals' mean and deviations for the autocorrelation, in the same pass as the sums of
-  // squares (the numbers `autocorrelationInto` would compute: the same plain sum for the mean).
-  const mean = se / n;
-  const dev = new Float64Array(n);
+  return { n, sy, se };
+}
+
+/**
+ * The pass over the kept rows (all of them when `all`): the deviations from `mean` into dev with
+ * c0 = Σ dev², the compensated Σe² and Σ(y − ȳ)², and the runs test's counts (a kernel of its own).
+ */
+function residualSums(measured: Float64Array, predicted: Float64Array, res: Float64Array, dev: Float64Array, mean: number, ybar: number, all: boolean):
+  { c0: number; see: number; cee: number; syy: number; cyy: number; above: number; below: number; runs: number } {
+  const N = measured.length;
   let c0 = 0;
   // Compensated (Neumaier) sums: the squares of 1e6 residuals lose digits in a plain sum.
   let see = 0, cee = 0, syy = 0, cyy = 0;
   // The runs test's counts on the signs of e about 0 (as runsTest counts them), in the same pass.
   let above = 0, below = 0, runs = 0, last = 0;
   let j = 0;
-  const all = n === N;
   for (let k = 0; k < N; k++) {
     const y = measured[k]!;
     if (!all && (!Number.isFinite(y) || !Number.isFinite(predicted[k]!))) continue;
@@ -90,23 +125,5 @@ export function residualStats(measured: Float64Array, predicted: Float64Array, m
       last = sign;
     }
   }
-  const sse = see + cee;
-  const sst = syy + cyy;
-  const rms = Math.sqrt(sse / n);
-  const nrmse = sst > 0 ? Math.sqrt(sse / sst) : NaN;
-  const acf = autocorrelationOfDeviations(new Float64Array(m + 1), dev, c0, m);
-  const band = Z975 / Math.sqrt(n);
-  let outside = 0;
-  for (let k = 1; k <= m; k++) if (Math.abs(acf[k]!) > band) outside++;
-  return {
-    samples: n,
-    mean: se / n,
-    rms,
-    nrmse,
-    autocorrelation: acf,
-    whitenessBand: band,
-    lagsOutsideBand: outside,
-    ljungBox: ljungBoxTest(acf, n),
-    runs: runsFromCounts(runs, above, below),
-  };
+  return { c0, see, cee, syy, cyy, above, below, runs };
 }
