@@ -1,4 +1,4 @@
-import { sig } from './internal.js';
+import { firstNotFinite, sig } from './internal.js';
 import { laggedSumsInto } from './laggedSums.js';
 import type { Finding } from './types.js';
 
@@ -39,13 +39,13 @@ export function detectResidualDelay(voltage: Float64Array, residual: Float64Arra
   let vv = 0, ee = 0, rows = 0;
   // The voltage steps once (every lag below reads them), and both series with 0 where a term is
   // left out: a left-out term then adds ±0, which leaves every sum below as it was.
+  // (Every residual finite, the usual case: the residual itself is that series.)
+  const finite = firstNotFinite(residual) < 0;
   const steps = new Float64Array(n);
-  const kept = new Float64Array(n);
-  let finite = true;
+  const kept = finite ? residual : new Float64Array(n);
   for (let k = 0; k < n; k++) {
     const e = residual[k]!;
-    if (Number.isFinite(e)) kept[k] = e;
-    else finite = false;
+    if (!finite && Number.isFinite(e)) kept[k] = e;
     if (k === 0) continue;
     const dv = voltage[k]! - voltage[k - 1]!;
     if (Number.isFinite(dv)) { steps[k] = dv; vv += dv * dv; }

@@ -122,10 +122,10 @@ export function mechanicalRegressionOf(input: MechanicalRegressionInput, finiteC
   }
   const lp = (x: Float64Array): Float64Array => zeroPhaseLowPass(x, h, fc);
   const y = lp(drive);
-  const w = new Float64Array(n);
+  // The filtered speed itself (a fresh array of length n), or the differenced filtered position.
+  const w = speed ? lp(speed) : new Float64Array(n);
   let rawSigma: number;
   if (speed) {
-    w.set(lp(speed));
     rawSigma = noiseLevel(speed).sigma;
   } else {
     const q = lp(position!);

@@ -49,7 +49,9 @@ export function residualStats(measured: Float64Array, predicted: Float64Array, m
   // The residuals' mean and deviations for the autocorrelation, in the same pass as the sums of
   // squares (the numbers `autocorrelationInto` would compute: the same plain sum for the mean).
   const mean = se / n;
-  const dev = new Float64Array(n);
+  // The deviations overwrite the residuals in place (each residual is read just before its slot is
+  // written, and nothing reads the residuals after this pass): one array of n fewer.
+  const dev = res;
   const { c0, see, cee, syy, cyy, above, below, runs } = residualSums(measured, predicted, res, dev, mean, ybar, n === N);
   const sse = see + cee;
   const sst = syy + cyy;
@@ -90,7 +92,8 @@ function finiteResiduals(measured: Float64Array, predicted: Float64Array, e: Flo
 }
 
 /**
- * The pass over the kept rows (all of them when `all`): the deviations from `mean` into dev with
+ * The pass over the kept rows (all of them when `all`): the deviations from `mean` into dev (which
+ * may be res itself: res[j] is read before dev[j] is written) with
  * c0 = Σ dev², the compensated Σe² and Σ(y − ȳ)², and the runs test's counts (a kernel of its own).
  */
 function residualSums(measured: Float64Array, predicted: Float64Array, res: Float64Array, dev: Float64Array, mean: number, ybar: number, all: boolean):
