@@ -3,7 +3,8 @@
  * by direct sums, Ljung–Box, runs test); (b) interval coverage of the locked-rotor R, L fit over
  * 2000 seeds (invented recordings); (c) finding rates over seeds on invented recordings;
  * (d) coverage of diagnoseFit's 95 % intervals on fitMotor results over 3000 seeds; (e) stiction
- * detection / false-alarm rates on invented slow ramps; (f) diagnoseFit finding rates and time.
+ * detection / false-alarm rates on invented slow ramps; (f) diagnoseFit finding rates and time;
+ * (g) false alarms per finding; (h) diagnoseFit's time on one long PRBS run (1e5 and 1e6 samples).
  * Speed goal: residualStats on 1e6 samples with 50 lags in <= 0.5 s; diagnoseFit (with scans) on a
  * locked-rotor + 2 kHz PRBS pair in <= 0.5 s.
  */
@@ -154,5 +155,21 @@ export default async function run(): Promise<void> {
     for (let s = 1; s <= G; s++) for (const c of new Set(scanRecording(invented(p, kind, 5000 + s, extra), { kind }).findings.map((f) => f.code))) m.set(c, (m.get(c) ?? 0) + 1);
     if (m.size === 0) console.log(`${label.padEnd(24)} ${'(none)'.padEnd(20)} ${pad(`0/${G}`, 7)} ${pad('0.00', 6)} ${pad(cp(0, G).toFixed(3), 7)}`);
     for (const [c, k] of m) console.log(`${label.padEnd(24)} ${c.padEnd(20)} ${pad(`${k}/${G}`, 7)} ${pad((k / G).toFixed(2), 6)} ${pad(cp(k, G).toFixed(3), 7)}`);
+  }
+
+  console.log('\n(h) diagnoseFit on one long invented PRBS run (10 kHz, current + speed), lumped fit: first call in this process and best of 3');
+  console.log(`${pad('samples', 9)} ${pad('first ms', 9)} ${pad('best ms', 8)}  findings`);
+  for (const n of [1e5, 1e6]) {
+    const recs = [{ recording: invented(MOTOR, 'prbs', 77, { sampleRate: 10000, duration: n / 10000 }), kind: 'prbs' as const }];
+    const fit = fitMotor(recs, { extensions: {}, coulomb: false });
+    const times: number[] = [];
+    let codes = '';
+    for (let r = 0; r < 4; r++) {
+      const a = performance.now();
+      const d = diagnoseFit(fit, recs, { alpha: 0.01 });
+      times.push(performance.now() - a);
+      codes = d.findings.map((f) => f.code).join(' ') || '(none)';
+    }
+    console.log(`${pad(n, 9)} ${pad(times[0]!.toFixed(0), 9)} ${pad(Math.min(...times.slice(1)).toFixed(0), 8)}  ${codes}`);
   }
 }

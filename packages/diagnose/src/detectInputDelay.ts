@@ -1,4 +1,5 @@
 import { checkRecording, sig } from './internal.js';
+import { laggedSumsInto } from './laggedSums.js';
 import type { Finding, RecordingLike } from './types.js';
 
 /**
@@ -33,12 +34,9 @@ export function detectInputDelay(recording: RecordingLike): Finding | null {
   }
   if (!(vv > 0 && ii > 0)) return null;
   const norm = Math.sqrt(vv * ii);
-  const c = new Float64Array(m + 1);
-  for (let lag = 0; lag <= m; lag++) {
-    let s = 0;
-    for (let k = 0; k + lag < n - 1; k++) s += dv[k]! * di[k + lag]!;
-    c[lag] = s / norm;
-  }
+  // c(ℓ) = Σ_k dv[k]·di[k + ℓ] / norm, every lag summed in order of k (in one sweep for eight lags).
+  const c = laggedSumsInto(new Float64Array(m + 1), dv, di, 0, n - 1, 0, m);
+  for (let lag = 0; lag <= m; lag++) c[lag] = c[lag]! / norm;
   let best = 0;
   for (let lag = 1; lag <= m; lag++) if (Math.abs(c[lag]!) > Math.abs(c[best]!)) best = lag;
   const band = 4 / Math.sqrt(n - 1);

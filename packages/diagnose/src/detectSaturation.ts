@@ -1,5 +1,5 @@
-import { detectEncoderSpeed, estimateNoiseLevel, selectKth } from '@motorprint/estimate';
-import { checkRecording, noiseOf, sig } from './internal.js';
+import { detectEncoderSpeed, selectKth } from '@motorprint/estimate';
+import { checkRecording, noiseLevel, noiseOf, sig } from './internal.js';
 import type { Finding, RecordingLike } from './types.js';
 
 /**
@@ -34,11 +34,10 @@ export function detectSaturation(recording: RecordingLike, options: { commandedV
   for (const name of ['voltage', 'current', 'speed', 'torque'] as const) {
     const x = recording.channels[name];
     if (!x || n < 20) continue;
-    const lvl = estimateNoiseLevel(x);
+    const lvl = noiseLevel(x);
     const sigma = lvl.sigma;
     if (!(sigma > 0)) continue;
-    let max = -Infinity, min = Infinity;
-    for (let k = 0; k < n; k++) { if (x[k]! > max) max = x[k]!; if (x[k]! < min) min = x[k]!; }
+    const [min, max] = extremes(x);
     // An encoder speed repeats its codes by construction (a slow rotor reads 0 between counts):
     // only a rail the speed arrives at while moving counts there, not a long run.
     const encoder = name === 'speed' && detectEncoderSpeed(recording.time, x) !== null;
@@ -159,4 +158,16 @@ function erf(x: number): number {
   const t = 1 / (1 + 0.3275911 * Math.abs(x));
   const y = 1 - (((((1.061405429 * t - 1.453152027) * t) + 1.421413741) * t - 0.284496736) * t + 0.254829592) * t * Math.exp(-x * x);
   return x >= 0 ? y : -y;
+}
+
+/** [smallest, largest] of x, read in order of k (a kernel of its own, so that it is optimised on its own). */
+function extremes(x: Float64Array): [number, number] {
+  let max = -Infinity, min = Infinity;
+  const n = x.length;
+  for (let k = 0; k < n; k++) {
+    const v = x[k]!;
+    if (v > max) max = v;
+    if (v < min) min = v;
+  }
+  return [min, max];
 }

@@ -25,12 +25,7 @@ export function detectSensorOffset(recording: RecordingLike): Finding[] {
   const sv = noiseOf(voltage), si = noiseOf(current), sw = noiseOf(speed);
   const out: Finding[] = [];
   const test = (name: 'current' | 'speed', x: Float64Array, sx: number, other: Float64Array | undefined, so: number, unit: string): void => {
-    const idx: number[] = [];
-    for (let k = 0; k < n; k++) {
-      if (Math.abs(voltage[k]!) >= 4 * Math.max(sv, 1e-12)) continue;
-      if (other && Math.abs(other[k]!) >= 4 * Math.max(so, 1e-12)) continue;
-      idx.push(k);
-    }
+    const idx = restRows(voltage, 4 * Math.max(sv, 1e-12), other, 4 * Math.max(so, 1e-12), n);
     const m = idx.length;
     if (m < 40 || !(sx > 0)) return;
     const half = m >> 1;
@@ -52,4 +47,16 @@ export function detectSensorOffset(recording: RecordingLike): Finding[] {
   if (current) test('current', current, si, speed, sw, 'A');
   if (speed) test('speed', speed, sw, current, si, 'rad/s');
   return out;
+}
+
+/** The samples k < n with |voltage| and |other| (when given) not at or above their limits, in order (a kernel of its own). */
+function restRows(voltage: Float64Array, vLimit: number, other: Float64Array | undefined, oLimit: number, n: number): Int32Array {
+  const idx = new Int32Array(n);
+  let m = 0;
+  if (other) {
+    for (let k = 0; k < n; k++) if (!(Math.abs(voltage[k]!) >= vLimit) && !(Math.abs(other[k]!) >= oLimit)) idx[m++] = k;
+  } else {
+    for (let k = 0; k < n; k++) if (!(Math.abs(voltage[k]!) >= vLimit)) idx[m++] = k;
+  }
+  return idx.subarray(0, m);
 }

@@ -57,9 +57,13 @@ export function stictionWith(recording: RecordingLike, regress: (input: Mechanic
   const rows: number[] = [];
   for (let k = edge; k < n - edge; k += dec) if (Math.abs(w[k]!) > 2 * dead) rows.push(k);
   if (rows.length < 20) return null;
-  const fit = fitLinearModel([
-    Float64Array.from(rows, (k) => acc[k]!), Float64Array.from(rows, (k) => w[k]!), Float64Array.from(rows, (k) => Math.sign(w[k]!)),
-  ], Float64Array.from(rows, (k) => i[k]!));
+  const r = rows.length;
+  const cAcc = new Float64Array(r), cW = new Float64Array(r), cS = new Float64Array(r), cI = new Float64Array(r);
+  for (let j = 0; j < r; j++) {
+    const k = rows[j]!;
+    cAcc[j] = acc[k]!; cW[j] = w[k]!; cS[j] = Math.sign(w[k]!); cI[j] = i[k]!;
+  }
+  const fit = fitLinearModel([cAcc, cW, cS], cI);
   const c = Math.max(fit.coefficients[2]!, 0);
   const s = Math.sqrt(fit.residualVariance);
   if (!Number.isFinite(c) || !(s > 0)) return null;

@@ -5,7 +5,7 @@ import { detectResidualDelay } from './detectResidualDelay.js';
 import { detectResidualTrend } from './detectResidualTrend.js';
 import { detectWeakExcitation } from './detectWeakExcitation.js';
 import { diagnoseParameters } from './diagnoseParameters.js';
-import { medianInterval } from './internal.js';
+import { sampleIntervalOf, withSharedNoise } from './internal.js';
 import { residualStats } from './residualStats.js';
 import { scanRecording } from './scanRecording.js';
 import type {
@@ -54,6 +54,11 @@ const CHANNELS: readonly ChannelName[] = ['voltage', 'current', 'speed', 'positi
  * d.parameters.R; // => { value: 2.0004, unit: 'Ω', standardError: 0.0009, interval95: [1.9986, 2.0022], identifiable: true, fixed: false }
  */
 export function diagnoseFit(fit: MotorFit, recordings: MotorRecordingInput[], options: DiagnoseFitOptions = {}): FitDiagnosis {
+  // The scans and the residual detectors read the same channels' noise levels: each once.
+  return withSharedNoise(() => diagnoseShared(fit, recordings, options));
+}
+
+function diagnoseShared(fit: MotorFit, recordings: MotorRecordingInput[], options: DiagnoseFitOptions): FitDiagnosis {
   const fn = 'diagnoseFit';
   if (fit === null || typeof fit !== 'object' || !Array.isArray(fit.theta) || !Array.isArray(fit.fittedNames) || !(fit.normalMatrix instanceof Float64Array) || !Array.isArray(fit.recordings)) {
     throw new TypeError(`${fn}: fit must be a MotorFit (the result of fitMotor)`);
@@ -83,7 +88,7 @@ export function diagnoseFit(fit: MotorFit, recordings: MotorRecordingInput[], op
     name: fit.recordings[i]!.name,
     kind: fit.recordings[i]!.kind,
     channels: CHANNELS.filter((c) => item.recording.channels[c] instanceof Float64Array),
-    sampleInterval: medianInterval(item.recording.time),
+    sampleInterval: sampleIntervalOf(item.recording),
   }));
   const part = diagnoseParameters(fit, descriptions);
 
@@ -103,9 +108,7 @@ export function diagnoseFit(fit: MotorFit, recordings: MotorRecordingInput[], op
       const measured = measuredChannel(rec, ch.channel);
       const res = ch.residuals;
       if (!(measured instanceof Float64Array) || res === null || res.length !== measured.length) continue;
-      const predicted = new Float64Array(measured.length);
-      let finiteRows = 0;
-      for (let k = 0; k < measured.length; k++) { predicted[k] = measured[k]! + res[k]!; if (Number.isFinite(predicted[k]!)) finiteRows++; }
+      const { predicted, finiteRows } = modelOutput(measured, res);
       if (finiteRows < 8) continue;
       const lag = Math.min(options.maxLag ?? Math.min(50, Math.floor(finiteRows / 4)), finiteRows - 1);
       residuals.push({ recording: rep.name, kind: rep.kind, channel: ch.channel, stats: residualStats(measured, predicted, lag) });
@@ -170,4 +173,17 @@ export function diagnoseFit(fit: MotorFit, recordings: MotorRecordingInput[], op
     findings,
     comparisons,
   };
+}
+
+/** The model output ŷ = measured + residual, and how many of its samples are finite (a small kernel of its own, so that it is optimised on its own). */
+function modelOutput(measured: Float64Array, res: Float64Array): { predicted: Float64Array; finiteRows: number } {
+  const n = measured.length;
+  const predicted = new Float64Array(n);
+  let finiteRows = 0;
+  for (let k = 0; k < n; k++) {
+    const v = measured[k]! + res[k]!;
+    predicted[k] = v;
+    if (Number.isFinite(v)) finiteRows++;
+  }
+  return { predicted, finiteRows };
 }

@@ -1,6 +1,9 @@
 import { Matrix, SingularValueDecomposition } from 'ml-matrix';
 import type { LinearFit } from './types.js';
 
+/** Rows per block of the one-sweep sums (a few columns of it stay in the L1/L2 cache). */
+const BLOCK = 2048;
+
 /**
  * Ordinary least squares y = Xβ + e with standard errors, for the small regressions behind the
  * findings (current against speed and acceleration, deceleration against speed) and the model
@@ -35,29 +38,50 @@ export function fitLinearModel(columns: readonly Float64Array[], y: Float64Array
     if (!(c instanceof Float64Array) || c.length !== n) throw new TypeError(`${fn}: columns[${j}] must be a Float64Array of length ${n}`);
   }
   if (n <= p) throw new RangeError(`${fn}: need more rows than columns (got ${n} rows, ${p} columns)`);
-  for (let k = 0; k < n; k++) if (!Number.isFinite(y[k]!)) throw new RangeError(`${fn}: y[${k}] must be finite (got ${y[k]})`);
-  const scale = new Float64Array(p);
-  for (let j = 0; j < p; j++) {
-    const c = columns[j]!;
-    let s = 0;
-    for (let k = 0; k < n; k++) {
-      const v = c[k]!;
-      if (!Number.isFinite(v)) throw new RangeError(`${fn}: columns[${j}][${k}] must be finite (got ${v})`);
-      s += v * v;
+  // Every sum of products below is taken in order of k, as one loop per sum would take it, but
+  // over blocks of rows that stay in cache: all the sums in one sweep over the data.
+  const sq = new Float64Array(p);
+  const xy = new Float64Array(p);
+  const cross = new Float64Array(p * p);
+  let check = 0;
+  if (p === 2) check = sumsOfTwo(columns[0]!, columns[1]!, y, sq, xy, cross);
+  else if (p === 3) check = sumsOfThree(columns[0]!, columns[1]!, columns[2]!, y, sq, xy, cross);
+  else for (let k0 = 0; k0 < n; k0 += BLOCK) {
+    const k1 = Math.min(n, k0 + BLOCK);
+    // 0 while every y is finite; NaN from the first one that is not.
+    for (let k = k0; k < k1; k++) check += y[k]! * 0;
+    for (let i = 0; i < p; i++) {
+      const ci = columns[i]!;
+      let s = sq[i]!, b = xy[i]!;
+      for (let k = k0; k < k1; k++) { const v = ci[k]!; s += v * v; b += v * y[k]!; }
+      sq[i] = s; xy[i] = b;
+      for (let j = i + 1; j < p; j++) {
+        const cj = columns[j]!;
+        let c = cross[i * p + j]!;
+        for (let k = k0; k < k1; k++) c += ci[k]! * cj[k]!;
+        cross[i * p + j] = c;
+      }
     }
-    scale[j] = s > 0 ? Math.sqrt(s) : 1;
   }
+  // A value that is not finite makes its sums not finite: then find it as a check in order would.
+  let suspect = !(check === 0);
+  for (let i = 0; i < p; i++) if (!Number.isFinite(sq[i]!)) suspect = true;
+  if (suspect) {
+    for (let k = 0; k < n; k++) if (!Number.isFinite(y[k]!)) throw new RangeError(`${fn}: y[${k}] must be finite (got ${y[k]})`);
+    for (let j = 0; j < p; j++) {
+      const c = columns[j]!;
+      for (let k = 0; k < n; k++) if (!Number.isFinite(c[k]!)) throw new RangeError(`${fn}: columns[${j}][${k}] must be finite (got ${c[k]})`);
+    }
+  }
+  const scale = new Float64Array(p);
+  for (let j = 0; j < p; j++) scale[j] = sq[j]! > 0 ? Math.sqrt(sq[j]!) : 1;
   const A = new Matrix(p, p);
   const b = new Float64Array(p);
   for (let i = 0; i < p; i++) {
-    const ci = columns[i]!;
-    let bi = 0;
-    for (let k = 0; k < n; k++) bi += ci[k]! * y[k]!;
-    b[i] = bi / scale[i]!;
+    b[i] = xy[i]! / scale[i]!;
     for (let j = i; j < p; j++) {
-      const cj = columns[j]!;
-      let s = 0;
-      for (let k = 0; k < n; k++) s += ci[k]! * cj[k]!;
+      // Σ c_i² is the sum the scale came from (the same terms in the same order).
+      const s = j === i ? sq[i]! : cross[i * p + j]!;
       const v = s / (scale[i]! * scale[j]!);
       A.set(i, j, v);
       A.set(j, i, v);
@@ -84,12 +108,7 @@ export function fitLinearModel(columns: readonly Float64Array[], y: Float64Array
     for (let j = 0; j < p; j++) s += Ainv[i * p + j]! * b[j]!;
     beta[i] = s / scale[i]!;
   }
-  let ssr = 0;
-  for (let k = 0; k < n; k++) {
-    let e = y[k]!;
-    for (let j = 0; j < p; j++) e -= beta[j]! * columns[j]![k]!;
-    ssr += e * e;
-  }
+  const ssr = sumOfSquaredResiduals(columns, beta, y);
   const s2 = ssr / (n - p);
   const covariance = new Float64Array(p * p);
   const standardErrors = new Float64Array(p);
@@ -99,4 +118,65 @@ export function fitLinearModel(columns: readonly Float64Array[], y: Float64Array
     if (bad[i]) beta[i] = NaN;
   }
   return { coefficients: beta, standardErrors, ssr, samples: n, residualVariance: s2, covariance };
+}
+
+/**
+ * Σ_k (y_k − Σ_j β_j·x_jk)², each residual formed as y − β₀x₀ − β₁x₁ − … in that order (written
+ * out for up to four columns, the loop over columns beyond).
+ */
+function sumOfSquaredResiduals(columns: readonly Float64Array[], beta: Float64Array, y: Float64Array): number {
+  const n = y.length;
+  const p = columns.length;
+  let ssr = 0;
+  if (p === 2) {
+    const c0 = columns[0]!, c1 = columns[1]!, b0 = beta[0]!, b1 = beta[1]!;
+    for (let k = 0; k < n; k++) { const e = y[k]! - b0 * c0[k]! - b1 * c1[k]!; ssr += e * e; }
+  } else if (p === 3) {
+    const c0 = columns[0]!, c1 = columns[1]!, c2 = columns[2]!, b0 = beta[0]!, b1 = beta[1]!, b2 = beta[2]!;
+    for (let k = 0; k < n; k++) { const e = y[k]! - b0 * c0[k]! - b1 * c1[k]! - b2 * c2[k]!; ssr += e * e; }
+  } else if (p === 4) {
+    const c0 = columns[0]!, c1 = columns[1]!, c2 = columns[2]!, c3 = columns[3]!, b0 = beta[0]!, b1 = beta[1]!, b2 = beta[2]!, b3 = beta[3]!;
+    for (let k = 0; k < n; k++) { const e = y[k]! - b0 * c0[k]! - b1 * c1[k]! - b2 * c2[k]! - b3 * c3[k]!; ssr += e * e; }
+  } else {
+    for (let k = 0; k < n; k++) {
+      let e = y[k]!;
+      for (let j = 0; j < p; j++) e -= beta[j]! * columns[j]![k]!;
+      ssr += e * e;
+    }
+  }
+  return ssr;
+}
+
+/**
+ * The sums of the normal equations for two columns in one loop (each sum in order of k, as the
+ * blocked loop of `fitLinearModel` takes it): Σa², Σb² into sq, Σa·y, Σb·y into xy, Σa·b into
+ * cross[1]; returns Σ y·0 (0, or NaN when some y is not finite).
+ */
+function sumsOfTwo(a: Float64Array, b: Float64Array, y: Float64Array, sq: Float64Array, xy: Float64Array, cross: Float64Array): number {
+  const n = y.length;
+  let check = 0, aa = 0, bb = 0, ay = 0, by = 0, ab = 0;
+  for (let k = 0; k < n; k++) {
+    const u = a[k]!, v = b[k]!, w = y[k]!;
+    check += w * 0;
+    aa += u * u; ay += u * w; ab += u * v;
+    bb += v * v; by += v * w;
+  }
+  sq[0] = aa; sq[1] = bb; xy[0] = ay; xy[1] = by; cross[1] = ab;
+  return check;
+}
+
+/** `sumsOfTwo` for three columns (cross[p·i + j] for i < j, p = 3). */
+function sumsOfThree(a: Float64Array, b: Float64Array, c: Float64Array, y: Float64Array, sq: Float64Array, xy: Float64Array, cross: Float64Array): number {
+  const n = y.length;
+  let check = 0, aa = 0, bb = 0, cc = 0, ay = 0, by = 0, cy = 0, ab = 0, ac = 0, bc = 0;
+  for (let k = 0; k < n; k++) {
+    const u = a[k]!, v = b[k]!, t = c[k]!, w = y[k]!;
+    check += w * 0;
+    aa += u * u; ay += u * w; ab += u * v; ac += u * t;
+    bb += v * v; by += v * w; bc += v * t;
+    cc += t * t; cy += t * w;
+  }
+  sq[0] = aa; sq[1] = bb; sq[2] = cc; xy[0] = ay; xy[1] = by; xy[2] = cy;
+  cross[1] = ab; cross[2] = ac; cross[5] = bc;
+  return check;
 }

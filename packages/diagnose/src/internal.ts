@@ -2,13 +2,57 @@
  * Small shared helpers of the detectors (not exported from the package).
  */
 import { estimateNoiseLevel, medianInterval } from '@motorprint/estimate';
+import type { NoiseLevel } from '@motorprint/estimate';
 import type { RecordingLike } from './types.js';
 
 export { medianInterval } from '@motorprint/estimate';
 
+/**
+ * What was already computed inside the current `withSharedNoise` call, by array: the noise levels
+ * (the detectors of one diagnosis ask for the same channels' levels again and again, and
+ * `estimateNoiseLevel`'s own memo compares every sample to its copy on each of those asks) and
+ * the median sample intervals of the time arrays. Inside one synchronous call no array changes
+ * (the detectors only read them), so the values are kept by identity; the maps are dropped when
+ * the outermost call returns or throws.
+ */
+let shared: { noise: Map<Float64Array, NoiseLevel>; intervals: Map<Float64Array, number> } | null = null;
+
+/** Runs `work` with the noise levels and sample intervals of its arrays computed once each (see `noiseLevel`). */
+export function withSharedNoise<T>(work: () => T): T {
+  if (shared !== null) return work();
+  shared = { noise: new Map(), intervals: new Map() };
+  try {
+    return work();
+  } finally {
+    shared = null;
+  }
+}
+
+/** `estimateNoiseLevel(x)`, once per array inside a `withSharedNoise` call (a failure is not kept: it is raised again). */
+export function noiseLevel(x: Float64Array): NoiseLevel {
+  if (shared === null) return estimateNoiseLevel(x);
+  let level = shared.noise.get(x);
+  if (level === undefined) {
+    level = estimateNoiseLevel(x);
+    shared.noise.set(x, level);
+  }
+  return { ...level };
+}
+
+/** `medianInterval(time)`, once per array inside a `withSharedNoise` call. */
+function intervalOf(time: Float64Array): number {
+  if (shared === null) return medianInterval(time);
+  let dt = shared.intervals.get(time);
+  if (dt === undefined) {
+    dt = medianInterval(time);
+    shared.intervals.set(time, dt);
+  }
+  return dt;
+}
+
 /** Noise SD of a channel, or NaN when the channel is absent. */
 export function noiseOf(x: Float64Array | undefined): number {
-  return x instanceof Float64Array && x.length >= 4 ? estimateNoiseLevel(x).sigma : NaN;
+  return x instanceof Float64Array && x.length >= 4 ? noiseLevel(x).sigma : NaN;
 }
 
 /**
@@ -37,12 +81,26 @@ export function checkRecording(fn: string, rec: RecordingLike): { n: number; dt:
     if (v === undefined) continue;
     if (!(v instanceof Float64Array)) throw new TypeError(`${fn}: recording.channels.${name} must be a Float64Array`);
     if (v.length !== n) throw new TypeError(`${fn}: recording.channels.${name} has ${v.length} samples, time has ${n}`);
-    for (let k = 0; k < n; k++) if (!Number.isFinite(v[k]!)) throw new RangeError(`${fn}: recording.channels.${name}[${k}] must be finite (got ${v[k]})`);
+    const k = firstNotFinite(v);
+    if (k >= 0) throw new RangeError(`${fn}: recording.channels.${name}[${k}] must be finite (got ${v[k]})`);
   }
-  const dt = medianInterval(rec.time);
+  const dt = intervalOf(rec.time);
   if (!(dt > 0)) throw new RangeError(`${fn}: recording.time must be increasing (median interval ${dt})`);
   checked.set(rec, { n, dt, arrays });
   return { n, dt };
+}
+
+/**
+ * `medianInterval(rec.time)`, read from `checkRecording`'s record of the recording when it was
+ * checked with these same arrays (it holds that very value), computed otherwise.
+ */
+export function sampleIntervalOf(rec: RecordingLike): number {
+  const seen = rec !== null && typeof rec === 'object' ? checked.get(rec) : undefined;
+  if (seen !== undefined && rec.time instanceof Float64Array && seen.n === rec.time.length) {
+    const arrays = arraysOf(rec);
+    if (seen.arrays.length === arrays.length && seen.arrays.every((a, i) => a === arrays[i])) return seen.dt;
+  }
+  return intervalOf(rec.time);
 }
 
 /** Rounds for evidence tables (4 significant digits). */
@@ -63,13 +121,19 @@ export function slopeWithSerialCorrection(x: Float64Array, y: Float64Array): { s
   const bad = { slope: NaN, intercept: NaN, se: NaN, rows: m, lag1: NaN, sd: NaN };
   if (m < 8) return bad;
   const xb = sx / m, yb = sy / m;
+  // Every row finite (the usual case): the same sums without the row tests.
+  const all = m === n;
   let sxx = 0, sxy = 0;
-  for (let k = 0; k < n; k++) if (Number.isFinite(y[k]!) && Number.isFinite(x[k]!)) { const dx = x[k]! - xb; sxx += dx * dx; sxy += dx * (y[k]! - yb); }
+  if (all) {
+    for (let k = 0; k < n; k++) { const dx = x[k]! - xb; sxx += dx * dx; sxy += dx * (y[k]! - yb); }
+  } else {
+    for (let k = 0; k < n; k++) if (Number.isFinite(y[k]!) && Number.isFinite(x[k]!)) { const dx = x[k]! - xb; sxx += dx * dx; sxy += dx * (y[k]! - yb); }
+  }
   if (!(sxx > 0)) return bad;
   const slope = sxy / sxx, intercept = yb - slope * xb;
   let ss = 0, s1 = 0, prev = NaN;
   for (let k = 0; k < n; k++) {
-    if (!Number.isFinite(y[k]!) || !Number.isFinite(x[k]!)) { prev = NaN; continue; }
+    if (!all && (!Number.isFinite(y[k]!) || !Number.isFinite(x[k]!))) { prev = NaN; continue; }
     const e = y[k]! - intercept - slope * x[k]!;
     ss += e * e;
     if (Number.isFinite(prev)) s1 += e * prev;
@@ -80,3 +144,10 @@ export function slopeWithSerialCorrection(x: Float64Array, y: Float64Array): { s
   return { slope, intercept, se: Math.sqrt(s2 / sxx) * Math.sqrt((1 + r1) / (1 - r1)), rows: m, lag1: r1, sd: Math.sqrt(s2) };
 }
 
+
+/** Index of the first sample of x that is not finite, or −1 (one small loop for every channel, optimised once). */
+export function firstNotFinite(x: Float64Array): number {
+  const n = x.length;
+  for (let k = 0; k < n; k++) if (!Number.isFinite(x[k]!)) return k;
+  return -1;
+}

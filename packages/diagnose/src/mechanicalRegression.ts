@@ -1,5 +1,6 @@
-import { estimateNoiseLevel, zeroPhaseLowPass } from '@motorprint/estimate';
+import { zeroPhaseLowPass } from '@motorprint/estimate';
 import { compareNestedModels } from './compareNestedModels.js';
+import { noiseLevel } from './internal.js';
 import { fitLinearModel } from './fitLinearModel.js';
 import type { LinearFit, ModelComparison } from './types.js';
 
@@ -90,6 +91,15 @@ export interface MechanicalRegression {
  * mechanicalRegression({ sampleInterval: 1e-4, drive: current, speed }).coulombComparison.preferred; // => 'full' with Coulomb friction
  */
 export function mechanicalRegression(input: MechanicalRegressionInput): MechanicalRegression {
+  return mechanicalRegressionOf(input, false);
+}
+
+/**
+ * `mechanicalRegression`, skipping the scan for samples that are not finite when `finiteChecked`
+ * says the drive and the speed (or position) are channels `checkRecording` has already checked
+ * (the scan's regression: the same arrays, read twice otherwise).
+ */
+export function mechanicalRegressionOf(input: MechanicalRegressionInput, finiteChecked: boolean): MechanicalRegression {
   const fn = 'mechanicalRegression';
   if (input === null || typeof input !== 'object') throw new TypeError(`${fn}: input must be an object`);
   const { drive, speed, position } = input;
@@ -106,31 +116,37 @@ export function mechanicalRegression(input: MechanicalRegressionInput): Mechanic
   if (!Number.isInteger(dec) || dec < 1) throw new RangeError(`${fn}: input.decimation must be an integer >= 1 (got ${dec})`);
   const trim = input.trim ?? 5;
   if (!Number.isInteger(trim) || trim < 0) throw new RangeError(`${fn}: input.trim must be an integer >= 0 (got ${trim})`);
-  for (let k = 0; k < n; k++) {
+  for (let k = 0; !finiteChecked && k < n; k++) {
     if (!Number.isFinite(drive[k]!)) throw new RangeError(`${fn}: input.drive[${k}] must be finite (got ${drive[k]})`);
     if (!Number.isFinite(motion[k]!)) throw new RangeError(`${fn}: input.${speed ? 'speed' : 'position'}[${k}] must be finite (got ${motion[k]})`);
   }
   const lp = (x: Float64Array): Float64Array => zeroPhaseLowPass(x, h, fc);
   const y = lp(drive);
-  const w = new Float64Array(n);
+  // The filtered speed itself (a fresh array of length n), or the differenced filtered position.
+  const w = speed ? lp(speed) : new Float64Array(n);
   let rawSigma: number;
   if (speed) {
-    w.set(lp(speed));
-    rawSigma = estimateNoiseLevel(speed).sigma;
+    rawSigma = noiseLevel(speed).sigma;
   } else {
     const q = lp(position!);
     for (let k = 1; k + 1 < n; k++) w[k] = (q[k + 1]! - q[k - 1]!) / (2 * h);
     w[0] = w[1]!;
     w[n - 1] = w[n - 2]!;
     // Position noise σq becomes speed noise ≈ σq/h (difference of two samples, divided by 2h).
-    rawSigma = estimateNoiseLevel(position!).sigma / h;
+    rawSigma = noiseLevel(position!).sigma / h;
   }
   const acc = new Float64Array(n);
-  for (let k = 1; k + 1 < n; k++) acc[k] = (w[k + 1]! - w[k - 1]!) / (2 * h);
+  // The central differences and the speed's range in one pass (the range still read in order of k).
+  let wmin = Infinity, wmax = -Infinity;
+  const h2 = 2 * h;
+  for (let k = 0; k < n; k++) {
+    const v = w[k]!;
+    if (v < wmin) wmin = v;
+    if (v > wmax) wmax = v;
+    if (k >= 1 && k + 1 < n) acc[k] = (w[k + 1]! - w[k - 1]!) / h2;
+  }
   acc[0] = acc[1]!;
   acc[n - 1] = acc[n - 2]!;
-  let wmin = Infinity, wmax = -Infinity;
-  for (let k = 0; k < n; k++) { if (w[k]! < wmin) wmin = w[k]!; if (w[k]! > wmax) wmax = w[k]!; }
   // Filtered white noise keeps the fraction ≈ √(2·fc·h·(π/4)) of its SD (4th-order response, squared by the two passes);
   // √(2·fc·h) is used as a slightly generous bound.
   const deadBand = 4 * rawSigma * Math.sqrt(Math.min(1, 2 * fc * h)) + 1e-3 * (wmax - wmin);
@@ -142,9 +158,13 @@ export function mechanicalRegression(input: MechanicalRegressionInput): Mechanic
   const used = rows.slice(trim, rows.length - trim);
   const m = used.length;
   if (m < 20) throw new RangeError(`${fn}: only ${m} rows remain after decimation by ${dec} and trimming (need >= 20)`);
-  const pick = (x: Float64Array): Float64Array => Float64Array.from(used, (k) => x[k]!);
-  const cAcc = pick(acc), cW = pick(w), cS = pick(sgn), cY = pick(y);
-  const cD = Float64Array.from(cW, (v) => v * Math.abs(v));
+  // The decimated rows (plain loops: a typed array's from() with a map function is slow).
+  const cAcc = new Float64Array(m), cW = new Float64Array(m), cS = new Float64Array(m), cY = new Float64Array(m), cD = new Float64Array(m);
+  for (let j = 0; j < m; j++) {
+    const k = used[j]!;
+    const v = w[k]!;
+    cAcc[j] = acc[k]!; cW[j] = v; cS[j] = sgn[k]!; cY[j] = y[k]!; cD[j] = v * Math.abs(v);
+  }
   const extra = input.offset === true ? [new Float64Array(m).fill(1)] : [];
   const q = extra.length;
   const viscous = fitLinearModel([cAcc, cW, ...extra], cY);

@@ -39,6 +39,11 @@ export function runsTest(x: Float64Array, centre = 0): RunsTestResult {
     if (s !== last) runs++;
     last = s;
   }
+  return runsFromCounts(runs, above, below);
+}
+
+/** The runs test from its counts (R runs, n₁ above, n₂ below): E[R], z and the p-value as `runsTest` states them. */
+export function runsFromCounts(runs: number, above: number, below: number): RunsTestResult {
   const m = above + below;
   const expectedRuns = m > 0 ? (2 * above * below) / m + 1 : NaN;
   if (above < 2 || below < 2) return { runs, above, below, expectedRuns, z: NaN, pValue: NaN };

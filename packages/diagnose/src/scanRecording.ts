@@ -6,8 +6,8 @@ import { detectSlowSampling } from './detectSlowSampling.js';
 import { stictionWith } from './detectStiction.js';
 import { detectWeakExcitation } from './detectWeakExcitation.js';
 import { detectWindingHeating } from './detectWindingHeating.js';
-import { checkRecording } from './internal.js';
-import { mechanicalRegression } from './mechanicalRegression.js';
+import { checkRecording, withSharedNoise } from './internal.js';
+import { mechanicalRegressionOf } from './mechanicalRegression.js';
 import type { MechanicalRegression, MechanicalRegressionInput } from './mechanicalRegression.js';
 import type { Finding, ModelComparison, RecordingKind, RecordingLike } from './types.js';
 
@@ -37,6 +37,11 @@ export interface ScanOptions {
  * scanRecording(sweep, { kind: 'steady-state' }).findings.map((f) => f.code); // => ['coulomb-friction'] with Coulomb friction
  */
 export function scanRecording(recording: RecordingLike, options: ScanOptions = {}): { findings: Finding[]; comparisons: ModelComparison[] } {
+  // Every detector below reads the same channels' noise levels: each is estimated once.
+  return withSharedNoise(() => scanShared(recording, options));
+}
+
+function scanShared(recording: RecordingLike, options: ScanOptions): { findings: Finding[]; comparisons: ModelComparison[] } {
   checkRecording('scanRecording', recording);
   if (options === null || typeof options !== 'object') throw new TypeError('scanRecording: options must be an object');
   const kind = options.kind ?? 'unknown';
@@ -88,7 +93,8 @@ function sharedRegression(): (input: MechanicalRegressionInput) => MechanicalReg
       return hit.result!;
     }
     try {
-      const result = mechanicalRegression(input);
+      // The drive and the speed are the recording's channels, checked finite by checkRecording above.
+      const result = mechanicalRegressionOf(input, true);
       done.push({ input: { ...input }, result });
       return result;
     } catch (error) {

@@ -1,5 +1,6 @@
-import { estimateNoiseLevel, zeroPhaseLowPass } from '@motorprint/estimate';
+import { zeroPhaseLowPass } from '@motorprint/estimate';
 import fCdf from '@stdlib/stats-base-dists-f-cdf';
+import { noiseLevel } from './internal.js';
 
 /** One coefficient test of the steady current–speed line (internal). */
 export interface SteadyLineTerm {
@@ -39,11 +40,11 @@ export function steadyLineTest(
   const g = Math.max(1, Math.round(1 / (fc * dt)));
   let vmin = Infinity, vmax = -Infinity;
   for (let k = 0; k < n; k++) { if (vf[k]! < vmin) vmin = vf[k]!; if (vf[k]! > vmax) vmax = vf[k]!; }
-  const thr = Math.max(0.05 * (vmax - vmin), 10 * estimateNoiseLevel(voltage).sigma * Math.sqrt(2 * fc * dt));
+  const thr = Math.max(0.05 * (vmax - vmin), 10 * noiseLevel(voltage).sigma * Math.sqrt(2 * fc * dt));
   const still = new Uint8Array(n);
   for (let k = g; k + g < n; k++) still[k] = Math.abs(vf[k + g]! - vf[k - g]!) < thr ? 1 : 0;
-  const sigI = estimateNoiseLevel(drive).sigma;
-  const sigWf = estimateNoiseLevel(speed).sigma * Math.sqrt(2 * fc * dt);
+  const sigI = noiseLevel(drive).sigma;
+  const sigWf = noiseLevel(speed).sigma * Math.sqrt(2 * fc * dt);
   const xs: number[] = [], ys: number[] = [], ses: number[] = [];
   for (let k = 0; k < n;) {
     if (!still[k]) { k++; continue; }
