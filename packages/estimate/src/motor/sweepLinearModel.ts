@@ -574,10 +574,59 @@ function freeRunBasis(b: SweepBuffers, s: SweepSpec, k0: number, k1: number): vo
 }
 
 /**
- * `freeRun` of the score pass: the generic rows and advance, plus the four effect columns of
- * `b.effects` (see `EffectColumns`). One pass per test, so written for clarity over speed.
+ * `freeRun` of the score pass: the fit's rows, Jacobian and state (`freeRunSens` or
+ * `freeRunBasis`), then the four effect columns of `b.effects` (see `EffectColumns`) for the same
+ * rows. The model's current and speed at each sample are run again from the block's start with the
+ * kernels' own operations, so they are the kernels' values to the bit. Recordings without both a
+ * current and a speed channel take the generic rows instead.
  */
 function freeRunEffects(b: SweepBuffers, s: SweepSpec, k0: number, k1: number): void {
+  if (s.mi === null || s.mw === null) { freeRunEffectsGeneric(b, s, k0, k1); return; }
+  const M = b.slot, x = b.x, jac = b.jac, st = b.st, phi = b.phi;
+  const ef = b.effects!, e = ef.state;
+  const row0 = b.rows;
+  let i = x[0]!, w = x[1]!;
+  if (s.m > 0) freeRunBasis(b, s, k0, k1); else freeRunSens(b, s, k0, k1);
+  const c0 = ef.col * st, c1 = c0 + st, c2 = c1 + st, c3 = c2 + st;
+  const p11 = M[0]!, p12 = M[1]!, p21 = M[2]!, p22 = M[3]!, g1 = M[4]!, g2 = M[5]!, t1 = M[6]!, t2 = M[7]!;
+  const xt1 = t1 * s.tau, xt2 = t2 * s.tau;
+  const n = s.n, tau = ef.tau, kappa = s.R / ef.copper, sI = s.sI, sW = s.sW, time = s.time;
+  const cls = s.cls, levels = s.levels, input = s.input, frozenInput = s.m === 0;
+  let eTi = e[0]!, eTw = e[1]!, eCi = e[2]!, eCw = e[3]!, eFi = e[4]!, eFw = e[5]!, eGi = e[6]!, eGw = e[7]!, F = e[8]!, G = e[9]!;
+  let row = row0;
+  for (let k = k0; k < k1; k++) {
+    jac[c0 + row] = eTi * sI; jac[c1 + row] = eCi * sI; jac[c2 + row] = eFi * sI; jac[c3 + row] = eGi * sI;
+    row++;
+    jac[c0 + row] = eTw * sW; jac[c1 + row] = eCw * sW; jac[c2 + row] = eFw * sW; jac[c3 + row] = eGw * sW;
+    row++;
+    if (k + 1 >= n) break;
+    const v = cls !== null ? levels[cls[k]!]! : frozenInput ? input[k]! : inputAt(s, phi, k);
+    const h = time[k + 1]! - time[k]!;
+    // Inputs held over the interval: load torques sgn ω and ω|ω|, heating voltages −κ·F·i and −κ·G·i.
+    const uT = w > 0 ? 1 : w < 0 ? -1 : 0, uC = w * Math.abs(w);
+    const P = s.R * i * i, uF = -kappa * F * i, uG = -kappa * G * i;
+    let z = eTi;
+    eTi = p11 * z + p12 * eTw + t1 * uT; eTw = p21 * z + p22 * eTw + t2 * uT;
+    z = eCi;
+    eCi = p11 * z + p12 * eCw + t1 * uC; eCw = p21 * z + p22 * eCw + t2 * uC;
+    z = eFi;
+    eFi = p11 * z + p12 * eFw + g1 * uF; eFw = p21 * z + p22 * eFw + g2 * uF;
+    z = eGi;
+    eGi = p11 * z + p12 * eGw + g1 * uG; eGw = p21 * z + p22 * eGw + g2 * uG;
+    const q = Math.exp(-h / tau);
+    const Fn = q * F + (1 - q) * P;
+    G = q * G + ((q * h) / tau) * (F - P);
+    F = Fn;
+    // The kernels' own state update.
+    const iNext = p11 * i + p12 * w + g1 * v + xt1;
+    w = p21 * i + p22 * w + g2 * v + xt2;
+    i = iNext;
+  }
+  e[0] = eTi; e[1] = eTw; e[2] = eCi; e[3] = eCw; e[4] = eFi; e[5] = eFw; e[6] = eGi; e[7] = eGw; e[8] = F; e[9] = G;
+}
+
+/** `freeRunEffects` for a recording without both current and speed: the generic rows and advance, sample by sample. */
+function freeRunEffectsGeneric(b: SweepBuffers, s: SweepSpec, k0: number, k1: number): void {
   const M = b.slot, x = b.x, jac = b.jac, st = b.st;
   const ef = b.effects!, e = ef.state;
   const c0 = ef.col * st, c1 = c0 + st, c2 = c1 + st, c3 = c2 + st;
