@@ -99,3 +99,27 @@ describe('the score test at a fit of the streamed linear kernel', () => {
     }
   }, 300_000);
 });
+
+describe('the score test at a lumped fit of a recording without a current channel', () => {
+  it('takes the generic rows: quiet on a clean motor, finds drag that is there', () => {
+    const speedOnly = (p: DetailedParams, seed: number): MotorRecordingInput[] => {
+      const full = loggedPrbs(p, seed);
+      const { current: _drop, ...channels } = full.recording.channels as Record<string, Float64Array>;
+      return [{ ...full, recording: { ...full.recording, channels } }];
+    };
+    const score = (rec: MotorRecordingInput[]) => {
+      // Speed alone shows R only with J and b: R pinned, as a test engineer would from a locked-rotor run.
+      const fit = fitMotor(rec, { fix: { R: MOTOR.R } });
+      const noise = fit.recordings.map((r) => Object.fromEntries(r.channels.filter((x) => x.sigma > 0).map((x) => [x.channel, x.sigma])));
+      return scoreMotorExtensions(rec, { warmStart: fit, noise, reweight: false, fix: { R: MOTOR.R } }, ['coulomb', 'drag']);
+    };
+    const clean = score(speedOnly(MOTOR, 215));
+    const dragged = score(speedOnly({ ...MOTOR, cd: 1.3e-8 }, 216));
+    for (const s of [clean.coulomb!, clean.drag!, dragged.drag!]) expect(s.simulations).toBe(1);
+    // F(1, ∞) exceeds 10.83 with probability 0.001 under the null (χ²₁ table).
+    expect(clean.coulomb!.statistic).toBeLessThan(10.83);
+    expect(clean.drag!.statistic).toBeLessThan(10.83);
+    // Drag at 30 % of the viscous torque at the top speed: F 47.6 on this record (p < 1e-10).
+    expect(dragged.drag!.statistic).toBeGreaterThan(20);
+  }, 300_000);
+});
