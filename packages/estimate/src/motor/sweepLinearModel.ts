@@ -247,8 +247,12 @@ function advanceStuck(b: SweepBuffers, s: SweepSpec, h: number, v: number): void
  * Re-sticking after a stop is not modelled (the speed stays on one side of zero in the
  * experiments that use this pass).
  *
- * Kernel: allocates nothing in the sample loop, never throws; returns nothing (rows left in the
- * chunk stay in `b.rows`).
+ * With `b.effects` set (the score pass) it also writes the four effect columns of
+ * `EffectColumns` for every row.
+ *
+ * Kernel: allocates nothing in the sample loop; returns nothing (rows left in the chunk stay in
+ * `b.rows`). It throws only for effect columns asked of a model with Coulomb friction (a stuck
+ * start), which its one caller, `scoreLumped`, rules out beforehand.
  *
  * @param b - shared buffers (state is reset here)
  * @param s - the recording at the current constants
