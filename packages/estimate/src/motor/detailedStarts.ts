@@ -28,6 +28,13 @@ export function runningTorque(recs: PreparedRecording[], Kt: number): number {
   return Number.isFinite(best) ? best : 1e-3 * Kt;
 }
 
+/** The heating model's starting thermal time constant [s]: a third of the longest record (common practice, no source: a start). */
+export function thermalTimeConstantStart(recs: PreparedRecording[]): number {
+  let longest = 0;
+  for (const r of recs) longest = Math.max(longest, r.time[r.time.length - 1]! - r.time[0]!);
+  return Math.max(longest, 1e-3) / 3;
+}
+
 /**
  * Starting values of the effect constants the caller did not give (common practice, no source:
  * starts, not guesses — each puts the effect at a modest share of what the data show, where the
@@ -40,12 +47,11 @@ export function effectStarts(recs: PreparedRecording[], ext: ModelExtensions, st
   const set = (k: DetailedConstant, v: number, why: string): void => {
     if (start[k] === undefined && Number.isFinite(v) && v > 0) { start[k] = v; src[k] = why; }
   };
-  let wmax = 0, imax = 0, vmax = 0, power = 0, count = 0, longest = 0;
+  let wmax = 0, imax = 0, vmax = 0, power = 0, count = 0;
   for (const r of recs) {
     if (r.speed !== null) for (let k = 0; k < r.speed.length; k++) wmax = Math.max(wmax, Math.abs(r.speed[k]!));
     if (r.current !== null) for (let k = 0; k < r.current.length; k++) { const i = r.current[k]!; imax = Math.max(imax, Math.abs(i)); power += i * i; count++; }
     if (r.source === 'command') for (let k = 0; k < r.input.length; k++) vmax = Math.max(vmax, Math.abs(r.input[k]!));
-    longest = Math.max(longest, r.time[r.time.length - 1]! - r.time[0]!);
   }
   if (ext.drag) set('c', (0.1 * (start.b ?? 1e-6)) / Math.max(wmax, 1e-6), 'start: drag at 10 % of the viscous torque at the top speed');
   if (ext.voltageLimit) set('Vmax', 0.95 * vmax, 'start: 95 % of the largest commanded level');
@@ -55,6 +61,6 @@ export function effectStarts(recs: PreparedRecording[], ext: ModelExtensions, st
     const p = (start.R ?? 1) * (count > 0 ? power / count : 1);
     const Rth = 10 / Math.max(p, 1e-9);
     set('Rth', Rth, 'start: a 10 K rise at the mean copper loss');
-    set('Cth', Math.max(longest, 1e-3) / 3 / Rth, 'start: a thermal time constant of a third of the longest record');
+    set('Cth', thermalTimeConstantStart(recs) / Rth, 'start: a thermal time constant of a third of the longest record');
   }
 }

@@ -15,7 +15,7 @@ import type { DetailedConstant } from '../detailed/createDetailedProblem.js';
 import type { ModelExtensions } from '../detailed/types.js';
 import type { PreparedRecording } from './prepareRecording.js';
 import { addSupplyTerms } from './addSupplyTerms.js';
-import { effectStarts, needsDetailedModel, runningTorque } from './detailedStarts.js';
+import { effectStarts, needsDetailedModel, runningTorque, thermalTimeConstantStart } from './detailedStarts.js';
 import { informs, UNITS, uses, WOULD_INFORM } from './informationMap.js';
 import type { LumpedName } from './informationMap.js';
 import { polishJointly } from './polishJointly.js';
@@ -170,10 +170,8 @@ export function scoreMotorExtensions(recordings: MotorRecordingInput[], options:
   const lumped = LUMPED_FITS.get(options.warmStart);
   if (lumped !== undefined && !base.coulomb && !needsDetailedModel(recs, base) && sameLayout(recs, lumped.layout)) {
     const groups = testable.map((e) => (e === 'coulomb' ? 'Tc' : e === 'drag' ? 'c' : 'heating') as LumpedScoreGroup);
-    let longest = 0;
-    for (const r of recs) longest = Math.max(longest, r.time[r.time.length - 1]! - r.time[0]!);
-    // The heating columns' thermal time constant: the heating start's (`effectStarts`).
-    const scores = scoreLumped(recs, lumped.layout, lumped.theta, groups, Math.max(longest, 1e-3) / 3);
+    // The heating columns' thermal time constant: the heating start's.
+    const scores = scoreLumped(recs, lumped.layout, lumped.theta, groups, thermalTimeConstantStart(recs));
     testable.forEach((e, i) => { out[e] = scores[i] ?? null; });
     return out;
   }
