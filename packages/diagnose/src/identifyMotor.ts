@@ -4,6 +4,7 @@ import type { ExtensionScore, FitMotorOptions, ModelExtensions, MotorFit, MotorR
 import { checkHeldOut } from './checkHeldOut.js';
 import { compareNestedModels } from './compareNestedModels.js';
 import { diagnoseFit } from './diagnoseFit.js';
+import { shareScans } from './scanRecording.js';
 import type { FitDiagnosis, HeldOutCheck, Identification, ModelCandidate, UnsupportedConstant } from './types.js';
 
 /** Options of `identifyMotor`. */
@@ -84,8 +85,9 @@ const WORDS: Record<Extension, string> = {
  * id.model.extensions; // => ['coulomb'] when the coast-down shows Coulomb friction
  */
 export function identifyMotor(recordings: MotorRecordingInput[], options: IdentifyOptions = {}): Identification {
-  // Every fit and test below reads the same recordings: they are prepared once.
-  return sharePreparation(() => identifyShared(recordings, options));
+  // Every fit and test below reads the same recordings: they are prepared once; every diagnosis
+  // of a fit it moves to reads the same data-only scans: each is run once.
+  return sharePreparation(() => shareScans(() => identifyShared(recordings, options)));
 }
 
 function identifyShared(recordings: MotorRecordingInput[], options: IdentifyOptions): Identification {

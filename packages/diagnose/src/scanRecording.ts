@@ -37,8 +37,50 @@ export interface ScanOptions {
  * scanRecording(sweep, { kind: 'steady-state' }).findings.map((f) => f.code); // => ['coulomb-friction'] with Coulomb friction
  */
 export function scanRecording(recording: RecordingLike, options: ScanOptions = {}): { findings: Finding[]; comparisons: ModelComparison[] } {
+  const memo = scans === null || recording === null || typeof recording !== 'object' || options === null || typeof options !== 'object' ? null : scans;
+  const arrays = memo === null ? [] : arraysOfScan(recording);
+  const hit = memo?.get(recording)?.find((s) => sameScan(s, arrays, options));
+  if (hit !== undefined) return hit.result;
   // Every detector below reads the same channels' noise levels: each is estimated once.
-  return withSharedNoise(() => scanShared(recording, options));
+  const result = withSharedNoise(() => scanShared(recording, options));
+  if (memo !== null) {
+    const list = memo.get(recording) ?? [];
+    list.push({ arrays, options: { ...options }, result });
+    memo.set(recording, list);
+  }
+  return result;
+}
+
+/**
+ * The scans already run inside the current `shareScans` call, by recording object: `identifyMotor`
+ * diagnoses each fit it moves to, and the data-only detectors give the same answer on the same
+ * recording each time. A scan is reused when the recording holds the same arrays (by identity) and
+ * the options are the same (each field by `Object.is`); the map is dropped when the outermost call
+ * returns or throws. Callers read the result only (`diagnoseFit` copies what it keeps).
+ */
+let scans: Map<RecordingLike, { arrays: unknown[]; options: ScanOptions; result: { findings: Finding[]; comparisons: ModelComparison[] } }[]> | null = null;
+
+/** Runs `work` with each `scanRecording` of the same recording and options done once (see `scans`). */
+export function shareScans<T>(work: () => T): T {
+  if (scans !== null) return work();
+  scans = new Map();
+  try {
+    return work();
+  } finally {
+    scans = null;
+  }
+}
+
+function arraysOfScan(rec: RecordingLike): unknown[] {
+  const channels = rec.channels !== null && typeof rec.channels === 'object' ? rec.channels as Record<string, unknown> : {};
+  return [rec.time, ...Object.keys(channels).sort().flatMap((k) => [k, channels[k]])];
+}
+
+function sameScan(s: { arrays: unknown[]; options: ScanOptions }, arrays: unknown[], options: ScanOptions): boolean {
+  if (s.arrays.length !== arrays.length || !s.arrays.every((a, i) => a === arrays[i])) return false;
+  const keys = new Set([...Object.keys(s.options), ...Object.keys(options)]) as Set<keyof ScanOptions>;
+  for (const k of keys) if (!Object.is(s.options[k], options[k])) return false;
+  return true;
 }
 
 function scanShared(recording: RecordingLike, options: ScanOptions): { findings: Finding[]; comparisons: ModelComparison[] } {

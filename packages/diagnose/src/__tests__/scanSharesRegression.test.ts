@@ -1,7 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import { detectFriction } from '../detectFriction.js';
 import { detectStiction } from '../detectStiction.js';
-import { scanRecording } from '../scanRecording.js';
+import { diagnoseFit } from '../diagnoseFit.js';
+import { identifyMotor } from '../identifyMotor.js';
+import { scanRecording, shareScans } from '../scanRecording.js';
 import type { Finding, RecordingKind, RecordingLike } from '../types.js';
 import { MOTOR, invented, inventedRamp } from './inventedRecordings.js';
 
@@ -37,5 +39,38 @@ describe('scanRecording with one mechanical regression for friction and stiction
     const codes = cases.flatMap(([, rec, kind]) => scanRecording(rec, { kind }).findings.map((f) => f.code));
     expect(codes).toContain('stiction');
     expect(codes).toContain('coulomb-friction');
+  });
+});
+
+describe('shareScans: one scan per recording and options inside identifyMotor', () => {
+  const rec = invented({ ...MOTOR, Tc: 2e-3 }, 'prbs', 5);
+
+  it('inside the scope the same recording and options give the very same scan; other options or arrays a scan of their own', () => {
+    shareScans(() => {
+      const a = scanRecording(rec, { kind: 'prbs' });
+      expect(scanRecording(rec, { kind: 'prbs' })).toBe(a);
+      const other = scanRecording(rec, { kind: 'prbs', alpha: 0.2 });
+      expect(other).not.toBe(a);
+      // The same numbers in new arrays are another recording to the memo (arrays by identity).
+      const copy = { ...rec, channels: { ...rec.channels, speed: Float64Array.from(rec.channels.speed!) } };
+      const c = scanRecording(copy, { kind: 'prbs' });
+      expect(c).not.toBe(a);
+      expect(c).toEqual(a);
+    });
+  });
+
+  it('outside the scope each call scans afresh, with the same result', () => {
+    const a = scanRecording(rec, { kind: 'prbs' });
+    const b = scanRecording(rec, { kind: 'prbs' });
+    expect(b).not.toBe(a);
+    expect(b).toEqual(a);
+  });
+
+  it('identifyMotor on a recording whose model grows (one diagnosis per model) ends with what a fresh diagnosis of its fit finds', () => {
+    const id = identifyMotor([{ recording: rec, name: 'prbs' }]);
+    expect(id.model.extensions).toContain('coulomb');
+    const fresh = diagnoseFit(id.fit, [{ recording: rec, name: 'prbs' }]);
+    expect(id.diagnosis.comparisons).toEqual(fresh.comparisons);
+    expect(id.diagnosis.comparisons.length).toBeGreaterThan(0);
   });
 });
