@@ -17,7 +17,6 @@
  */
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
-import { createRequire } from 'node:module';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { formatRecordingCsv, generateRecording } from '@motorprint/model';
@@ -60,8 +59,7 @@ const median = (xs: number[]): number => {
 };
 
 function ensureBuilt(): void {
-  const tsc = createRequire(join(root, 'package.json')).resolve('typescript/bin/tsc');
-  const r = timed(process.execPath, [tsc, '-b', join(root, 'tsconfig.build.json')]);
+  const r = timed(process.execPath, [join(root, 'scripts', 'build.mjs')]);
   if (r.status !== 0) throw new Error(`bench cli: the build failed\n${r.stdout}${r.stderr}`);
 }
 

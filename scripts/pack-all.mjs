@@ -1,6 +1,6 @@
 #!/usr/bin/env node
 /**
- * `pnpm pack:all [DIR]`: builds every package (tsc --build, only what changed) and writes a tarball of
+ * `pnpm pack:all [DIR]`: builds every package (scripts/build.mjs: tsc --build, only what changed) and writes a tarball of
  * every public package (not `"private": true`) into DIR, default out/packages/. Tarballs left there by
  * an earlier run are removed first. `pnpm pack` turns the `workspace:*` and `catalog:` ranges into
  * versions, so the tarballs installed together in one `npm install` resolve each other and take
@@ -8,7 +8,6 @@
  */
 import { execFileSync } from 'node:child_process';
 import { mkdirSync, readdirSync, readFileSync, rmSync, statSync } from 'node:fs';
-import { createRequire } from 'node:module';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
@@ -28,8 +27,8 @@ function pnpmCommand() {
   }
 }
 
-const tsc = createRequire(join(root, 'package.json')).resolve('typescript/bin/tsc');
-execFileSync(process.execPath, [tsc, '-b', join(root, 'tsconfig.build.json')], { cwd: root, stdio: 'inherit' });
+// The workspace build: tsc --build, then the bundled distributions module (scripts/build.mjs).
+execFileSync(process.execPath, [join(root, 'scripts', 'build.mjs')], { cwd: root, stdio: 'inherit' });
 
 mkdirSync(dest, { recursive: true });
 for (const f of readdirSync(dest)) if (f.endsWith('.tgz')) rmSync(join(dest, f));

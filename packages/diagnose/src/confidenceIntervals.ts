@@ -1,4 +1,4 @@
-import tQuantile from '@stdlib/stats-base-dists-t-quantile';
+import { tQuantile } from '@motorprint/estimate/distributions';
 import { correlationFromCovariance } from './correlationFromCovariance.js';
 import type { ConfidenceReport, CovarianceSummary, ParameterConfidence } from './types.js';
 

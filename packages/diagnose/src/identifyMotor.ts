@@ -1,4 +1,4 @@
-import fCdf from '@stdlib/stats-base-dists-f-cdf';
+import { fCdf } from '@motorprint/estimate/distributions';
 import { fitMotor, scoreMotorExtensions, sharePreparation } from '@motorprint/estimate';
 import type { ExtensionScore, FitMotorOptions, ModelExtensions, MotorFit, MotorRecordingInput } from '@motorprint/estimate';
 import { checkHeldOut } from './checkHeldOut.js';

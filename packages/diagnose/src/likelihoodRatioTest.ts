@@ -1,4 +1,4 @@
-import chisquareCdf from '@stdlib/stats-base-dists-chisquare-cdf';
+import { chisquareCdf } from '@motorprint/estimate/distributions';
 
 /**
  * Likelihood-ratio test of nested least-squares models with Gaussian errors of unknown variance.

@@ -1,4 +1,4 @@
-import chisquareCdf from '@stdlib/stats-base-dists-chisquare-cdf';
+import { chisquareCdf } from '@motorprint/estimate/distributions';
 import type { LjungBoxResult } from './types.js';
 
 /**

@@ -1,4 +1,4 @@
-import fCdf from '@stdlib/stats-base-dists-f-cdf';
+import { fCdf } from '@motorprint/estimate/distributions';
 
 /**
  * Nested-model F-test: does the fuller model (p₂ parameters) reduce the residual sum of squares

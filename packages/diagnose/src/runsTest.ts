@@ -1,4 +1,4 @@
-import normalCdf from '@stdlib/stats-base-dists-normal-cdf';
+import { normalCdf } from '@motorprint/estimate/distributions';
 import type { RunsTestResult } from './types.js';
 
 /**

@@ -1,5 +1,5 @@
 import { zeroPhaseLowPass } from '@motorprint/estimate';
-import fCdf from '@stdlib/stats-base-dists-f-cdf';
+import { fCdf } from '@motorprint/estimate/distributions';
 import { noiseLevel } from './internal.js';
 
 /** One coefficient test of the steady current–speed line (internal). */

@@ -1,4 +1,4 @@
-import tQuantile from '@stdlib/stats-base-dists-t-quantile';
+import { tQuantile } from '../distributions.js';
 import { covarianceFromNormalMatrix } from '../solver/covarianceFromNormalMatrix.js';
 import { solveLeastSquares } from '../solver/solveLeastSquares.js';
 import { createNormalEquations } from '../solver/createNormalEquations.js';

@@ -1,4 +1,4 @@
-import tQuantile from '@stdlib/stats-base-dists-t-quantile';
+import { tQuantile } from '../distributions.js';
 import type { ParameterEstimate, RecordingData } from './types.js';
 
 /**

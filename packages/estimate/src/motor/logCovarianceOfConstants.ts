@@ -1,4 +1,4 @@
-import tQuantile from '@stdlib/stats-base-dists-t-quantile';
+import { tQuantile } from '../distributions.js';
 import type { ConstantCovariance } from './types.js';
 
 /** How one constant depends on θ: d ln p / dθ_j for the entries it reads. */

@@ -1,5 +1,5 @@
 import { covarianceFromNormalMatrix } from '../solver/covarianceFromNormalMatrix.js';
-import tQuantile from '@stdlib/stats-base-dists-t-quantile';
+import { tQuantile } from '../distributions.js';
 import type { Constants, ParameterLayout } from './createMotorProblem.js';
 import { UNITS } from './informationMap.js';
 import type { LumpedName } from './informationMap.js';

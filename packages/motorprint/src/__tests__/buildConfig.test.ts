@@ -3,7 +3,10 @@
  * package's tsconfig.build.json references the workspace packages it imports, which sets the build
  * order. These checks keep those lists in step with the package.json files, so a new package or a
  * new workspace dependency cannot silently drop out of the build (or build before what it needs).
+ * The root `pnpm build` (scripts/build.mjs) then bundles the stdlib distributions module: the last
+ * check reads that bundle where the build has run (CI builds on install).
  */
+import { createRequire } from 'node:module';
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -51,5 +54,28 @@ describe('the build configuration', () => {
       expect(manifest.scripts?.build, dir).toBe('tsc -b tsconfig.build.json');
       expect(Object.keys(manifest.dependencies ?? {}), `${dir} must not need the private test helpers at run time`).not.toContain('@motorprint/testkit');
     }
+  });
+  it('builds through scripts/build.mjs at the root, and the bundled distributions agree with stdlib itself', async () => {
+    const root = readJson(join(repoRoot, 'package.json')) as Manifest;
+    expect(root.scripts?.build).toBe('node scripts/build.mjs');
+    expect(root.scripts?.prepare).toMatch(/^node scripts\/build\.mjs /);
+    const bundle = join(repoRoot, 'packages', 'estimate', 'dist', 'distributions.js');
+    if (!existsSync(bundle)) {
+      console.warn(`skipped the bundle check: ${bundle} is not built (run pnpm build)`);
+      return;
+    }
+    const text = readFileSync(bundle, 'utf8');
+    expect(text.startsWith('// motorprint: bundled by scripts/build.mjs')).toBe(true);
+    // One file: no import of the stdlib packages is left in it.
+    expect(text).not.toMatch(/from\s*["']@stdlib\//);
+    expect(text).not.toMatch(/require\(["']@stdlib\//);
+    const built = (await import(bundle)) as Record<'chisquareCdf' | 'fCdf' | 'normalCdf' | 'tQuantile', (...a: number[]) => number>;
+    const stdlib = createRequire(join(repoRoot, 'packages', 'estimate', 'package.json'));
+    const own = (name: string): ((...a: number[]) => number) => stdlib(`@stdlib/stats-base-dists-${name}`) as (...a: number[]) => number;
+    // Points across the ranges the tests and intervals use (exact equality: the same code).
+    for (const [p, dof] of [[0.975, 1], [0.975, 7.3], [0.995, 40], [0.6, 1e5]] as const) expect(built.tQuantile(p, dof)).toBe(own('t-quantile')(p, dof));
+    for (const [x, d1, d2] of [[2.1, 3, 40], [0.4, 1, 5], [12, 2, 1e4]] as const) expect(built.fCdf(x, d1, d2)).toBe(own('f-cdf')(x, d1, d2));
+    for (const [x, k] of [[3.2, 4], [70, 50], [0.01, 1]] as const) expect(built.chisquareCdf(x, k)).toBe(own('chisquare-cdf')(x, k));
+    for (const x of [-3, 0, 1.3]) expect(built.normalCdf(x, 0, 1)).toBe(own('normal-cdf')(x, 0, 1));
   });
 });
