@@ -1,4 +1,4 @@
-import { Matrix, SingularValueDecomposition } from 'ml-matrix';
+import { Matrix, SingularValueDecomposition } from '@motorprint/estimate/matrices';
 import type { LinearFit } from './types.js';
 
 /** Rows per block of the one-sweep sums (a few columns of it stay in the L1/L2 cache). */

@@ -2,7 +2,7 @@ import { isAscii } from 'node:buffer';
 import { createHash } from 'node:crypto';
 import { StringDecoder } from 'node:string_decoder';
 import { TextDecoder } from 'node:util';
-import Papa from 'papaparse';
+import { Papa } from './csvParser.js';
 import { IngestError } from './IngestError.js';
 import { planColumns, ROLE_LIMITS } from './columns.js';
 import { checkTimeBase } from './checkTimeBase.js';

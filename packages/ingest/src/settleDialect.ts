@@ -1,4 +1,4 @@
-import Papa from 'papaparse';
+import { Papa } from './csvParser.js';
 import { IngestError } from './IngestError.js';
 import { COMMA, DOT, parseCellReference } from './parseCell.js';
 import { isUnitToken } from './units.js';

@@ -1,5 +1,5 @@
 import { createRandom } from '@motorprint/model';
-import { Matrix, SingularValueDecomposition } from 'ml-matrix';
+import { Matrix, SingularValueDecomposition } from '@motorprint/estimate/matrices';
 import { describe, expect, it } from 'vitest';
 import { autocorrelationInto } from '../autocorrelationInto.js';
 import { detectResidualDelay } from '../detectResidualDelay.js';

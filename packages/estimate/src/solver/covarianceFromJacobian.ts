@@ -1,4 +1,4 @@
-import { Matrix, SingularValueDecomposition } from 'ml-matrix';
+import { Matrix, SingularValueDecomposition } from '../matrices.js';
 import { summarizeCovariance } from './summarizeCovariance.js';
 import type { CovarianceSummary } from './types.js';
 

@@ -1,4 +1,4 @@
-import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
+import { EigenvalueDecomposition, Matrix } from '../matrices.js';
 import { summarizeCovariance } from './summarizeCovariance.js';
 import type { CovarianceSummary } from './types.js';
 

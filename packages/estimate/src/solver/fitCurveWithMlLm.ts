@@ -1,4 +1,4 @@
-import { levenbergMarquardt } from 'ml-levenberg-marquardt';
+import { levenbergMarquardt } from '../matrices.js';
 import { checkCurveInputs } from './checkCurveInputs.js';
 import { checkSolverOptions } from './checkSolverOptions.js';
 import type { CurveInputs, CurveModel, SolverOptions, StopReason } from './types.js';

@@ -1,4 +1,4 @@
-import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
+import { EigenvalueDecomposition, Matrix } from '../matrices.js';
 import { choleskyFactor, solveWithCholeskyFactor } from './choleskyFactor.js';
 
 /**

@@ -55,27 +55,41 @@ describe('the build configuration', () => {
       expect(Object.keys(manifest.dependencies ?? {}), `${dir} must not need the private test helpers at run time`).not.toContain('@motorprint/testkit');
     }
   });
-  it('builds through scripts/build.mjs at the root, and the bundled distributions agree with stdlib itself', async () => {
+  it('builds through scripts/build.mjs at the root, and each bundled vendor module agrees with the library itself', async () => {
     const root = readJson(join(repoRoot, 'package.json')) as Manifest;
     expect(root.scripts?.build).toBe('node scripts/build.mjs');
     expect(root.scripts?.prepare).toMatch(/^node scripts\/build\.mjs /);
-    const bundle = join(repoRoot, 'packages', 'estimate', 'dist', 'distributions.js');
-    if (!existsSync(bundle)) {
-      console.warn(`skipped the bundle check: ${bundle} is not built (run pnpm build)`);
+    const dist = (pkg: string, name: string): string => join(repoRoot, 'packages', pkg, 'dist', `${name}.js`);
+    const modules = [dist('estimate', 'distributions'), dist('estimate', 'matrices'), dist('ingest', 'csvParser')];
+    const missing = modules.filter((f) => !existsSync(f));
+    if (missing.length > 0) {
+      console.warn(`skipped the bundle checks: ${missing.join(', ')} not built (run pnpm build)`);
       return;
     }
-    const text = readFileSync(bundle, 'utf8');
-    expect(text.startsWith('// motorprint: bundled by scripts/build.mjs')).toBe(true);
-    // One file: no import of the stdlib packages is left in it.
-    expect(text).not.toMatch(/from\s*["']@stdlib\//);
-    expect(text).not.toMatch(/require\(["']@stdlib\//);
-    const built = (await import(bundle)) as Record<'chisquareCdf' | 'fCdf' | 'normalCdf' | 'tQuantile', (...a: number[]) => number>;
+    for (const file of modules) {
+      const text = readFileSync(file, 'utf8');
+      expect(text.startsWith('// motorprint: bundled by scripts/build.mjs'), file).toBe(true);
+      // One file: no import of the bundled libraries is left in it (Node built-ins only).
+      expect(text, file).not.toMatch(/(from\s*|require\(|import\()["'](@stdlib\/|ml-|papaparse)/);
+    }
     const stdlib = createRequire(join(repoRoot, 'packages', 'estimate', 'package.json'));
     const own = (name: string): ((...a: number[]) => number) => stdlib(`@stdlib/stats-base-dists-${name}`) as (...a: number[]) => number;
+    const built = (await import(modules[0]!)) as Record<'chisquareCdf' | 'fCdf' | 'normalCdf' | 'tQuantile', (...a: number[]) => number>;
     // Points across the ranges the tests and intervals use (exact equality: the same code).
     for (const [p, dof] of [[0.975, 1], [0.975, 7.3], [0.995, 40], [0.6, 1e5]] as const) expect(built.tQuantile(p, dof)).toBe(own('t-quantile')(p, dof));
     for (const [x, d1, d2] of [[2.1, 3, 40], [0.4, 1, 5], [12, 2, 1e4]] as const) expect(built.fCdf(x, d1, d2)).toBe(own('f-cdf')(x, d1, d2));
     for (const [x, k] of [[3.2, 4], [70, 50], [0.01, 1]] as const) expect(built.chisquareCdf(x, k)).toBe(own('chisquare-cdf')(x, k));
     for (const x of [-3, 0, 1.3]) expect(built.normalCdf(x, 0, 1)).toBe(own('normal-cdf')(x, 0, 1));
+    // The matrices: the singular values of a small ill-conditioned matrix, as ml-matrix gives them.
+    type Svd = new (m: unknown) => { diagonal: number[] };
+    type Mat = { new (rows: number[][]): unknown };
+    const bundled = (await import(modules[1]!)) as { Matrix: Mat; SingularValueDecomposition: Svd; levenbergMarquardt: unknown };
+    const library = (await import(stdlib.resolve('ml-matrix'))) as { Matrix: Mat; SingularValueDecomposition: Svd };
+    const rows = [[1, 2, 3], [4, 5, 6], [7, 8, 9.000001]];
+    expect(new bundled.SingularValueDecomposition(new bundled.Matrix(rows)).diagonal).toEqual(new library.SingularValueDecomposition(new library.Matrix(rows)).diagonal);
+    expect(typeof bundled.levenbergMarquardt).toBe('function');
+    // The CSV parser: a quoted cell with the delimiter inside.
+    const { Papa } = (await import(modules[2]!)) as { Papa: { parse: (t: string, o: object) => { data: string[][] } } };
+    expect(Papa.parse('a,"b,c"\n1,2', { delimiter: ',' }).data).toEqual([['a', 'b,c'], ['1', '2']]);
   });
 });
