@@ -64,8 +64,8 @@ export function noiseOf(x: Float64Array | undefined): number {
  */
 const checked = new WeakMap<object, { n: number; dt: number; arrays: unknown[] }>();
 
-/** The arrays a check covered, in a fixed order: time, then each channel by name. */
-function arraysOf(rec: RecordingLike): unknown[] {
+/** The arrays a check (or a shared scan) covered, in a fixed order: time, then each channel by name. */
+export function arraysOf(rec: RecordingLike): unknown[] {
   return [rec.time, ...Object.keys(rec.channels).sort().map((k) => (rec.channels as Record<string, unknown>)[k])];
 }
 

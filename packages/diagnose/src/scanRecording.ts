@@ -6,7 +6,7 @@ import { detectSlowSampling } from './detectSlowSampling.js';
 import { stictionWith } from './detectStiction.js';
 import { detectWeakExcitation } from './detectWeakExcitation.js';
 import { detectWindingHeating } from './detectWindingHeating.js';
-import { checkRecording, withSharedNoise } from './internal.js';
+import { arraysOf, checkRecording, withSharedNoise } from './internal.js';
 import { mechanicalRegressionOf } from './mechanicalRegression.js';
 import type { MechanicalRegression, MechanicalRegressionInput } from './mechanicalRegression.js';
 import type { Finding, ModelComparison, RecordingKind, RecordingLike } from './types.js';
@@ -37,8 +37,10 @@ export interface ScanOptions {
  * scanRecording(sweep, { kind: 'steady-state' }).findings.map((f) => f.code); // => ['coulomb-friction'] with Coulomb friction
  */
 export function scanRecording(recording: RecordingLike, options: ScanOptions = {}): { findings: Finding[]; comparisons: ModelComparison[] } {
-  const memo = scans === null || recording === null || typeof recording !== 'object' || options === null || typeof options !== 'object' ? null : scans;
-  const arrays = memo === null ? [] : arraysOfScan(recording);
+  // (A malformed argument skips the memo and meets scanShared's checks and their messages.)
+  const wellFormed = recording !== null && typeof recording === 'object' && recording.channels !== null && typeof recording.channels === 'object' && options !== null && typeof options === 'object';
+  const memo = scans !== null && wellFormed ? scans : null;
+  const arrays = memo === null ? [] : arraysOf(recording);
   const hit = memo?.get(recording)?.find((s) => sameScan(s, arrays, options));
   if (hit !== undefined) return hit.result;
   // Every detector below reads the same channels' noise levels: each is estimated once.
@@ -69,11 +71,6 @@ export function shareScans<T>(work: () => T): T {
   } finally {
     scans = null;
   }
-}
-
-function arraysOfScan(rec: RecordingLike): unknown[] {
-  const channels = rec.channels !== null && typeof rec.channels === 'object' ? rec.channels as Record<string, unknown> : {};
-  return [rec.time, ...Object.keys(channels).sort().flatMap((k) => [k, channels[k]])];
 }
 
 function sameScan(s: { arrays: unknown[]; options: ScanOptions }, arrays: unknown[], options: ScanOptions): boolean {

@@ -59,6 +59,13 @@ describe('shareScans: one scan per recording and options inside identifyMotor', 
     });
   });
 
+  it('inside the scope a malformed recording still gets the messages of the scan itself', () => {
+    shareScans(() => {
+      expect(() => scanRecording(null as unknown as RecordingLike)).toThrow(/^scanRecording: recording\.time must be a Float64Array/);
+      expect(() => scanRecording({ time: rec.time, channels: null } as unknown as RecordingLike)).toThrow(/^scanRecording: recording\.channels must be an object/);
+    });
+  });
+
   it('outside the scope each call scans afresh, with the same result', () => {
     const a = scanRecording(rec, { kind: 'prbs' });
     const b = scanRecording(rec, { kind: 'prbs' });
