@@ -11,9 +11,10 @@
  * The code is the libraries' own, unchanged (names kept, their license notices at the end of each
  * file); the source modules still import the packages, so tests and type checks read them directly.
  *
- * A module already bundled (first line below) is left alone, so running this again after an
- * incremental build that did not touch it costs nothing. Where esbuild is not installed the
- * compiled re-exports stay: they work, they only load more slowly.
+ * Each bundle is made from the source module (src/NAME.ts) on every build, over tsc's compiled
+ * re-export, so it always holds the library versions installed now (an upgrade needs no --force);
+ * the file is written only when it changes. Where esbuild is not installed the compiled re-exports
+ * stay: they work, they only load more slowly.
  */
 import { execFileSync } from 'node:child_process';
 import { existsSync, readFileSync, writeFileSync } from 'node:fs';
@@ -42,11 +43,11 @@ try {
 }
 if (esbuild !== null) {
   for (const [dir, name] of VENDOR) {
+    const source = join(root, 'packages', dir, 'src', `${name}.ts`);
     const file = join(root, 'packages', dir, 'dist', `${name}.js`);
-    if (!existsSync(file)) throw new Error(`build: ${file} is missing after tsc (was src/${name}.ts removed? update VENDOR in scripts/build.mjs; after deleting a dist file, build with --force)`);
-    if (readFileSync(file, 'utf8').startsWith(MARK)) continue;
+    if (!existsSync(source)) throw new Error(`build: ${source} is missing (update VENDOR in scripts/build.mjs)`);
     const out = await esbuild.build({
-      entryPoints: [file],
+      entryPoints: [source],
       absWorkingDir: join(root, 'packages', dir),
       bundle: true,
       format: 'esm',
@@ -61,6 +62,7 @@ if (esbuild !== null) {
       banner: { js: "import { createRequire as __motorprintRequire } from 'node:module'; const require = __motorprintRequire(import.meta.url);" },
     });
     // (tsc's source map beside it describes the re-export; the bundle does not point to it.)
-    writeFileSync(file, `${MARK} from src/${name}.ts and the libraries it imports (see scripts/build.mjs)\n${out.outputFiles[0].text}`);
+    const text = `${MARK} from src/${name}.ts and the libraries it imports (see scripts/build.mjs)\n${out.outputFiles[0].text}`;
+    if (!existsSync(file) || readFileSync(file, 'utf8') !== text) writeFileSync(file, text);
   }
 }

@@ -27,7 +27,7 @@ function pnpmCommand() {
   }
 }
 
-// The workspace build: tsc --build, then the bundled distributions module (scripts/build.mjs).
+// The workspace build: tsc --build, then the bundled vendor modules (scripts/build.mjs).
 execFileSync(process.execPath, [join(root, 'scripts', 'build.mjs')], { cwd: root, stdio: 'inherit' });
 
 mkdirSync(dest, { recursive: true });
