@@ -1,6 +1,6 @@
 #!/usr/bin/env node
 /**
- * `pnpm build`: compiles every package with `tsc --build tsconfig.build.json` (dependency order, only
+ * `pnpm build`: assembles the WebAssembly kernels (scripts/assemble-kernels.mjs), compiles every package with `tsc --build tsconfig.build.json` (dependency order, only
  * what changed; extra arguments such as `--force` go to tsc), then bundles the few modules that
  * import third-party CommonJS libraries (VENDOR below) into one ES module each, with esbuild.
  *
@@ -32,6 +32,9 @@ const VENDOR = [
   ['estimate', 'matrices'], // ml-matrix, ml-levenberg-marquardt
   ['ingest', 'csvParser'], // papaparse
 ];
+
+// WebAssembly kernels: NAME.wat → NAME.wasm.ts (written only when it changes).
+execFileSync(process.execPath, [join(root, 'scripts', 'assemble-kernels.mjs')], { cwd: root, stdio: 'inherit' });
 
 execFileSync(process.execPath, [require.resolve('typescript/bin/tsc'), '-b', join(root, 'tsconfig.build.json'), ...process.argv.slice(2)], { cwd: root, stdio: 'inherit' });
 

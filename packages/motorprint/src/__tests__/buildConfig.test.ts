@@ -4,7 +4,8 @@
  * order. These checks keep those lists in step with the package.json files, so a new package or a
  * new workspace dependency cannot silently drop out of the build (or build before what it needs).
  * The root `pnpm build` (scripts/build.mjs) then bundles the stdlib distributions module: the last
- * check reads that bundle where the build has run (CI builds on install).
+ * check reads that bundle where the build has run (CI builds on install). The WebAssembly kernels'
+ * binaries (NAME.wasm.ts) must be what their text (NAME.wat) assembles to.
  */
 import { createRequire } from 'node:module';
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
@@ -91,5 +92,17 @@ describe('the build configuration', () => {
     // The CSV parser: a quoted cell with the delimiter inside.
     const { Papa } = (await import(modules[2]!)) as { Papa: { parse: (t: string, o: object) => { data: string[][] } } };
     expect(Papa.parse('a,"b,c"\n1,2', { delimiter: ',' }).data).toEqual([['a', 'b,c'], ['1', '2']]);
+  });
+  it('has each WebAssembly kernel (.wasm.ts) assembled from its .wat as committed', async () => {
+    type Script = { kernelSources(): string[]; assembledText(wabt: unknown, wat: string): string };
+    const script = (await import(join(repoRoot, 'scripts', 'assemble-kernels.mjs'))) as Script;
+    const wabt = await ((await import('wabt')) as unknown as { default: () => Promise<unknown> }).default();
+    const sources = script.kernelSources();
+    expect(sources.length).toBeGreaterThanOrEqual(1);
+    for (const wat of sources) {
+      const target = wat.replace(/\.wat$/, '.wasm.ts');
+      expect(existsSync(target), `${target} is missing: run pnpm build`).toBe(true);
+      expect(readFileSync(target, 'utf8'), `${target} is out of date: run pnpm build`).toBe(script.assembledText(wabt, wat));
+    }
   });
 });

@@ -1,0 +1,4 @@
+// motorprint: assembled by scripts/assemble-kernels.mjs from laggedSums.wat (do not edit; edit the .wat and run pnpm build)
+/** The WebAssembly binary of packages/diagnose/src/laggedSums.wat, base64. */
+export const wasm =
+  'AGFzbQEAAAABCAFgBH9/f38AAg8BA2VudgZtZW1vcnkCAAEDAgEABwoBBnN1bXMxNgAACoECAf4BAQl7AkAgACACTw0AA0AgAP0KAwAhBCAFIAQgAf0AAwD98gH98AEhBSAGIAQgAf0AAxD98gH98AEhBiAHIAQgAf0AAyD98gH98AEhByAIIAQgAf0AAzD98gH98AEhCCAJIAQgAf0AA0D98gH98AEhCSAKIAQgAf0AA1D98gH98AEhCiALIAQgAf0AA2D98gH98AEhCyAMIAQgAf0AA3D98gH98AEhDCAAQQhqIQAgAUEIaiEBIAAgAkkNAAsLIAMgBf0LAwAgAyAG/QsDECADIAf9CwMgIAMgCP0LAzAgAyAJ/QsDQCADIAr9CwNQIAMgC/0LA2AgAyAM/QsDcAs=';

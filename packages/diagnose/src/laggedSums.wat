@@ -1,0 +1,41 @@
+;; Lagged sums of products, sixteen lags per sweep (two per f64x2 lane pair).
+;; sums16(pa, pb, pe, out): with x = f64 at pa, pa += 8 … while pa < pe, and pb moving with it,
+;; s[j] += x * (f64 at pb + 8j) for j = 0…15, each lane summed in order; s[0…15] stored at out.
+;; Addresses in bytes. f64x2.mul and f64x2.add round each lane as the scalar * and + do.
+(module
+  (import "env" "memory" (memory 1))
+  (func (export "sums16") (param $pa i32) (param $pb i32) (param $pe i32) (param $out i32)
+    (local $x v128)
+    (local $s0 v128)
+    (local $s1 v128)
+    (local $s2 v128)
+    (local $s3 v128)
+    (local $s4 v128)
+    (local $s5 v128)
+    (local $s6 v128)
+    (local $s7 v128)
+    (block $done
+      (br_if $done (i32.ge_u (local.get $pa) (local.get $pe)))
+      (loop $next
+        (local.set $x (v128.load64_splat align=8 (local.get $pa)))
+        (local.set $s0 (f64x2.add (local.get $s0) (f64x2.mul (local.get $x) (v128.load offset=0 align=8 (local.get $pb)))))
+        (local.set $s1 (f64x2.add (local.get $s1) (f64x2.mul (local.get $x) (v128.load offset=16 align=8 (local.get $pb)))))
+        (local.set $s2 (f64x2.add (local.get $s2) (f64x2.mul (local.get $x) (v128.load offset=32 align=8 (local.get $pb)))))
+        (local.set $s3 (f64x2.add (local.get $s3) (f64x2.mul (local.get $x) (v128.load offset=48 align=8 (local.get $pb)))))
+        (local.set $s4 (f64x2.add (local.get $s4) (f64x2.mul (local.get $x) (v128.load offset=64 align=8 (local.get $pb)))))
+        (local.set $s5 (f64x2.add (local.get $s5) (f64x2.mul (local.get $x) (v128.load offset=80 align=8 (local.get $pb)))))
+        (local.set $s6 (f64x2.add (local.get $s6) (f64x2.mul (local.get $x) (v128.load offset=96 align=8 (local.get $pb)))))
+        (local.set $s7 (f64x2.add (local.get $s7) (f64x2.mul (local.get $x) (v128.load offset=112 align=8 (local.get $pb)))))
+        (local.set $pa (i32.add (local.get $pa) (i32.const 8)))
+        (local.set $pb (i32.add (local.get $pb) (i32.const 8)))
+        (br_if $next (i32.lt_u (local.get $pa) (local.get $pe)))))
+    (v128.store offset=0 align=8 (local.get $out) (local.get $s0))
+    (v128.store offset=16 align=8 (local.get $out) (local.get $s1))
+    (v128.store offset=32 align=8 (local.get $out) (local.get $s2))
+    (v128.store offset=48 align=8 (local.get $out) (local.get $s3))
+    (v128.store offset=64 align=8 (local.get $out) (local.get $s4))
+    (v128.store offset=80 align=8 (local.get $out) (local.get $s5))
+    (v128.store offset=96 align=8 (local.get $out) (local.get $s6))
+    (v128.store offset=112 align=8 (local.get $out) (local.get $s7))
+  )
+)
