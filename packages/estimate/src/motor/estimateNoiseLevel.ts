@@ -1,3 +1,4 @@
+import { KERNEL_MIN_LENGTH, sampleKernels } from './sampleKernels.js';
 import { selectKth } from './selectKth.js';
 import type { NoiseLevel } from './types.js';
 
@@ -80,33 +81,11 @@ function sameSamples(a: Float64Array, b: Float64Array): boolean {
 function estimateAfresh(values: Float64Array): NoiseLevel {
   const fn = 'estimateNoiseLevel';
   const n = values.length;
-  // One pass: finite count and the smallest non-zero step (the quantum; a step next to a
-  // non-finite sample is NaN and never counts).
-  let finite = 0;
-  let quantum = Infinity;
-  if (n > 0 && Number.isFinite(values[0]!)) finite++;
-  for (let k = 1; k < n; k++) {
-    const x = values[k]!;
-    if (Number.isFinite(x)) finite++;
-    const step = Math.abs(x - values[k - 1]!);
-    if (step > 0 && step < quantum) quantum = step;
-  }
-  if (finite < 8) throw new RangeError(`${fn}: values must hold at least 8 finite samples (got ${finite})`);
   // Long records: every stride-th second difference (at most MAX_DIFFERENCES of them, spread over
   // the whole record) is enough for the MAD; the quantum still looks at every step.
   const stride = n - 2 > MAX_DIFFERENCES ? Math.ceil((n - 2) / MAX_DIFFERENCES) : 1;
-  const d = new Float64Array(Math.ceil(Math.max(n - 2, 0) / stride));
-  let m = 0;
-  for (let k = 1; k + 1 < n; k += stride) {
-    const v = values[k + 1]! - 2 * values[k]! + values[k - 1]!;
-    if (Number.isFinite(v)) {
-      d[m++] = v;
-    }
-  }
-  const sd2 = d.subarray(0, m);
-  const med = median(sd2);
-  for (let k = 0; k < m; k++) sd2[k] = Math.abs(sd2[k]! - med);
-  const mad = median(sd2);
+  const { finite, quantum, deviations: sd2, mad } = (n >= KERNEL_MIN_LENGTH ? differenceStatsKernel(values, stride) : null) ?? differenceStats(values, stride);
+  if (finite < 8) throw new RangeError(`${fn}: values must hold at least 8 finite samples (got ${finite})`);
   // A grid of values (ADC codes, rounding in the file): the rounding error alone has SD q/√12.
   const q = gridStep(values, quantum);
   const floor = q > 0 ? q / SQRT12 : 0;
@@ -126,6 +105,80 @@ function estimateAfresh(values: Float64Array): NoiseLevel {
   const settled = quietestSegmentSd(values);
   if (settled > 0) return { sigma: settled, method: 'settled-segment', quantum: null };
   return { sigma: 0, method: 'constant', quantum: null };
+}
+
+/** The passes of `estimateAfresh` over every sample, before the grid and the trimmed RMS. */
+interface DifferenceStats {
+  /** Count of finite samples. */
+  finite: number;
+  /** Smallest non-zero step between neighbours (Infinity when none). */
+  quantum: number;
+  /** |d − median(d)| for the finite second differences d (every stride-th). */
+  deviations: Float64Array;
+  /** Median of `deviations` (NaN when there are none). */
+  mad: number;
+}
+
+/**
+ * One pass for the finite count and the smallest non-zero step (a step next to a non-finite sample
+ * is NaN and never counts); then every stride-th finite second difference, their median, the
+ * absolute deviations from it and their median (the MAD). Plain JavaScript: the reference of
+ * {@link differenceStatsKernel} and its fallback (exported for the tests).
+ */
+export function differenceStats(values: Float64Array, stride: number): DifferenceStats {
+  const n = values.length;
+  let finite = 0;
+  let quantum = Infinity;
+  if (n > 0 && Number.isFinite(values[0]!)) finite++;
+  for (let k = 1; k < n; k++) {
+    const x = values[k]!;
+    if (Number.isFinite(x)) finite++;
+    const step = Math.abs(x - values[k - 1]!);
+    if (step > 0 && step < quantum) quantum = step;
+  }
+  const d = new Float64Array(Math.ceil(Math.max(n - 2, 0) / stride));
+  let m = 0;
+  for (let k = 1; k + 1 < n; k += stride) {
+    const v = values[k + 1]! - 2 * values[k]! + values[k - 1]!;
+    if (Number.isFinite(v)) {
+      d[m++] = v;
+    }
+  }
+  const deviations = d.subarray(0, m);
+  const med = median(deviations);
+  for (let k = 0; k < m; k++) deviations[k] = Math.abs(deviations[k]! - med);
+  return { finite, quantum, deviations, mad: median(deviations) };
+}
+
+/**
+ * {@link differenceStats} through the WebAssembly kernel (sampleKernels.wat): the same operations
+ * in the same order, so the same bits; null where the kernel cannot run. Memory: the samples, then
+ * the differences, then a working copy for the selections, then one double of output.
+ */
+export function differenceStatsKernel(values: Float64Array, stride: number): DifferenceStats | null {
+  const n = values.length;
+  const cap = Math.ceil(Math.max(n - 2, 0) / stride);
+  const dAt = n;
+  const copyAt = dAt + cap;
+  const outAt = copyAt + cap;
+  const room = sampleKernels.room(8 * (outAt + 1));
+  if (room === null) return null;
+  const { f64, exports: k } = room;
+  f64.set(values, 0);
+  const finite = k.steps(0, n, 8 * outAt);
+  const quantum = f64[outAt]!;
+  const m = k.secondDifferences(0, n, stride, 8 * dAt);
+  const kernelMedian = (): number => {
+    if (m === 0) return NaN;
+    f64.copyWithin(copyAt, dAt, dAt + m);
+    const h = m >> 1;
+    const hi = k.select(8 * copyAt, m, h);
+    return m % 2 === 1 ? hi : 0.5 * (k.largestOf(8 * copyAt, h) + hi);
+  };
+  const med = kernelMedian();
+  k.absoluteDeviations(8 * dAt, m, med);
+  const mad = kernelMedian();
+  return { finite, quantum, deviations: f64.slice(dAt, dAt + m), mad };
 }
 
 /**
@@ -151,8 +204,12 @@ function trimmedRms(absDev: Float64Array): number {
  */
 function gridStep(values: Float64Array, quantum: number): number {
   if (!Number.isFinite(quantum) || !(quantum > 0)) return 0;
-  const n = values.length;
-  const stride = Math.max(1, Math.floor(n / 20000));
+  const stride = Math.max(1, Math.floor(values.length / 20000));
+  return (values.length >= KERNEL_MIN_LENGTH ? gridStepKernel(values, quantum, stride) : null) ?? gridStepPlain(values, quantum, stride);
+}
+
+/** {@link gridStep}'s work in plain JavaScript (the reference of {@link gridStepKernel} and its fallback; exported for the tests). */
+export function gridStepPlain(values: Float64Array, quantum: number, stride: number): number {
   const distinct = sortedDistinct(values, stride);
   // The step, refined as the mean of the single-code gaps between neighbouring distinct values
   // (rounding in the file makes the smallest step a little off).
@@ -172,6 +229,27 @@ function gridStep(values: Float64Array, quantum: number): number {
     if (Math.abs(c - Math.round(c)) > 0.05 + 1e-3 * c && ++bad > allowed) return 0;
   }
   return q;
+}
+
+/**
+ * {@link gridStepPlain} through the WebAssembly kernel (sampleKernels.wat), the sort left to the
+ * typed array's own (which orders the same values the same way); null where the kernel cannot run.
+ */
+export function gridStepKernel(values: Float64Array, quantum: number, stride: number): number | null {
+  const n = values.length;
+  const pickAt = n;
+  const outAt = pickAt + Math.ceil(n / stride);
+  const room = sampleKernels.room(8 * (outAt + 1));
+  if (room === null) return null;
+  const { f64, exports: k } = room;
+  f64.set(values, 0);
+  const m = k.pickFinite(0, n, stride, 8 * pickAt);
+  f64.subarray(pickAt, pickAt + m).sort();
+  const u = k.distinctInPlace(8 * pickAt, m);
+  const single = k.singleGaps(8 * pickAt, u, quantum, 8 * outAt);
+  if (single < 3) return 0;
+  const q = f64[outAt]! / single;
+  return k.offGrid(8 * pickAt, u, q, 0.05 * (u - 1)) === 1 ? 0 : q;
 }
 
 /**

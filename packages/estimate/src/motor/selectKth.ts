@@ -1,3 +1,5 @@
+import { KERNEL_MIN_LENGTH, sampleKernels } from './sampleKernels.js';
+
 /**
  * Order statistics by Hoare's selection (expected O(n)), shared by the estimators that need a
  * median of a long series without sorting it.
@@ -15,6 +17,22 @@
  * selectKth(Float64Array.of(5, 1, 4, 2, 3), 2); // => 3
  */
 export function selectKth(s: Float64Array, k: number): number {
+  const n = s.length;
+  if (n >= KERNEL_MIN_LENGTH && (k | 0) === k && k >= 0 && k < n) {
+    // The same selection in WebAssembly (sampleKernels.wat): the same swaps, so the same arrangement.
+    const room = sampleKernels.room(8 * n);
+    if (room !== null) {
+      room.f64.set(s, 0);
+      const value = room.exports.select(0, n, k);
+      s.set(room.f64.subarray(0, n));
+      return value;
+    }
+  }
+  return selectKthPlain(s, k);
+}
+
+/** {@link selectKth} in plain JavaScript (the reference of the kernel, and its fallback). */
+export function selectKthPlain(s: Float64Array, k: number): number {
   let left = 0, right = s.length - 1;
   while (right > left) {
     const mid = (left + right) >> 1;
