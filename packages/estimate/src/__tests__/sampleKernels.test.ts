@@ -7,7 +7,12 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { differenceStats, differenceStatsKernel, gridStepKernel, gridStepPlain } from '../motor/estimateNoiseLevel.js';
 import { KERNEL_MIN_LENGTH, sampleKernels } from '../motor/sampleKernels.js';
-import { selectKth, selectKthPlain } from '../motor/selectKth.js';
+import { medianInPlace, selectKth, selectKthPlain } from '../motor/selectKth.js';
+import { timeLine, timeLineKernel } from '../motor/nominalTimeGrid.js';
+import { segmentDifferences, segmentDifferencesKernel } from '../motor/rebuildCommand.js';
+import { countSteps, countStepsKernel } from '../motor/detectEncoderSpeed.js';
+import { largestMagnitude } from '../motor/classifyRecording.js';
+import { bestSplit, detectVoltageSegments, jumps, jumpsKernel } from '../motor/detectVoltageSegments.js';
 
 const SEED = 20261204;
 
@@ -102,5 +107,119 @@ describe('the sample kernels', () => {
     const quantum = differenceStats(onGrid, 1).quantum;
     expect(gridStepKernel(onGrid, quantum, 1)).toBeCloseTo(q, 12);
     expect(gridStepPlain(onGrid, quantum, 1)).toBeCloseTo(q, 12);
+  });
+  it('the median: the same value and arrangement through the kernel as by the JavaScript selection', () => {
+    fc.assert(
+      fc.property(finiteSeries, (x) => {
+        const viaKernel = Float64Array.from(x);
+        const plain = Float64Array.from(x);
+        const h = plain.length >> 1;
+        const hi = selectKthPlain(plain, h);
+        let lo = -Infinity;
+        for (let k = 0; k < h; k++) if (plain[k]! > lo) lo = plain[k]!;
+        const expected = plain.length % 2 === 1 ? hi : 0.5 * (lo + hi);
+        expect(Object.is(medianInPlace(viaKernel), expected)).toBe(true);
+        expect(sameBits(viaKernel, plain)).toBe(true);
+      }),
+      { seed: SEED, numRuns: 200 },
+    );
+  });
+  it("the time grid's line: the same slope, intercept, sum of squares and largest deviation", () => {
+    // Jittered, rounded, drifting and gappy clocks.
+    const clock = fc
+      .record({
+        n: fc.integer({ min: KERNEL_MIN_LENGTH, max: 3000 }),
+        h: fc.constantFrom(1e-4, 1e-3, 0.01, 1 / 3),
+        t0: fc.double({ noNaN: true, min: -10, max: 10 }),
+        jitter: fc.double({ noNaN: true, min: 0, max: 0.3 }),
+        digits: fc.integer({ min: 4, max: 17 }),
+        hole: fc.option(fc.nat(), { nil: undefined }),
+      })
+      .map(({ n, h, t0, jitter, digits, hole }) => {
+        const t = Float64Array.from({ length: n }, (_, k) => Number((t0 + k * h + jitter * h * Math.sin(7.3 * k)).toPrecision(digits)));
+        if (hole !== undefined) t[hole % n] = NaN;
+        return t;
+      });
+    fc.assert(
+      fc.property(clock, (t) => {
+        const plain = timeLine(t);
+        const kernel = timeLineKernel(t)!;
+        for (const key of ['h', 'a', 'ss', 'worst'] as const) expect(Object.is(kernel[key], plain[key]), key).toBe(true);
+      }),
+      { seed: SEED, numRuns: 200 },
+    );
+  });
+  it('the within-segment differences: the same values, counted over the segments in order with a stride and a cap', () => {
+    const cases = fc
+      .record({
+        v: finiteSeries,
+        cuts: fc.array(fc.nat(), { maxLength: 12 }),
+        stride: fc.integer({ min: 1, max: 5 }),
+        capShare: fc.double({ noNaN: true, min: 0.2, max: 1.2 }),
+      })
+      .map(({ v, cuts, stride, capShare }) => {
+        const bounds = [...new Set([0, ...cuts.map((c) => c % v.length), v.length])].sort((a, b) => a - b);
+        const segs = bounds.slice(1).map((end, i) => ({ start: bounds[i]!, end, level: 0 }));
+        let total = 0;
+        for (const sg of segs) total += Math.max(sg.end - sg.start - 2, 0);
+        return { v, segs, stride, cap: Math.max(1, Math.floor((capShare * total) / stride)) };
+      });
+    fc.assert(
+      fc.property(cases, ({ v, segs, stride, cap }) => {
+        expect(sameBits(segmentDifferencesKernel(v, segs, stride, cap)!, segmentDifferences(v, segs, stride, cap))).toBe(true);
+      }),
+      { seed: SEED, numRuns: 300 },
+    );
+  });
+  it("the voltage segments' first pass and best split: the same prefix sums, starts and split points", () => {
+    // Piecewise-constant voltages with noise, straddled switches and gaps.
+    const command = fc
+      .record({
+        levels: fc.array(fc.double({ noNaN: true, min: -24, max: 24 }), { minLength: 1, maxLength: 12 }),
+        run: fc.integer({ min: 20, max: 300 }),
+        noise: fc.constantFrom(0, 1e-3, 0.05),
+        gap: fc.option(fc.nat(), { nil: undefined }),
+      })
+      .map(({ levels, run, noise, gap }) => {
+        const v = Float64Array.from({ length: Math.max(KERNEL_MIN_LENGTH, levels.length * run) }, (_, k) => levels[Math.floor(k / run) % levels.length]! + noise * Math.sin(12.9898 * k));
+        if (gap !== undefined) v[gap % v.length] = NaN;
+        return v;
+      });
+    fc.assert(
+      fc.property(command, fc.constantFrom(1e-3, 0.05, 0.3), fc.nat(), fc.nat(), (v, jump, x, y) => {
+        const plain = jumps(v, jump);
+        const kernel = jumpsKernel(v, jump)!;
+        expect(kernel.starts).toEqual(plain.starts);
+        expect(sameBits(kernel.prefix, plain.prefix)).toBe(true);
+        const a = x % v.length;
+        const b = a + (y % (v.length - a + 1));
+        for (const limit of [0, 1e-6, 36 * jump * jump]) expect(kernel.bestSplit(a, b, limit)).toBe(bestSplit(plain.prefix, a, b, limit));
+      }),
+      { seed: SEED, numRuns: 300 },
+    );
+    // And whole segmentations are those of the plain passes (checked on a clean three-level command).
+    const v = Float64Array.from({ length: 600 }, (_, k) => (k < 200 ? 0 : k < 410 ? 6 : 2) + 0.01 * Math.sin(7 * k));
+    expect(detectVoltageSegments(v, 0.01).map((s) => [s.start, s.end])).toEqual([[0, 200], [200, 410], [410, 600]]);
+  });
+  it("the encoder test's steps and the largest magnitude: the same values and flags", () => {
+    const clock = fc.array(fc.double({ noNaN: true, min: 1e-5, max: 2e-3 }), { minLength: KERNEL_MIN_LENGTH, maxLength: 1200 }).map((steps) => {
+      const t = new Float64Array(steps.length);
+      for (let k = 1; k < t.length; k++) t[k] = t[k - 1]! + steps[k]!;
+      return t;
+    });
+    fc.assert(
+      fc.property(clock, gappySeries, (t, w0) => {
+        const w = Float64Array.from({ length: t.length }, (_, k) => w0[k % w0.length]!);
+        const plain = countSteps(t, w);
+        const kernel = countStepsKernel(t, w)!;
+        expect(kernel.nan).toBe(plain.nan);
+        expect(Object.is(kernel.smallest, plain.smallest)).toBe(true);
+        expect(sameBits(kernel.d, plain.d)).toBe(true);
+        let m = 0;
+        for (let k = 0; k < w.length; k++) m = Math.max(m, Math.abs(w[k]!));
+        expect(Object.is(largestMagnitude(w), m)).toBe(true);
+      }),
+      { seed: SEED, numRuns: 300 },
+    );
   });
 });

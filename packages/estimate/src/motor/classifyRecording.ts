@@ -2,6 +2,7 @@ import { detectEncoderSpeed } from './detectEncoderSpeed.js';
 import { medianInterval } from './medianInterval.js';
 import { detectVoltageSegments } from './detectVoltageSegments.js';
 import { estimateNoiseLevel } from './estimateNoiseLevel.js';
+import { KERNEL_MIN_LENGTH, sampleKernels } from './sampleKernels.js';
 import type { MotorExperimentKind, RecordingData } from './types.js';
 
 /**
@@ -43,11 +44,29 @@ export function classifyWithEncoder(recording: RecordingData): { kind: MotorExpe
   // turns shows counts, however coarse.
   const quantum = detectEncoderSpeed(recording.time, speed);
   const sw = quantum !== null ? quantum / (medianInterval(recording.time) * Math.sqrt(12)) : estimateNoiseLevel(speed).sigma;
-  let wmax = 0;
-  for (let k = 0; k < n; k++) wmax = Math.max(wmax, Math.abs(speed[k]!));
+  // (A speed shorter than the voltage reads missing samples: NaN, as the loop over n did.)
+  const wmax = speed.length >= n ? largestMagnitude(speed.length === n ? speed : speed.subarray(0, n)) : NaN;
   if (wmax < 6 * sw) return { kind: 'locked-rotor', reason: `speed stays within its noise (max |ω| ${wmax.toPrecision(3)} rad/s ≤ 6σ)`, encoder: quantum };
   const kind = classifyTurning(recording, voltage, speed, n, tail, wmax);
   return { ...kind, encoder: quantum };
+}
+
+/**
+ * The largest |x| of the samples, as `m = Math.max(m, |x|)` from 0 (NaN once any is NaN), through
+ * the WebAssembly kernel for long series (the same value). Exported for the tests.
+ */
+export function largestMagnitude(x: Float64Array): number {
+  const n = x.length;
+  if (n >= KERNEL_MIN_LENGTH) {
+    const room = sampleKernels.room(8 * n);
+    if (room !== null) {
+      room.f64.set(x, 0);
+      return room.exports.largestMagnitude(0, n);
+    }
+  }
+  let m = 0;
+  for (let k = 0; k < n; k++) m = Math.max(m, Math.abs(x[k]!));
+  return m;
 }
 
 /** The rules of `classifyRecording` for a rotor that turns. */
@@ -102,11 +121,16 @@ function opensCircuit(voltage: Float64Array, speed: Float64Array, sv: number, wm
   const sorted = Float64Array.from(voltage.subarray(0, head)).sort();
   const v0 = sorted[head >> 1]!;
   let k1 = -1;
+  const band = 6 * Math.max(sv, 1e-12);
   for (let k = 1; k + 3 < n; k++) {
-    const off = (j: number): boolean => Math.abs(voltage[j]! - v0) > 6 * Math.max(sv, 1e-12);
-    if (off(k) && off(k + 1) && off(k + 2)) { k1 = k; break; }
+    if (Math.abs(voltage[k]! - v0) > band && Math.abs(voltage[k + 1]! - v0) > band && Math.abs(voltage[k + 2]! - v0) > band) { k1 = k; break; }
   }
   if (k1 < 4 || k1 > n - 16) return false;
+  // The speed must fall to under half its value at the cut (checked first: it needs 4 samples,
+  // the ratio below needs them all).
+  let tail = 0;
+  for (let k = n - 4; k < n; k++) tail += Math.abs(speed[k]!);
+  if (!(tail / 4 < 0.5 * Math.abs(speed[k1]!))) return false;
   let s = 0, q = 0, m = 0;
   for (let k = k1; k < n; k++) {
     if (Math.abs(speed[k]!) < 0.1 * wmax) continue;
@@ -115,7 +139,5 @@ function opensCircuit(voltage: Float64Array, speed: Float64Array, sv: number, wm
   }
   if (m < 8) return false;
   const mean = s / m, sd = Math.sqrt(Math.max(q / m - mean * mean, 0));
-  let tail = 0;
-  for (let k = n - 4; k < n; k++) tail += Math.abs(speed[k]!);
-  return mean > 0 && sd < 0.05 * mean && tail / 4 < 0.5 * Math.abs(speed[k1]!);
+  return mean > 0 && sd < 0.05 * mean;
 }

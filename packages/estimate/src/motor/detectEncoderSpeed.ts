@@ -1,3 +1,4 @@
+import { KERNEL_MIN_LENGTH, sampleKernels } from './sampleKernels.js';
 import { selectKth } from './selectKth.js';
 
 /**
@@ -25,15 +26,7 @@ import { selectKth } from './selectKth.js';
 export function detectEncoderSpeed(time: Float64Array, speed: Float64Array): number | null {
   const n = speed.length;
   if (n < 16) return null;
-  const d = new Float64Array(n - 1);
-  let smallest = Infinity;
-  let nan = false;
-  for (let k = 1; k < n; k++) {
-    const x = Math.abs(speed[k]! * (time[k]! - time[k - 1]!));
-    d[k - 1] = x;
-    if (x > 0 && x < smallest) smallest = x;
-    else if (x !== x) nan = true;
-  }
+  const { d, smallest, nan } = (n >= KERNEL_MIN_LENGTH && time.length >= n ? countStepsKernel(time, speed) : null) ?? countSteps(time, speed);
   if (!Number.isFinite(smallest)) return null;
   // The middle of the sorted |d|: by selection on a copy (the same value: no −0 after Math.abs),
   // by a sort when a NaN is present (sorted last).
@@ -59,6 +52,38 @@ export function detectEncoderSpeed(time: Float64Array, speed: Float64Array): num
     if (bad <= 0.01 * used && (counts.size >= 8 || (div === 1 && counts.size >= 3 && n >= 200))) return noisierThanCounts(time, speed, q) ? null : q;
   }
   return null;
+}
+
+/** The angle steps d_k = |ω_k·(t_k − t_{k−1})|, the smallest one above 0, and whether one is NaN. */
+interface CountSteps { d: Float64Array; smallest: number; nan: boolean }
+
+/** The first pass of `detectEncoderSpeed` in plain JavaScript (the reference of {@link countStepsKernel} and its fallback; exported for the tests). */
+export function countSteps(time: Float64Array, speed: Float64Array): CountSteps {
+  const n = speed.length;
+  const d = new Float64Array(n - 1);
+  let smallest = Infinity;
+  let nan = false;
+  for (let k = 1; k < n; k++) {
+    const x = Math.abs(speed[k]! * (time[k]! - time[k - 1]!));
+    d[k - 1] = x;
+    if (x > 0 && x < smallest) smallest = x;
+    else if (x !== x) nan = true;
+  }
+  return { d, smallest, nan };
+}
+
+/** {@link countSteps} through the WebAssembly kernel (sampleKernels.wat): the same bits; null where it cannot run (or `time` is shorter than `speed`). */
+export function countStepsKernel(time: Float64Array, speed: Float64Array): CountSteps | null {
+  const n = speed.length;
+  if (time.length < n || n < 1) return null;
+  const tAt = n, dAt = 2 * n, outAt = 3 * n;
+  const room = sampleKernels.room(8 * (outAt + 1));
+  if (room === null) return null;
+  const { f64, exports: k } = room;
+  f64.set(speed, 0);
+  f64.set(time.subarray(0, n), tAt);
+  const nan = k.countSteps(0, 8 * tAt, n, 8 * dAt, 8 * outAt) === 1;
+  return { d: f64.slice(dAt, dAt + n - 1), smallest: f64[outAt]!, nan };
 }
 
 /**

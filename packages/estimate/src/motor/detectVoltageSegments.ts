@@ -1,3 +1,4 @@
+import { KERNEL_MIN_LENGTH, sampleKernels } from './sampleKernels.js';
 import type { VoltageSegment } from './types.js';
 
 /**
@@ -22,32 +23,23 @@ import type { VoltageSegment } from './types.js';
 export function detectVoltageSegments(voltage: Float64Array, sigma: number, threshold = 6): VoltageSegment[] {
   const n = voltage.length;
   const jump = threshold * Math.SQRT2 * Math.max(sigma, 1e-15);
-  const starts: number[] = [0];
-  // Prefix sums for the binary segmentation below, in the same pass as the jump test.
-  const prefix = new Float64Array(n + 1);
-  if (n > 0) prefix[1] = voltage[0]!;
-  for (let k = 1; k < n; k++) {
-    prefix[k + 1] = prefix[k]! + voltage[k]!;
-    const d = Math.abs(voltage[k]! - voltage[k - 1]!);
-    if (d > jump) {
-      const lastStart = starts[starts.length - 1]!;
-      if (k - lastStart <= 2 && lastStart !== 0) starts[starts.length - 1] = k;
-      else starts.push(k);
-    }
-  }
+  const sd = Math.max(sigma, 1e-15);
+  const limit = threshold * threshold * sd * sd;
+  // The passes over every sample through the WebAssembly kernel (the same bits) when it runs.
+  const fast = n >= KERNEL_MIN_LENGTH ? jumpsKernel(voltage, jump) : null;
+  const { prefix, starts } = fast ?? jumps(voltage, jump);
+  const best = fast !== null ? fast.bestSplit : (a: number, b: number, lim: number): number => bestSplit(prefix, a, b, lim);
   // Binary segmentation inside each segment: a level change whose jump the noise hid from the
   // sample-to-sample test still shows as a large difference of the means on either side of it.
   const split: number[] = [];
-  const sd = Math.max(sigma, 1e-15);
-  // Explicit stack of [a, b, depth] (no recursion, no closure per call), pieces in split order.
+  // Explicit stack of [a, b, depth] (no recursion), pieces in split order.
   const stack: number[] = [];
   for (let i = starts.length - 1; i >= 0; i--) stack.push(starts[i]!, i + 1 < starts.length ? starts[i + 1]! : n, 0);
-  const limit = threshold * threshold * sd * sd;
   while (stack.length > 0) {
     const depth = stack.pop()!, b = stack.pop()!, a = stack.pop()!;
     split.push(a);
     if (b - a < 4 || depth > 60) continue;
-    const at = bestSplit(prefix, a, b, limit);
+    const at = best(a, b, limit);
     if (at > 0) stack.push(at, b, depth + 1, a, at, depth + 1);
   }
   split.sort((x, y) => x - y);
@@ -82,6 +74,53 @@ export function detectVoltageSegments(voltage: Float64Array, sigma: number, thre
   return segs;
 }
 
+/** The prefix sums of the voltage and the starts of its jump segments (the first pass). */
+interface Jumps { prefix: Float64Array; starts: number[] }
+
+/**
+ * Prefix sums for the binary segmentation, in the same pass as the jump test: k starts a segment
+ * when |v[k] − v[k−1]| > jump; jumps within two samples of the last start (other than 0) move it.
+ * Plain JavaScript: the reference of {@link jumpsKernel} and its fallback (exported for the tests).
+ */
+export function jumps(voltage: Float64Array, jump: number): Jumps {
+  const n = voltage.length;
+  const starts: number[] = [0];
+  const prefix = new Float64Array(n + 1);
+  if (n > 0) prefix[1] = voltage[0]!;
+  for (let k = 1; k < n; k++) {
+    prefix[k + 1] = prefix[k]! + voltage[k]!;
+    const d = Math.abs(voltage[k]! - voltage[k - 1]!);
+    if (d > jump) {
+      const lastStart = starts[starts.length - 1]!;
+      if (k - lastStart <= 2 && lastStart !== 0) starts[starts.length - 1] = k;
+      else starts.push(k);
+    }
+  }
+  return { prefix, starts };
+}
+
+/**
+ * {@link jumps} through the WebAssembly kernel (sampleKernels.wat), with a `bestSplit` that runs
+ * there on the prefix sums left in its memory (valid until the next kernel call elsewhere); null
+ * where the kernel cannot run.
+ */
+export function jumpsKernel(voltage: Float64Array, jump: number): (Jumps & { bestSplit(a: number, b: number, limit: number): number }) | null {
+  const n = voltage.length;
+  const prefixAt = n;
+  const startsByte = 8 * (2 * n + 1);
+  const room = sampleKernels.room(startsByte + 4 * n + 4);
+  if (room === null) return null;
+  const { f64, u8, exports: k } = room;
+  f64.set(voltage, 0);
+  const count = k.jumps(0, n, jump, 8 * prefixAt, startsByte);
+  const starts = Array.from(new Int32Array(u8.buffer, startsByte, count));
+  return {
+    prefix: f64.slice(prefixAt, prefixAt + n + 1),
+    starts,
+    bestSplit: (a, b, limit) => k.bestSplit(8 * prefixAt, a, b, limit),
+  };
+}
+
 /** Mean of v[a..b) from the prefix sums of v (one subtraction instead of a pass over the samples). */
 function meanOf(prefix: Float64Array, a: number, b: number): number {
   return (prefix[b]! - prefix[a]!) / (b - a);
@@ -94,9 +133,11 @@ function meanOf(prefix: Float64Array, a: number, b: number): number {
  * mean_l − mean_r = (S_l·N − S·n_l)/(n_l·n_r) and 1/n_l + 1/n_r = N/(n_l·n_r), so
  * t² = (S_l·N − S·n_l)²/(n_l·n_r·N·σ²): one division per k, no square root.
  *
+ * (Plain JavaScript: the reference of the kernel's `bestSplit`; exported for the tests.)
+ *
  * @param limit - threshold²·σ² [V²]
  */
-function bestSplit(prefix: Float64Array, a: number, b: number, limit: number): number {
+export function bestSplit(prefix: Float64Array, a: number, b: number, limit: number): number {
   const N = b - a;
   const pa = prefix[a]!;
   const total = prefix[b]! - pa;

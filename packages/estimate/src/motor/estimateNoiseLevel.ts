@@ -1,5 +1,5 @@
 import { KERNEL_MIN_LENGTH, sampleKernels } from './sampleKernels.js';
-import { selectKth } from './selectKth.js';
+import { medianInPlace } from './selectKth.js';
 import type { NoiseLevel } from './types.js';
 
 /** 1/Φ⁻¹(3/4): makes the median absolute deviation a consistent SD estimate for Gaussian noise. */
@@ -271,16 +271,7 @@ function sortedDistinct(values: Float64Array, stride: number): Float64Array {
 
 /** Median by Hoare's selection (expected O(n)) on a copy; the input is left as it is. */
 function median(a: Float64Array): number {
-  const n = a.length;
-  if (n === 0) return NaN;
-  const s = Float64Array.from(a);
-  const h = n >> 1;
-  const hi = selectKth(s, h);
-  if (n % 2 === 1) return hi;
-  // The lower middle is the largest value left of position h after the selection.
-  let lo = -Infinity;
-  for (let k = 0; k < h; k++) if (s[k]! > lo) lo = s[k]!;
-  return 0.5 * (lo + hi);
+  return medianInPlace(Float64Array.from(a));
 }
 
 function quietestSegmentSd(values: Float64Array): number {

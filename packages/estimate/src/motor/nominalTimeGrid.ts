@@ -1,3 +1,5 @@
+import { KERNEL_MIN_LENGTH, sampleKernels } from './sampleKernels.js';
+
 /** A regular grid t = start + j·interval that jittered sample instants scatter around. */
 export interface NominalGrid {
   /** First instant of the grid [s]. */
@@ -27,6 +29,27 @@ export interface NominalGrid {
 export function nominalTimeGrid(time: Float64Array): NominalGrid | null {
   const n = time.length;
   if (n < 8) return null;
+  const { h, a, ss, worst } = (n >= KERNEL_MIN_LENGTH ? timeLineKernel(time) : null) ?? timeLine(time);
+  const sd = Math.sqrt(ss / (n - 2));
+  if (!(h > 0) || sd < 0.01 * h || worst >= 0.45 * h) return null;
+  // The line is only as good as the jitter allows (SE of the interval σ·√(12/n³), of the start
+  // ≈ 2σ/√n), and a command that moves at every tick needs every sample in the right interval over
+  // the whole record: a logger's clock runs at a round interval and starts at its own zero, so the
+  // line is snapped to those when they lie within 3 standard errors of it.
+  const seH = sd * Math.sqrt(12 / (n * n * n));
+  const seA = (2 * sd) / Math.sqrt(n);
+  const round = roundNear(h, 3 * seH);
+  const interval = round ?? h;
+  const start = Math.abs(a - time[0]!) <= 3 * seA ? time[0]! : a;
+  return { start, interval, jitter: sd };
+}
+
+/** The least-squares line t ≈ a + k·h through the instants, with Σe² and max |e| of the deviations e = t − a − k·h. */
+interface TimeLine { h: number; a: number; ss: number; worst: number }
+
+/** The line's three passes in plain JavaScript (the reference of {@link timeLineKernel} and its fallback; exported for the tests). */
+export function timeLine(time: Float64Array): TimeLine {
+  const n = time.length;
   let sk = 0, st = 0;
   for (let k = 0; k < n; k++) { sk += k; st += time[k]!; }
   const kb = sk / n, tb = st / n;
@@ -40,18 +63,18 @@ export function nominalTimeGrid(time: Float64Array): NominalGrid | null {
     ss += e * e;
     worst = Math.max(worst, Math.abs(e));
   }
-  const sd = Math.sqrt(ss / (n - 2));
-  if (!(h > 0) || sd < 0.01 * h || worst >= 0.45 * h) return null;
-  // The line is only as good as the jitter allows (SE of the interval σ·√(12/n³), of the start
-  // ≈ 2σ/√n), and a command that moves at every tick needs every sample in the right interval over
-  // the whole record: a logger's clock runs at a round interval and starts at its own zero, so the
-  // line is snapped to those when they lie within 3 standard errors of it.
-  const seH = sd * Math.sqrt(12 / (n * n * n));
-  const seA = (2 * sd) / Math.sqrt(n);
-  const round = roundNear(h, 3 * seH);
-  const interval = round ?? h;
-  const start = Math.abs(a - time[0]!) <= 3 * seA ? time[0]! : a;
-  return { start, interval, jitter: sd };
+  return { h, a, ss, worst };
+}
+
+/** {@link timeLine} through the WebAssembly kernel (sampleKernels.wat): the same bits; null where it cannot run. */
+export function timeLineKernel(time: Float64Array): TimeLine | null {
+  const n = time.length;
+  const room = sampleKernels.room(8 * (n + 4));
+  if (room === null) return null;
+  const { f64, exports: k } = room;
+  f64.set(time, 0);
+  k.timeLine(0, n, 8 * n);
+  return { h: f64[n]!, a: f64[n + 1]!, ss: f64[n + 2]!, worst: f64[n + 3]! };
 }
 
 /** The number with the fewest significant digits (at most 4) within `tol` of x, or null. */

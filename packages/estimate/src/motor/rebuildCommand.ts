@@ -1,7 +1,8 @@
 import { detectVoltageSegments } from './detectVoltageSegments.js';
 import { estimateNoiseLevel } from './estimateNoiseLevel.js';
 import { fourierMagnitudes } from './fourierMagnitudes.js';
-import { selectKth } from './selectKth.js';
+import { medianInPlace } from './selectKth.js';
+import { KERNEL_MIN_LENGTH, sampleKernels } from './sampleKernels.js';
 import { solveSymmetricSystem } from '../solver/solveSymmetricSystem.js';
 import type { InputHandling, VoltageSegment } from './types.js';
 import { zeroPhaseLowPass } from './zeroPhaseLowPass.js';
@@ -232,30 +233,44 @@ function withinSegmentSigma(v: Float64Array, segs: VoltageSegment[]): number {
   if (total < 8) return NaN;
   // At most 2¹⁵ of them, every stride-th (as in estimateNoiseLevel).
   const stride = Math.max(1, Math.ceil(total / 32768));
-  const d = new Float64Array(Math.ceil(total / stride));
+  const dd = (v.length >= KERNEL_MIN_LENGTH ? segmentDifferencesKernel(v, segs, stride, Math.ceil(total / stride)) : null) ?? segmentDifferences(v, segs, stride, Math.ceil(total / stride));
+  const m = dd.length;
+  const med = medianInPlace(dd);
+  for (let k = 0; k < m; k++) dd[k] = Math.abs(dd[k]! - med);
+  return (1.482602218505602 * medianInPlace(dd)) / Math.sqrt(6);
+}
+
+/**
+ * Every stride-th second difference (counted over all segments in order) whose three samples lie in
+ * one segment, at most `cap` of them. Plain JavaScript: the reference of
+ * {@link segmentDifferencesKernel} and its fallback (exported for the tests).
+ */
+export function segmentDifferences(v: Float64Array, segs: readonly VoltageSegment[], stride: number, cap: number): Float64Array {
+  const d = new Float64Array(cap);
   let q = 0, c = 0;
   for (const sg of segs) {
     for (let k = sg.start + 1; k + 1 < sg.end; k++) {
       if (c++ % stride === 0 && q < d.length) d[q++] = v[k + 1]! - 2 * v[k]! + v[k - 1]!;
     }
   }
-  const m = q;
-  const dd = d.subarray(0, m);
-  const med = medianOf(dd);
-  for (let k = 0; k < m; k++) dd[k] = Math.abs(dd[k]! - med);
-  return (1.482602218505602 * medianOf(dd)) / Math.sqrt(6);
+  return d.subarray(0, q);
 }
 
-/** Median of finite values by selection (`selectKth`); rearranges `a`. */
-function medianOf(a: Float64Array): number {
-  const n = a.length;
-  const h = n >> 1;
-  const hi = selectKth(a, h);
-  if (n % 2 === 1) return hi;
-  // Nothing left of h is larger than a[h]: the lower middle is the largest of them.
-  let lo = -Infinity;
-  for (let k = 0; k < h; k++) if (a[k]! > lo) lo = a[k]!;
-  return 0.5 * (lo + hi);
+/** {@link segmentDifferences} through the WebAssembly kernel (sampleKernels.wat): the same bits; null where it cannot run. */
+export function segmentDifferencesKernel(v: Float64Array, segs: readonly VoltageSegment[], stride: number, cap: number): Float64Array | null {
+  const n = v.length;
+  const room = sampleKernels.room(8 * (n + cap));
+  if (room === null) return null;
+  const { f64, exports: k } = room;
+  f64.set(v, 0);
+  let q = 0, c = 0;
+  for (const sg of segs) {
+    // (Segments lie inside the series; one that does not is left to the JavaScript.)
+    if (!(sg.start >= 0 && sg.end <= n)) return null;
+    q = k.strideDifferences(0, sg.start, sg.end, c, stride, 8 * n, q, cap);
+    c += Math.max(sg.end - sg.start - 2, 0);
+  }
+  return f64.slice(n, n + q);
 }
 
 function fmt(x: number): string {

@@ -17,6 +17,12 @@ export interface SampleKernels {
   distinctInPlace(p: number, m: number): number;
   singleGaps(p: number, u: number, quantum: number, out: number): number;
   offGrid(p: number, u: number, q: number, allowed: number): number;
+  timeLine(p: number, n: number, out: number): void;
+  strideDifferences(p: number, start: number, end: number, c: number, stride: number, out: number, q: number, cap: number): number;
+  jumps(p: number, n: number, jump: number, prefix: number, starts: number): number;
+  bestSplit(prefix: number, a: number, b: number, limit: number): number;
+  countSteps(w: number, t: number, n: number, d: number, out: number): number;
+  largestMagnitude(p: number, n: number): number;
 }
 
 /** The kernel module, compiled on first use. */

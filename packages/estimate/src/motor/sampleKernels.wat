@@ -219,4 +219,171 @@
         (local.set $j (i32.add (local.get $j) (i32.const 1)))
         (br $next)))
     (i32.const 0))
+;; timeLine(p, n, out): nominalTimeGrid's three passes over the n instants t at p — the
+  ;; least-squares line t ≈ a + k·h (sums in order of k) and the deviations e = t − a − k·h —
+  ;; storing h, a, Σe² and max |e| (NaN once any e is NaN, as Math.max) at out.
+  (func (export "timeLine") (param $p i32) (param $n i32) (param $out i32)
+    (local $k i32) (local $a i32) (local $nf f64) (local $kf f64)
+    (local $sk f64) (local $st f64) (local $kb f64) (local $tb f64) (local $skk f64) (local $skt f64)
+    (local $dk f64) (local $h f64) (local $b f64) (local $e f64) (local $ss f64) (local $worst f64)
+    (local.set $nf (f64.convert_i32_s (local.get $n)))
+    (local.set $k (i32.const 0))
+    (local.set $a (local.get $p))
+    (block $done1
+      (loop $next1
+        (br_if $done1 (i32.ge_s (local.get $k) (local.get $n)))
+        (local.set $sk (f64.add (local.get $sk) (f64.convert_i32_s (local.get $k))))
+        (local.set $st (f64.add (local.get $st) (f64.load (local.get $a))))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (local.set $a (i32.add (local.get $a) (i32.const 8)))
+        (br $next1)))
+    (local.set $kb (f64.div (local.get $sk) (local.get $nf)))
+    (local.set $tb (f64.div (local.get $st) (local.get $nf)))
+    (local.set $k (i32.const 0))
+    (local.set $a (local.get $p))
+    (block $done2
+      (loop $next2
+        (br_if $done2 (i32.ge_s (local.get $k) (local.get $n)))
+        (local.set $dk (f64.sub (f64.convert_i32_s (local.get $k)) (local.get $kb)))
+        (local.set $skk (f64.add (local.get $skk) (f64.mul (local.get $dk) (local.get $dk))))
+        (local.set $skt (f64.add (local.get $skt) (f64.mul (local.get $dk) (f64.sub (f64.load (local.get $a)) (local.get $tb)))))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (local.set $a (i32.add (local.get $a) (i32.const 8)))
+        (br $next2)))
+    (local.set $h (f64.div (local.get $skt) (local.get $skk)))
+    (local.set $b (f64.sub (local.get $tb) (f64.mul (local.get $h) (local.get $kb))))
+    (local.set $k (i32.const 0))
+    (local.set $a (local.get $p))
+    (block $done3
+      (loop $next3
+        (br_if $done3 (i32.ge_s (local.get $k) (local.get $n)))
+        ;; e = t − a − k·h, left to right
+        (local.set $e (f64.sub (f64.sub (f64.load (local.get $a)) (local.get $b)) (f64.mul (f64.convert_i32_s (local.get $k)) (local.get $h))))
+        (local.set $ss (f64.add (local.get $ss) (f64.mul (local.get $e) (local.get $e))))
+        (local.set $worst (f64.max (local.get $worst) (f64.abs (local.get $e))))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (local.set $a (i32.add (local.get $a) (i32.const 8)))
+        (br $next3)))
+    (f64.store offset=0 (local.get $out) (local.get $h))
+    (f64.store offset=8 (local.get $out) (local.get $b))
+    (f64.store offset=16 (local.get $out) (local.get $ss))
+    (f64.store offset=24 (local.get $out) (local.get $worst)))
+
+  ;; strideDifferences(p, start, end, c, stride, out, q, cap): withinSegmentSigma's loop over one
+  ;; segment: for k = start + 1 … while k + 1 < end, with the running counter c (one per k), when
+  ;; c % stride = 0 and q < cap, stores x[k+1] − 2·x[k] + x[k−1] as out[q] and counts q up; returns q.
+  (func (export "strideDifferences") (param $p i32) (param $start i32) (param $end i32) (param $c i32) (param $stride i32) (param $out i32) (param $q i32) (param $cap i32) (result i32)
+    (local $k i32) (local $a i32)
+    (local.set $k (i32.add (local.get $start) (i32.const 1)))
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_s (i32.add (local.get $k) (i32.const 1)) (local.get $end)))
+        (if (i32.and (i32.eqz (i32.rem_s (local.get $c) (local.get $stride))) (i32.lt_s (local.get $q) (local.get $cap)))
+          (then
+            (local.set $a (i32.add (local.get $p) (i32.shl (local.get $k) (i32.const 3))))
+            (f64.store (i32.add (local.get $out) (i32.shl (local.get $q) (i32.const 3)))
+              (f64.add
+                (f64.sub (f64.load offset=8 (local.get $a)) (f64.mul (f64.const 2) (f64.load (local.get $a))))
+                (f64.load (i32.sub (local.get $a) (i32.const 8)))))
+            (local.set $q (i32.add (local.get $q) (i32.const 1)))))
+        (local.set $c (i32.add (local.get $c) (i32.const 1)))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (br $next)))
+    (local.get $q))
+;; jumps(p, n, jump, prefix, starts): detectVoltageSegments' first pass over the n voltages at p:
+  ;; prefix sums (n + 1 doubles at `prefix`, prefix[0] = 0) and the starts of the jump segments
+  ;; (i32 at `starts`, the first one 0): k starts a segment when |v[k] − v[k−1]| > jump, replacing
+  ;; the last start instead when that is within two samples and not 0. Returns how many starts.
+  (func (export "jumps") (param $p i32) (param $n i32) (param $jump f64) (param $prefix i32) (param $starts i32) (result i32)
+    (local $k i32) (local $count i32) (local $last i32) (local $sum f64) (local $x f64) (local $prev f64)
+    (f64.store (local.get $prefix) (f64.const 0))
+    (i32.store (local.get $starts) (i32.const 0))
+    (local.set $count (i32.const 1))
+    (if (i32.le_s (local.get $n) (i32.const 0)) (then (return (local.get $count))))
+    (local.set $prev (f64.load (local.get $p)))
+    (local.set $sum (local.get $prev))
+    (f64.store offset=8 (local.get $prefix) (local.get $sum))
+    (local.set $k (i32.const 1))
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_s (local.get $k) (local.get $n)))
+        (local.set $x (f64.load (i32.add (local.get $p) (i32.shl (local.get $k) (i32.const 3)))))
+        (local.set $sum (f64.add (local.get $sum) (local.get $x)))
+        (f64.store (i32.add (local.get $prefix) (i32.shl (i32.add (local.get $k) (i32.const 1)) (i32.const 3))) (local.get $sum))
+        (if (f64.gt (f64.abs (f64.sub (local.get $x) (local.get $prev))) (local.get $jump))
+          (then
+            (local.set $last (i32.load (i32.add (local.get $starts) (i32.shl (i32.sub (local.get $count) (i32.const 1)) (i32.const 2)))))
+            (if (i32.and (i32.le_s (i32.sub (local.get $k) (local.get $last)) (i32.const 2)) (i32.ne (local.get $last) (i32.const 0)))
+              (then (i32.store (i32.add (local.get $starts) (i32.shl (i32.sub (local.get $count) (i32.const 1)) (i32.const 2))) (local.get $k)))
+              (else
+                (i32.store (i32.add (local.get $starts) (i32.shl (local.get $count) (i32.const 2))) (local.get $k))
+                (local.set $count (i32.add (local.get $count) (i32.const 1)))))))
+        (local.set $prev (local.get $x))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (br $next)))
+    (local.get $count))
+
+  ;; bestSplit(prefix, a, b, limit): detectVoltageSegments' bestSplit on the prefix sums at `prefix`:
+  ;; the k in [a + 2, b − 2] with the largest t² = d²/(nl·(N − nl)), d = (P[k] − P[a])·N − S·nl
+  ;; (first one on ties), returned when t² > limit·N and k > 0, else −1.
+  (func (export "bestSplit") (param $prefix i32) (param $a i32) (param $b i32) (param $limit f64) (result i32)
+    (local $k i32) (local $at i32) (local $N f64) (local $pa f64) (local $total f64) (local $best f64)
+    (local $nl f64) (local $d f64) (local $t2 f64)
+    (local.set $N (f64.convert_i32_s (i32.sub (local.get $b) (local.get $a))))
+    (local.set $pa (f64.load (i32.add (local.get $prefix) (i32.shl (local.get $a) (i32.const 3)))))
+    (local.set $total (f64.sub (f64.load (i32.add (local.get $prefix) (i32.shl (local.get $b) (i32.const 3)))) (local.get $pa)))
+    (local.set $at (i32.const -1))
+    (local.set $k (i32.add (local.get $a) (i32.const 2)))
+    (block $done
+      (loop $next
+        (br_if $done (i32.gt_s (local.get $k) (i32.sub (local.get $b) (i32.const 2))))
+        (local.set $nl (f64.convert_i32_s (i32.sub (local.get $k) (local.get $a))))
+        (local.set $d (f64.sub
+          (f64.mul (f64.sub (f64.load (i32.add (local.get $prefix) (i32.shl (local.get $k) (i32.const 3)))) (local.get $pa)) (local.get $N))
+          (f64.mul (local.get $total) (local.get $nl))))
+        (local.set $t2 (f64.div (f64.mul (local.get $d) (local.get $d)) (f64.mul (local.get $nl) (f64.sub (local.get $N) (local.get $nl)))))
+        (if (f64.gt (local.get $t2) (local.get $best))
+          (then (local.set $best (local.get $t2)) (local.set $at (local.get $k))))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (br $next)))
+    (if (result i32) (i32.and (f64.gt (local.get $best) (f64.mul (local.get $limit) (local.get $N))) (i32.gt_s (local.get $at) (i32.const 0)))
+      (then (local.get $at))
+      (else (i32.const -1))))
+;; countSteps(w, t, n, d, out): detectEncoderSpeed's first pass over the speeds at w and the
+  ;; instants at t: d[k−1] = |w[k]·(t[k] − t[k−1])| for k = 1…n−1, the smallest d > 0 stored at out
+  ;; (Infinity when none); returns 1 when some d is NaN (and no smaller d came with it), else 0 —
+  ;; exactly as the JavaScript's `if (x > 0 && x < smallest) … else if (x !== x) nan = true`.
+  (func (export "countSteps") (param $w i32) (param $t i32) (param $n i32) (param $d i32) (param $out i32) (result i32)
+    (local $k i32) (local $nan i32) (local $x f64) (local $smallest f64)
+    (local.set $smallest (f64.const inf))
+    (local.set $k (i32.const 1))
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_s (local.get $k) (local.get $n)))
+        (local.set $x (f64.abs (f64.mul
+          (f64.load (i32.add (local.get $w) (i32.shl (local.get $k) (i32.const 3))))
+          (f64.sub
+            (f64.load (i32.add (local.get $t) (i32.shl (local.get $k) (i32.const 3))))
+            (f64.load (i32.add (local.get $t) (i32.shl (i32.sub (local.get $k) (i32.const 1)) (i32.const 3))))))))
+        (f64.store (i32.add (local.get $d) (i32.shl (i32.sub (local.get $k) (i32.const 1)) (i32.const 3))) (local.get $x))
+        (if (i32.and (f64.gt (local.get $x) (f64.const 0)) (f64.lt (local.get $x) (local.get $smallest)))
+          (then (local.set $smallest (local.get $x)))
+          (else (if (f64.ne (local.get $x) (local.get $x)) (then (local.set $nan (i32.const 1))))))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (br $next)))
+    (f64.store (local.get $out) (local.get $smallest))
+    (local.get $nan))
+
+  ;; largestMagnitude(p, n): the largest |x| of the n doubles at p, as `m = 0; m = Math.max(m, |x|)`
+  ;; (NaN once any x is NaN).
+  (func (export "largestMagnitude") (param $p i32) (param $n i32) (result f64)
+    (local $end i32) (local $m f64)
+    (local.set $end (i32.add (local.get $p) (i32.shl (local.get $n) (i32.const 3))))
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_u (local.get $p) (local.get $end)))
+        (local.set $m (f64.max (local.get $m) (f64.abs (f64.load (local.get $p)))))
+        (local.set $p (i32.add (local.get $p) (i32.const 8)))
+        (br $next)))
+    (local.get $m))
 )

@@ -51,3 +51,35 @@ export function selectKthPlain(s: Float64Array, k: number): number {
   }
   return s[k]!;
 }
+
+/**
+ * The median of `a` (no NaN in it; NaN when empty), by selection: the upper middle by
+ * {@link selectKth}, and for an even length the lower middle as the largest value left of it.
+ * Rearranges `a` as the selection does.
+ *
+ * @param a - the values, rearranged in place
+ * @returns the median
+ * @example
+ * medianInPlace(Float64Array.of(4, 1, 3, 2)); // => 2.5
+ */
+export function medianInPlace(a: Float64Array): number {
+  const n = a.length;
+  if (n === 0) return NaN;
+  const h = n >> 1;
+  if (n >= KERNEL_MIN_LENGTH) {
+    const room = sampleKernels.room(8 * n);
+    if (room !== null) {
+      room.f64.set(a, 0);
+      const hi = room.exports.select(0, n, h);
+      const lo = n % 2 === 1 ? 0 : room.exports.largestOf(0, h);
+      a.set(room.f64.subarray(0, n));
+      return n % 2 === 1 ? hi : 0.5 * (lo + hi);
+    }
+  }
+  const hi = selectKthPlain(a, h);
+  if (n % 2 === 1) return hi;
+  // Nothing left of h is larger than a[h]: the lower middle is the largest of them.
+  let lo = -Infinity;
+  for (let k = 0; k < h; k++) if (a[k]! > lo) lo = a[k]!;
+  return 0.5 * (lo + hi);
+}
