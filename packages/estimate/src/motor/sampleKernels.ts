@@ -23,6 +23,8 @@ export interface SampleKernels {
   bestSplit(prefix: number, a: number, b: number, limit: number): number;
   countSteps(w: number, t: number, n: number, d: number, out: number): number;
   largestMagnitude(p: number, n: number): number;
+  section(p: number, n: number, c: number, backward: number): void;
+  lowPass(x: number, n: number, pad: number, c: number, sections: number): void;
 }
 
 /** The kernel module, compiled on first use. */

@@ -386,4 +386,80 @@
         (local.set $p (i32.add (local.get $p) (i32.const 8)))
         (br $next)))
     (local.get $m))
+;; section(p, n, c, backward): zeroPhaseLowPass's runSection — one biquad (coefficients b0 b1 b2
+  ;; a1 a2 at c) in transposed direct form II over the n doubles at p, in place, forward or
+  ;; backward, started in its steady state for the first input.
+  (func $section (export "section") (param $p i32) (param $n i32) (param $c i32) (param $backward i32)
+    (local $b0 f64) (local $b1 f64) (local $b2 f64) (local $a1 f64) (local $a2 f64)
+    (local $x0 f64) (local $z1 f64) (local $z2 f64) (local $u f64) (local $y f64)
+    (local $at i32) (local $end i32) (local $step i32)
+    (local.set $b0 (f64.load offset=0 (local.get $c)))
+    (local.set $b1 (f64.load offset=8 (local.get $c)))
+    (local.set $b2 (f64.load offset=16 (local.get $c)))
+    (local.set $a1 (f64.load offset=24 (local.get $c)))
+    (local.set $a2 (f64.load offset=32 (local.get $c)))
+    (if (i32.le_s (local.get $n) (i32.const 0)) (then (return)))
+    (if (local.get $backward)
+      (then
+        (local.set $at (i32.add (local.get $p) (i32.shl (i32.sub (local.get $n) (i32.const 1)) (i32.const 3))))
+        (local.set $end (i32.sub (local.get $p) (i32.const 8)))
+        (local.set $step (i32.const -8)))
+      (else
+        (local.set $at (local.get $p))
+        (local.set $end (i32.add (local.get $p) (i32.shl (local.get $n) (i32.const 3))))
+        (local.set $step (i32.const 8))))
+    (local.set $x0 (f64.load (local.get $at)))
+    ;; z1 = x0 − b0·x0; z2 = b2·x0 − a2·x0
+    (local.set $z1 (f64.sub (local.get $x0) (f64.mul (local.get $b0) (local.get $x0))))
+    (local.set $z2 (f64.sub (f64.mul (local.get $b2) (local.get $x0)) (f64.mul (local.get $a2) (local.get $x0))))
+    (loop $next
+      (local.set $u (f64.load (local.get $at)))
+      ;; y = b0·u + z1; z1 = b1·u − a1·y + z2; z2 = b2·u − a2·y
+      (local.set $y (f64.add (f64.mul (local.get $b0) (local.get $u)) (local.get $z1)))
+      (local.set $z1 (f64.add (f64.sub (f64.mul (local.get $b1) (local.get $u)) (f64.mul (local.get $a1) (local.get $y))) (local.get $z2)))
+      (local.set $z2 (f64.sub (f64.mul (local.get $b2) (local.get $u)) (f64.mul (local.get $a2) (local.get $y))))
+      (f64.store (local.get $at) (local.get $y))
+      (local.set $at (i32.add (local.get $at) (local.get $step)))
+      (br_if $next (i32.ne (local.get $at) (local.get $end)))))
+
+  ;; lowPass(x, n, pad, c, sections): zeroPhaseLowPass on the buffer at x whose middle [pad, pad + n)
+  ;; holds the samples: the odd reflections 2·x₀ − v[pad − k] and 2·v_last − v[n − 2 − k] into the
+  ;; pads, then every section forward, then every section backward (coefficients 5 per section at c).
+  (func (export "lowPass") (param $x i32) (param $n i32) (param $pad i32) (param $c i32) (param $sections i32)
+    (local $k i32) (local $v i32) (local $first f64) (local $last f64) (local $len i32) (local $m i32)
+    (local.set $v (i32.add (local.get $x) (i32.shl (local.get $pad) (i32.const 3))))
+    (local.set $first (f64.load (local.get $v)))
+    (local.set $last (f64.load (i32.add (local.get $v) (i32.shl (i32.sub (local.get $n) (i32.const 1)) (i32.const 3)))))
+    (block $done1
+      (loop $next1
+        (br_if $done1 (i32.ge_s (local.get $k) (local.get $pad)))
+        (f64.store (i32.add (local.get $x) (i32.shl (local.get $k) (i32.const 3)))
+          (f64.sub (f64.mul (f64.const 2) (local.get $first))
+            (f64.load (i32.add (local.get $v) (i32.shl (i32.sub (local.get $pad) (local.get $k)) (i32.const 3))))))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (br $next1)))
+    (local.set $k (i32.const 0))
+    (block $done2
+      (loop $next2
+        (br_if $done2 (i32.ge_s (local.get $k) (local.get $pad)))
+        (f64.store (i32.add (local.get $v) (i32.shl (i32.add (local.get $n) (local.get $k)) (i32.const 3)))
+          (f64.sub (f64.mul (f64.const 2) (local.get $last))
+            (f64.load (i32.add (local.get $v) (i32.shl (i32.sub (i32.sub (local.get $n) (i32.const 2)) (local.get $k)) (i32.const 3))))))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (br $next2)))
+    (local.set $len (i32.add (local.get $n) (i32.shl (local.get $pad) (i32.const 1))))
+    (local.set $m (i32.const 0))
+    (block $done3
+      (loop $next3
+        (br_if $done3 (i32.ge_s (local.get $m) (local.get $sections)))
+        (call $section (local.get $x) (local.get $len) (i32.add (local.get $c) (i32.mul (local.get $m) (i32.const 40))) (i32.const 0))
+        (local.set $m (i32.add (local.get $m) (i32.const 1)))
+        (br $next3)))
+    (local.set $m (i32.const 0))
+    (block $done4
+      (loop $next4
+        (br_if $done4 (i32.ge_s (local.get $m) (local.get $sections)))
+        (call $section (local.get $x) (local.get $len) (i32.add (local.get $c) (i32.mul (local.get $m) (i32.const 40))) (i32.const 1))
+        (local.set $m (i32.add (local.get $m) (i32.const 1)))
+        (br $next4))))
 )

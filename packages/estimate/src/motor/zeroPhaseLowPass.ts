@@ -1,3 +1,5 @@
+import { KERNEL_MIN_LENGTH, sampleKernels } from './sampleKernels.js';
+
 /**
  * Zero-phase low-pass filter: a Butterworth filter of even order run forward, then backward, so
  * the output has no delay. Edges are padded by odd reflection (2·x₀ − x_{k}) to damp the start-up
@@ -55,6 +57,17 @@ export function zeroPhaseLowPass(values: Float64Array, sampleInterval: number, c
     coef[5 * m + 4] = (k * k - q2 * wa * k + wa * wa) / a0; // a2
   }
   const pad = Math.min(n - 1, 3 * order * Math.ceil(0.5 / (cutoff * sampleInterval)));
+  return (n + 2 * pad >= KERNEL_MIN_LENGTH ? lowPassKernel(values, coef, pad) : null) ?? lowPassPlain(values, coef, pad);
+}
+
+/**
+ * The padding and the sweeps of {@link zeroPhaseLowPass} (section coefficients b0 b1 b2 a1 a2 in
+ * `coef`, `pad` samples reflected at each end) in plain JavaScript: the reference of
+ * {@link lowPassKernel} and its fallback (exported for the tests).
+ */
+export function lowPassPlain(values: Float64Array, coef: Float64Array, pad: number): Float64Array {
+  const n = values.length;
+  const sections = coef.length / 5;
   const len = n + 2 * pad;
   const x = new Float64Array(len);
   const first = values[0]!;
@@ -71,6 +84,22 @@ export function zeroPhaseLowPass(values: Float64Array, sampleInterval: number, c
     for (let m = 0; m < sections; m++) runSection(x, coef, 5 * m, true);
   }
   return x.slice(pad, pad + n);
+}
+
+/**
+ * {@link lowPassPlain} through the WebAssembly kernel (sampleKernels.wat: the sections one after the
+ * other, which `runTwoSections` matches bit for bit); null where it cannot run.
+ */
+export function lowPassKernel(values: Float64Array, coef: Float64Array, pad: number): Float64Array | null {
+  const n = values.length;
+  const len = n + 2 * pad;
+  const room = sampleKernels.room(8 * (len + coef.length));
+  if (room === null || n === 0) return null;
+  const { f64, exports: k } = room;
+  f64.set(values, pad);
+  f64.set(coef, len);
+  k.lowPass(0, n, pad, 8 * len, coef.length / 5);
+  return f64.slice(pad, pad + n);
 }
 
 /** One biquad in transposed direct form II, started in its steady state for the first input. */
