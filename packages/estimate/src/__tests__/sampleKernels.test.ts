@@ -6,12 +6,13 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { differenceStats, differenceStatsKernel, gridStepKernel, gridStepPlain } from '../motor/estimateNoiseLevel.js';
-import { KERNEL_MIN_LENGTH, sampleKernels } from '../motor/sampleKernels.js';
+import { channelStatsKernel, KERNEL_MIN_LENGTH, sampleKernels, timeStatsKernel } from '../motor/sampleKernels.js';
 import { medianInPlace, selectKth, selectKthPlain } from '../motor/selectKth.js';
 import { timeLine, timeLineKernel } from '../motor/nominalTimeGrid.js';
 import { segmentDifferences, segmentDifferencesKernel } from '../motor/rebuildCommand.js';
 import { countSteps, countStepsKernel } from '../motor/detectEncoderSpeed.js';
 import { largestMagnitude } from '../motor/classifyRecording.js';
+import { fitMotor } from '../motor/fitMotor.js';
 import { lowPassKernel, lowPassPlain, zeroPhaseLowPass } from '../motor/zeroPhaseLowPass.js';
 import { bestSplit, detectVoltageSegments, jumps, jumpsKernel } from '../motor/detectVoltageSegments.js';
 
@@ -242,5 +243,46 @@ describe('the sample kernels', () => {
     );
     // The public function takes the kernel for long series: a constant stays constant.
     expect(zeroPhaseLowPass(new Float64Array(5000).fill(3), 1e-4, 50)[2500]).toBeCloseTo(3, 9);
+  });
+  it("the recording check's passes: the same largest magnitude, sum and interval range, and null where a sample is bad", () => {
+    fc.assert(
+      fc.property(fc.oneof(finiteSeries, gappySeries), (x) => {
+        let maxAbs = 0, sum = 0, finite = true;
+        for (let k = 0; k < x.length && finite; k++) {
+          const v = x[k]!;
+          if (!Number.isFinite(v)) finite = false;
+          const a = v < 0 ? -v : v;
+          if (a > maxAbs) maxAbs = a;
+          sum += v;
+        }
+        const got = channelStatsKernel(x);
+        if (!finite) expect(got).toBeNull();
+        else expect(Object.is(got!.maxAbs, maxAbs) && Object.is(got!.sum, sum)).toBe(true);
+        // The instants: a running sum of |x| + 1e-9 is increasing unless x has a gap or a zero step.
+        const t = new Float64Array(x.length);
+        for (let k = 1; k < t.length; k++) t[k] = t[k - 1]! + Math.abs(x[k]!) * 1e-3;
+        let hmin = Infinity, hmax = 0, ok = true;
+        for (let k = 1; k < t.length && ok; k++) {
+          const d = t[k]! - t[k - 1]!;
+          if (!Number.isFinite(t[k]!) || !(d > 0)) ok = false;
+          else { if (d < hmin) hmin = d; if (d > hmax) hmax = d; }
+        }
+        const spacing = timeStatsKernel(t);
+        if (!ok) expect(spacing).toBeNull();
+        else expect(Object.is(spacing!.hmin, hmin) && Object.is(spacing!.hmax, hmax)).toBe(true);
+      }),
+      { seed: SEED, numRuns: 300 },
+    );
+  });
+  it('a long recording with a bad sample still gets the message that names it (the kernel passes defer to the loops)', () => {
+    const n = 2000;
+    const time = Float64Array.from({ length: n }, (_, k) => k * 1e-3);
+    const current = Float64Array.from({ length: n }, (_, k) => Math.sin(k / 50));
+    const voltage = Float64Array.from({ length: n }, (_, k) => (k < 100 ? 0 : 6));
+    current[1234] = NaN;
+    expect(() => fitMotor([{ recording: { time, channels: { voltage, current } } }])).toThrow('fitMotor: recordings[0].recording.channels.current[1234] must be finite (got NaN)');
+    current[1234] = 0;
+    time[700] = time[699]!;
+    expect(() => fitMotor([{ recording: { time, channels: { voltage, current } } }])).toThrow(`fitMotor: recordings[0].recording.time must be strictly increasing (time[700] = ${time[700]} after ${time[699]})`);
   });
 });

@@ -6,6 +6,7 @@ import type { NominalGrid } from './nominalTimeGrid.js';
 import { detectVoltageSegments } from './detectVoltageSegments.js';
 import { estimateNoiseLevel } from './estimateNoiseLevel.js';
 import { rebuildCommand } from './rebuildCommand.js';
+import { channelStatsKernel, KERNEL_MIN_LENGTH, timeStatsKernel } from './sampleKernels.js';
 import type { SineBasis } from './rebuildCommand.js';
 import type { InputHandling, MotorExperimentKind, MotorRecordingInput, NoiseLevel, VoltageSegment } from './types.js';
 
@@ -156,7 +157,10 @@ function prepareOnce(item: MotorRecordingInput, index: number, voltageMode: 'aut
   // One pass: finite, strictly increasing, smallest and largest interval.
   let hmin = Infinity, hmax = 0;
   if (!Number.isFinite(time[0]!)) throw new RangeError(`${where}.recording.time[0] must be finite (got ${time[0]})`);
-  for (let k = 1; k < n; k++) {
+  // (Through the kernel for long records; the loop runs when it cannot, or to say what is wrong.)
+  const spacing = n >= KERNEL_MIN_LENGTH ? timeStatsKernel(time) : null;
+  if (spacing !== null) ({ hmin, hmax } = spacing);
+  else for (let k = 1; k < n; k++) {
     const t = time[k]!;
     if (!Number.isFinite(t)) throw new RangeError(`${where}.recording.time[${k}] must be finite (got ${t})`);
     const d = t - time[k - 1]!;
@@ -173,7 +177,13 @@ function prepareOnce(item: MotorRecordingInput, index: number, voltageMode: 'aut
     if (v === undefined) return null;
     if (!(v instanceof Float64Array)) throw new TypeError(`${where}.recording.channels.${name} must be a Float64Array`);
     if (v.length !== n) throw new TypeError(`${where}.recording.channels.${name} has ${v.length} samples, time has ${n}`);
-    // One pass: finite, largest magnitude, sum (for the noise floor and the running direction).
+    // One pass: finite, largest magnitude, sum (for the noise floor and the running direction);
+    // through the kernel for long records, the loop when it cannot or to say which sample is not finite.
+    const seen = n >= KERNEL_MIN_LENGTH ? channelStatsKernel(v) : null;
+    if (seen !== null) {
+      stats.set(v, seen);
+      return v;
+    }
     let maxAbs = 0, sum = 0;
     for (let k = 0; k < n; k++) {
       const x = v[k]!;

@@ -25,6 +25,8 @@ export interface SampleKernels {
   largestMagnitude(p: number, n: number): number;
   section(p: number, n: number, c: number, backward: number): void;
   lowPass(x: number, n: number, pad: number, c: number, sections: number): void;
+  channelStats(p: number, n: number, out: number): number;
+  timeStats(p: number, n: number, out: number): number;
 }
 
 /** The kernel module, compiled on first use. */
@@ -35,3 +37,31 @@ export const sampleKernels = createKernel<SampleKernels>(wasm);
  * kernel's memory would cost as much (common practice, no source: a few hundred elements).
  */
 export const KERNEL_MIN_LENGTH = 256;
+
+/**
+ * A channel's largest magnitude and sum (prepareRecording's one pass) through the kernel; null when
+ * the kernel cannot run or a sample is not finite (the caller's loop then says which).
+ */
+export function channelStatsKernel(v: Float64Array): { maxAbs: number; sum: number } | null {
+  const n = v.length;
+  const room = sampleKernels.room(8 * (n + 2));
+  if (room === null) return null;
+  room.f64.set(v, 0);
+  if (room.exports.channelStats(0, n, 8 * n) !== -1) return null;
+  return { maxAbs: room.f64[n]!, sum: room.f64[n + 1]! };
+}
+
+/**
+ * The smallest and largest sampling interval (prepareRecording's pass over the instants) through the
+ * kernel; null when the kernel cannot run or an instant is not finite or not after the one before
+ * (the caller's loop then says which).
+ */
+export function timeStatsKernel(time: Float64Array): { hmin: number; hmax: number } | null {
+  const n = time.length;
+  if (n < 1) return null;
+  const room = sampleKernels.room(8 * (n + 2));
+  if (room === null) return null;
+  room.f64.set(time, 0);
+  if (room.exports.timeStats(0, n, 8 * n) !== -1) return null;
+  return { hmin: room.f64[n]!, hmax: room.f64[n + 1]! };
+}

@@ -462,4 +462,46 @@
         (call $section (local.get $x) (local.get $len) (i32.add (local.get $c) (i32.mul (local.get $m) (i32.const 40))) (i32.const 1))
         (local.set $m (i32.add (local.get $m) (i32.const 1)))
         (br $next4))))
+;; channelStats(p, n, out): prepareRecording's pass over a channel: the largest magnitude (as
+  ;; `a = x < 0 ? −x : x; if (a > m) m = a`) and the sum in order, stored at out; returns the index
+  ;; of the first non-finite sample (the pass stops there), or −1.
+  (func (export "channelStats") (param $p i32) (param $n i32) (param $out i32) (result i32)
+    (local $k i32) (local $x f64) (local $a f64) (local $m f64) (local $sum f64)
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_s (local.get $k) (local.get $n)))
+        (local.set $x (f64.load (i32.add (local.get $p) (i32.shl (local.get $k) (i32.const 3)))))
+        (if (f64.ne (f64.sub (local.get $x) (local.get $x)) (f64.const 0)) (then (return (local.get $k))))
+        (local.set $a (select (f64.neg (local.get $x)) (local.get $x) (f64.lt (local.get $x) (f64.const 0))))
+        (if (f64.gt (local.get $a) (local.get $m)) (then (local.set $m (local.get $a))))
+        (local.set $sum (f64.add (local.get $sum) (local.get $x)))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (br $next)))
+    (f64.store offset=0 (local.get $out) (local.get $m))
+    (f64.store offset=8 (local.get $out) (local.get $sum))
+    (i32.const -1))
+
+  ;; timeStats(p, n, out): prepareRecording's pass over the instants: the smallest and largest
+  ;; interval d = t[k] − t[k−1] (stored at out); returns the first k ≥ 1 whose t is not finite or
+  ;; whose d is not > 0 (the pass stops there), or −1.
+  (func (export "timeStats") (param $p i32) (param $n i32) (param $out i32) (result i32)
+    (local $k i32) (local $t f64) (local $prev f64) (local $d f64) (local $hmin f64) (local $hmax f64)
+    (local.set $hmin (f64.const inf))
+    (local.set $prev (f64.load (local.get $p)))
+    (local.set $k (i32.const 1))
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_s (local.get $k) (local.get $n)))
+        (local.set $t (f64.load (i32.add (local.get $p) (i32.shl (local.get $k) (i32.const 3)))))
+        (if (f64.ne (f64.sub (local.get $t) (local.get $t)) (f64.const 0)) (then (return (local.get $k))))
+        (local.set $d (f64.sub (local.get $t) (local.get $prev)))
+        (if (i32.eqz (f64.gt (local.get $d) (f64.const 0))) (then (return (local.get $k))))
+        (if (f64.lt (local.get $d) (local.get $hmin)) (then (local.set $hmin (local.get $d))))
+        (if (f64.gt (local.get $d) (local.get $hmax)) (then (local.set $hmax (local.get $d))))
+        (local.set $prev (local.get $t))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (br $next)))
+    (f64.store offset=0 (local.get $out) (local.get $hmin))
+    (f64.store offset=8 (local.get $out) (local.get $hmax))
+    (i32.const -1))
 )
