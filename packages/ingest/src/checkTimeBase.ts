@@ -1,3 +1,5 @@
+import { createKernel } from '@motorprint/model/kernels';
+import { wasm } from './timeBaseKernels.wasm.js';
 import type { IngestIssue, TimeBase } from './types.js';
 
 /** Intervals longer than this multiple of the median are reported as gaps. */
@@ -16,22 +18,10 @@ const JITTER_NOTE = 0.01;
  */
 export function checkTimeBase(time: Float64Array): { timeBase: TimeBase; issues: IngestIssue[] } {
   const n = time.length;
+  const { maxDt, maxAt, minDt, ss, median, gaps } = (n - 1 >= KERNEL_MIN_LENGTH ? intervalStatsKernel(time) : null) ?? intervalStats(time);
   const m = n - 1;
-  const dt = new Float64Array(m);
-  // Each loop is a function of its own: V8 compiles a long loop while it runs, and code after the
-  // loop in the same function would send that compiled code back to the interpreter.
-  const pass = intervalPass(time, dt);
-  const sum = pass[0]!;
-  const maxDt = pass[1]!;
-  const maxAt = pass[2]!;
-  const minDt = pass[3]!;
-  const mean = sum / m;
-  const ss = sumOfSquares(dt, mean);
   const std = m > 1 ? Math.sqrt(ss / (m - 1)) : 0;
-  // The median reorders dt; the rest needs no order.
-  const median = medianOf(dt);
   const maxDev = Math.max(maxDt - median, median - minDt);
-  const gaps = countAbove(dt, GAP_FACTOR * median);
   const timeBase: TimeBase = {
     start: time[0]!,
     end: time[n - 1]!,
@@ -60,6 +50,58 @@ export function checkTimeBase(time: Float64Array): { timeBase: TimeBase; issues:
   }
   return { timeBase, issues };
 }
+
+/** What checkTimeBase reads from the intervals. */
+interface IntervalStats { sum: number; maxDt: number; maxAt: number; minDt: number; ss: number; median: number; gaps: number }
+
+/**
+ * The intervals' sum, largest (and where), smallest, sum of squares about their mean, median and
+ * count above GAP_FACTOR × the median. Plain JavaScript: the reference of
+ * {@link intervalStatsKernel} and its fallback (exported for the tests).
+ */
+export function intervalStats(time: Float64Array): IntervalStats {
+  const m = time.length - 1;
+  const dt = new Float64Array(m);
+  // Each loop is a function of its own: V8 compiles a long loop while it runs, and code after the
+  // loop in the same function would send that compiled code back to the interpreter.
+  const pass = intervalPass(time, dt);
+  const sum = pass[0]!;
+  const ss = sumOfSquares(dt, sum / m);
+  // The median reorders dt; the rest needs no order.
+  const median = medianOf(dt);
+  return { sum, maxDt: pass[1]!, maxAt: pass[2]!, minDt: pass[3]!, ss, median, gaps: countAbove(dt, GAP_FACTOR * median) };
+}
+
+/**
+ * {@link intervalStats} through the WebAssembly kernel (timeBaseKernels.wat): the same operations in
+ * the same order, so the same bits; null where it cannot run.
+ */
+export function intervalStatsKernel(time: Float64Array): IntervalStats | null {
+  const n = time.length;
+  const m = n - 1;
+  if (m < 1) return null;
+  const dtAt = n, outAt = n + m;
+  const room = kernel.room(8 * (outAt + 4));
+  if (room === null) return null;
+  const { f64, exports: k } = room;
+  f64.set(time, 0);
+  k.intervals(0, m, 8 * dtAt, 8 * outAt);
+  const sum = f64[outAt]!, maxDt = f64[outAt + 1]!, maxAt = f64[outAt + 2]!, minDt = f64[outAt + 3]!;
+  const ss = k.sumOfSquares(8 * dtAt, m, sum / m);
+  const median = k.median(8 * dtAt, m);
+  return { sum, maxDt, maxAt, minDt, ss, median, gaps: k.countAbove(8 * dtAt, m, GAP_FACTOR * median) };
+}
+
+/** The time base's kernel (timeBaseKernels.wat), compiled on first use. */
+const kernel = createKernel<{
+  intervals(t: number, m: number, dt: number, out: number): void;
+  sumOfSquares(x: number, m: number, mean: number): number;
+  countAbove(x: number, m: number, limit: number): number;
+  median(x: number, m: number): number;
+}>(wasm);
+
+/** Fewer intervals than this take the JavaScript loops (common practice, no source). */
+const KERNEL_MIN_LENGTH = 256;
 
 /** Fills `dt` with the intervals of `time`; returns [their sum in order, the largest, its index, the smallest]. */
 function intervalPass(time: Float64Array, dt: Float64Array): Float64Array {
