@@ -13,6 +13,7 @@ import { segmentDifferences, segmentDifferencesKernel } from '../motor/rebuildCo
 import { countSteps, countStepsKernel } from '../motor/detectEncoderSpeed.js';
 import { largestMagnitude } from '../motor/classifyRecording.js';
 import { fitMotor } from '../motor/fitMotor.js';
+import { crossSums, crossSumsKernel } from '../motor/guessConstants.js';
 import { lowPassKernel, lowPassPlain, zeroPhaseLowPass } from '../motor/zeroPhaseLowPass.js';
 import { bestSplit, detectVoltageSegments, jumps, jumpsKernel } from '../motor/detectVoltageSegments.js';
 
@@ -284,5 +285,20 @@ describe('the sample kernels', () => {
     current[1234] = 0;
     time[700] = time[699]!;
     expect(() => fitMotor([{ recording: { time, channels: { voltage, current } } }])).toThrow(`fitMotor: recordings[0].recording.time must be strictly increasing (time[700] = ${time[700]} after ${time[699]})`);
+  });
+  it("the guesses' normal equations: the same sums from typed and plain arrays", () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 4 }), fc.oneof(finiteSeries, gappySeries), fc.boolean(), (p, y, plainArrays) => {
+        const n = y.length;
+        const cols: ArrayLike<number>[] = Array.from({ length: p }, (_, j) => {
+          const c = Float64Array.from({ length: n + j }, (_, k) => y[(k * (j + 3)) % n]! * (j + 0.5) + Math.cos(k));
+          return plainArrays && j % 2 === 1 ? Array.from(c) : c;
+        });
+        const plain = crossSums(cols, y);
+        const kernel = crossSumsKernel(cols, y)!;
+        expect(sameBits(kernel.A, plain.A) && sameBits(kernel.b, plain.b)).toBe(true);
+      }),
+      { seed: SEED, numRuns: 200 },
+    );
   });
 });

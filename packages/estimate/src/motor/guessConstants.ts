@@ -1,6 +1,7 @@
 import type { Constants } from './createMotorProblem.js';
 import type { PreparedRecording } from './prepareRecording.js';
 import { solveSymmetricSystem } from '../solver/solveSymmetricSystem.js';
+import { KERNEL_MIN_LENGTH, sampleKernels } from './sampleKernels.js';
 import { zeroPhaseLowPass } from './zeroPhaseLowPass.js';
 
 /** Most samples the equation-error guess of a PRBS / multisine reads (common practice, no source: ≈ 0.8 PRBS period of the invented generator at 10 kHz; a start needs no more). */
@@ -257,6 +258,15 @@ function derivative(x: Float64Array, h: number): Float64Array {
 
 /** Ordinary least squares y ≈ Σ cols[j]·β_j by the normal equations. */
 function linearFit(cols: ArrayLike<number>[], y: ArrayLike<number>): Float64Array | null {
+  const { A, b } = (y.length >= KERNEL_MIN_LENGTH ? crossSumsKernel(cols, y) : null) ?? crossSums(cols, y);
+  return solveSymmetricSystem(A, b, cols.length);
+}
+
+/**
+ * The normal equations' sums A = XᵀX (both triangles) and b = Xᵀy, each a plain sum over the rows in
+ * order. Plain JavaScript: the reference of {@link crossSumsKernel} and its fallback (exported for the tests).
+ */
+export function crossSums(cols: ArrayLike<number>[], y: ArrayLike<number>): { A: Float64Array; b: Float64Array } {
   const p = cols.length;
   const n = y.length;
   const A = new Float64Array(p * p);
@@ -274,5 +284,25 @@ function linearFit(cols: ArrayLike<number>[], y: ArrayLike<number>): Float64Arra
       A[j * p + i] = q;
     }
   }
-  return solveSymmetricSystem(A, b, p);
+  return { A, b };
+}
+
+/** {@link crossSums} through the WebAssembly kernel (sampleKernels.wat): the same bits; null where it cannot run or a column is shorter than y. */
+export function crossSumsKernel(cols: ArrayLike<number>[], y: ArrayLike<number>): { A: Float64Array; b: Float64Array } | null {
+  const p = cols.length;
+  const n = y.length;
+  if (cols.some((c) => c.length < n)) return null;
+  const yAt = p * n, outAt = yAt + n;
+  const room = sampleKernels.room(8 * (outAt + p * p + p));
+  if (room === null) return null;
+  const { f64, exports: k } = room;
+  for (let j = 0; j < p; j++) {
+    const c = cols[j]!;
+    if (c instanceof Float64Array) f64.set(c.length === n ? c : c.subarray(0, n), j * n);
+    else for (let r = 0; r < n; r++) f64[j * n + r] = c[r]!;
+  }
+  if (y instanceof Float64Array) f64.set(y, yAt);
+  else for (let r = 0; r < n; r++) f64[yAt + r] = y[r]!;
+  k.crossSums(0, p, n, 8 * yAt, 8 * outAt);
+  return { A: f64.slice(outAt, outAt + p * p), b: f64.slice(outAt + p * p, outAt + p * p + p) };
 }

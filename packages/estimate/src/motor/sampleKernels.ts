@@ -27,6 +27,8 @@ export interface SampleKernels {
   lowPass(x: number, n: number, pad: number, c: number, sections: number): void;
   channelStats(p: number, n: number, out: number): number;
   timeStats(p: number, n: number, out: number): number;
+  dot(a: number, b: number, n: number): number;
+  crossSums(x: number, p: number, n: number, y: number, out: number): void;
 }
 
 /** The kernel module, compiled on first use. */

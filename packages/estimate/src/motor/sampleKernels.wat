@@ -504,4 +504,40 @@
     (f64.store offset=0 (local.get $out) (local.get $hmin))
     (f64.store offset=8 (local.get $out) (local.get $hmax))
     (i32.const -1))
+;; dot(a, b, n): Σ a[k]·b[k] for k < n, in order.
+  (func $dot (export "dot") (param $a i32) (param $b i32) (param $n i32) (result f64)
+    (local $end i32) (local $s f64)
+    (local.set $end (i32.add (local.get $a) (i32.shl (local.get $n) (i32.const 3))))
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_u (local.get $a) (local.get $end)))
+        (local.set $s (f64.add (local.get $s) (f64.mul (f64.load (local.get $a)) (f64.load (local.get $b)))))
+        (local.set $a (i32.add (local.get $a) (i32.const 8)))
+        (local.set $b (i32.add (local.get $b) (i32.const 8)))
+        (br $next)))
+    (local.get $s))
+
+  ;; crossSums(x, p, n, y, out): guessConstants' normal equations for y ≈ Σ x_j·β_j with the p
+  ;; columns of n doubles one after another at x: A (p × p, both triangles) at out, then b; every
+  ;; entry a plain sum over k in order.
+  (func (export "crossSums") (param $x i32) (param $p i32) (param $n i32) (param $y i32) (param $out i32)
+    (local $i i32) (local $j i32) (local $ci i32) (local $q f64) (local $col i32)
+    (local.set $col (i32.shl (local.get $n) (i32.const 3)))
+    (block $done_i
+      (loop $next_i
+        (br_if $done_i (i32.ge_s (local.get $i) (local.get $p)))
+        (local.set $ci (i32.add (local.get $x) (i32.mul (local.get $i) (local.get $col))))
+        (f64.store (i32.add (local.get $out) (i32.shl (i32.add (i32.mul (local.get $p) (local.get $p)) (local.get $i)) (i32.const 3)))
+          (call $dot (local.get $ci) (local.get $y) (local.get $n)))
+        (local.set $j (local.get $i))
+        (block $done_j
+          (loop $next_j
+            (br_if $done_j (i32.ge_s (local.get $j) (local.get $p)))
+            (local.set $q (call $dot (local.get $ci) (i32.add (local.get $x) (i32.mul (local.get $j) (local.get $col))) (local.get $n)))
+            (f64.store (i32.add (local.get $out) (i32.shl (i32.add (i32.mul (local.get $i) (local.get $p)) (local.get $j)) (i32.const 3))) (local.get $q))
+            (f64.store (i32.add (local.get $out) (i32.shl (i32.add (i32.mul (local.get $j) (local.get $p)) (local.get $i)) (i32.const 3))) (local.get $q))
+            (local.set $j (i32.add (local.get $j) (i32.const 1)))
+            (br $next_j)))
+        (local.set $i (i32.add (local.get $i) (i32.const 1)))
+        (br $next_i))))
 )
