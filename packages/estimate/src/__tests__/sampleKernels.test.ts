@@ -5,7 +5,7 @@
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { differenceStats, differenceStatsKernel, gridStepKernel, gridStepPlain } from '../motor/estimateNoiseLevel.js';
+import { differenceStats, differenceStatsKernel, gridStepKernel, gridStepPlain, sameSamples } from '../motor/estimateNoiseLevel.js';
 import { channelStatsKernel, KERNEL_MIN_LENGTH, sampleKernels, timeStatsKernel } from '../motor/sampleKernels.js';
 import { medianInPlace, selectKth, selectKthPlain } from '../motor/selectKth.js';
 import { timeLine, timeLineKernel } from '../motor/nominalTimeGrid.js';
@@ -13,7 +13,7 @@ import { segmentDifferences, segmentDifferencesKernel } from '../motor/rebuildCo
 import { countSteps, countStepsKernel } from '../motor/detectEncoderSpeed.js';
 import { largestMagnitude } from '../motor/classifyRecording.js';
 import { fitMotor } from '../motor/fitMotor.js';
-import { crossSums, crossSumsKernel } from '../motor/guessConstants.js';
+import { crossSums, crossSumsKernel, derivativeKernel, derivativePlain } from '../motor/guessConstants.js';
 import { lowPassKernel, lowPassPlain, zeroPhaseLowPass } from '../motor/zeroPhaseLowPass.js';
 import { bestSplit, detectVoltageSegments, jumps, jumpsKernel } from '../motor/detectVoltageSegments.js';
 
@@ -297,6 +297,28 @@ describe('the sample kernels', () => {
         const plain = crossSums(cols, y);
         const kernel = crossSumsKernel(cols, y)!;
         expect(sameBits(kernel.A, plain.A) && sameBits(kernel.b, plain.b)).toBe(true);
+        for (const h of [1e-4, 0.3]) expect(sameBits(derivativeKernel(y, h)!, derivativePlain(y, h))).toBe(true);
+      }),
+      { seed: SEED, numRuns: 200 },
+    );
+  });
+  it('dot (the trimmed RMS sum) and the memo\'s bit-for-bit comparison', () => {
+    fc.assert(
+      fc.property(fc.oneof(finiteSeries, gappySeries), fc.nat(), (x, at) => {
+        const n = x.length;
+        const room = sampleKernels.room(16 * n)!;
+        room.f64.set(x, 0);
+        let q = 0;
+        for (let k = 0; k < n; k++) q += x[k]! * x[k]!;
+        expect(Object.is(room.exports.dot(0, 0, n), q)).toBe(true);
+        const y = Float64Array.from(x);
+        expect(sameSamples(x, y)).toBe(true);
+        // One word changed: a sign, a NaN payload, or one bit of the mantissa.
+        const k = at % n;
+        const bits = new BigUint64Array(y.buffer);
+        bits[k] = bits[k]! ^ (1n << BigInt(at % 64));
+        expect(sameSamples(x, y)).toBe(false);
+        expect(sameSamples(x, y.subarray(1))).toBe(false);
       }),
       { seed: SEED, numRuns: 200 },
     );

@@ -69,9 +69,18 @@ export function estimateNoiseLevel(values: Float64Array): NoiseLevel {
  */
 const estimated = new WeakMap<Float64Array, { samples: Float64Array; level: NoiseLevel }>();
 
-/** True when `a` and `b` hold bit for bit the same samples. */
-function sameSamples(a: Float64Array, b: Float64Array): boolean {
+/** True when `a` and `b` hold bit for bit the same samples (compared in the sample kernel for long series). */
+export function sameSamples(a: Float64Array, b: Float64Array): boolean {
   if (a.length !== b.length) return false;
+  const n = a.length;
+  if (n >= KERNEL_MIN_LENGTH) {
+    const room = sampleKernels.room(16 * n);
+    if (room !== null) {
+      room.f64.set(a, 0);
+      room.f64.set(b, n);
+      return room.exports.sameWords(0, 8 * n, n) === 1;
+    }
+  }
   const x = new Int32Array(a.buffer, a.byteOffset, 2 * a.length);
   const y = new Int32Array(b.buffer, b.byteOffset, 2 * b.length);
   for (let k = 0; k < x.length; k++) if (x[k] !== y[k]) return false;
@@ -189,10 +198,19 @@ export function differenceStatsKernel(values: Float64Array, stride: number): Dif
 function trimmedRms(absDev: Float64Array): number {
   const m = absDev.length;
   if (m < 8) return 0;
-  const s = Float64Array.from(absDev).sort();
   const keep = Math.max(1, Math.floor(0.96 * m));
   let q = 0;
-  for (let k = 0; k < keep; k++) q += s[k]! * s[k]!;
+  const room = m >= KERNEL_MIN_LENGTH ? sampleKernels.room(8 * m) : null;
+  if (room !== null) {
+    // The same sort, then the same sum of squares in order, in the kernel's memory.
+    const s = room.f64.subarray(0, m);
+    s.set(absDev);
+    s.sort();
+    q = room.exports.dot(0, 0, keep);
+  } else {
+    const s = Float64Array.from(absDev).sort();
+    for (let k = 0; k < keep; k++) q += s[k]! * s[k]!;
+  }
   return Math.sqrt(q / keep) / 0.9346;
 }
 

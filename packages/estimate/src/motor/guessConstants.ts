@@ -169,7 +169,9 @@ export function guessConstants(recs: PreparedRecording[], fixed: Partial<Constan
         set('Ke', e1[2]!, `${rec.kind} "${rec.name}": equation error`);
         set('Kt', e1[2]!, `${rec.kind} "${rec.name}": Kt = Ke`);
         const K = e1[2]!;
-        const e2 = linearFit([dw, w], Float64Array.from(i, (x) => K * x));
+        const Ki = new Float64Array(i.length);
+        for (let k = 0; k < Ki.length; k++) Ki[k] = K * i[k]!;
+        const e2 = linearFit([dw, w], Ki);
         if (e2 !== null) {
           set('J', e2[0]!, `${rec.kind} "${rec.name}": equation error Kt·i = J·dω/dt + b·ω`);
           set('b', e2[1]!, `${rec.kind} "${rec.name}": equation error`);
@@ -246,8 +248,24 @@ function fractionalTau(x: Float64Array, k0: number, x0: number, x1: number, h: n
   return f > 0 && f < 1 ? -h / Math.log(1 - f) : h / 10;
 }
 
-/** Central-difference derivative of a smoothed series [unit/s]. */
+/** Central-difference derivative of a smoothed series [unit/s] (through the sample kernel for long series: the same bits). */
 function derivative(x: Float64Array, h: number): Float64Array {
+  return (x.length >= KERNEL_MIN_LENGTH ? derivativeKernel(x, h) : null) ?? derivativePlain(x, h);
+}
+
+/** {@link derivative} through the WebAssembly kernel (sampleKernels.wat); null where it cannot run (exported for the tests). */
+export function derivativeKernel(x: Float64Array, h: number): Float64Array | null {
+  const n = x.length;
+  if (n < 2) return null;
+  const room = sampleKernels.room(16 * n);
+  if (room === null) return null;
+  room.f64.set(x, 0);
+  room.exports.derivative(0, n, h, 8 * n);
+  return room.f64.slice(n, 2 * n);
+}
+
+/** {@link derivative} in plain JavaScript (the reference of the kernel and its fallback; exported for the tests). */
+export function derivativePlain(x: Float64Array, h: number): Float64Array {
   const n = x.length;
   const d = new Float64Array(n);
   for (let k = 1; k + 1 < n; k++) d[k] = (x[k + 1]! - x[k - 1]!) / (2 * h);

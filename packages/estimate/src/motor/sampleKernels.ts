@@ -29,6 +29,8 @@ export interface SampleKernels {
   timeStats(p: number, n: number, out: number): number;
   dot(a: number, b: number, n: number): number;
   crossSums(x: number, p: number, n: number, y: number, out: number): void;
+  derivative(x: number, n: number, h: number, out: number): void;
+  sameWords(a: number, b: number, n: number): number;
 }
 
 /** The kernel module, compiled on first use. */

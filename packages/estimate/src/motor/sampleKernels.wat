@@ -540,4 +540,36 @@
             (br $next_j)))
         (local.set $i (i32.add (local.get $i) (i32.const 1)))
         (br $next_i))))
+;; derivative(x, n, h, out): guessConstants' central differences of the n doubles at x:
+  ;; out[k] = (x[k+1] − x[k−1])/(2·h) inside, one-sided (x[1] − x[0])/h and (x[n−1] − x[n−2])/h at
+  ;; the ends (n ≥ 2).
+  (func (export "derivative") (param $x i32) (param $n i32) (param $h f64) (param $out i32)
+    (local $k i32) (local $a i32) (local $h2 f64)
+    (local.set $h2 (f64.mul (f64.const 2) (local.get $h)))
+    (local.set $k (i32.const 1))
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_s (i32.add (local.get $k) (i32.const 1)) (local.get $n)))
+        (local.set $a (i32.add (local.get $x) (i32.shl (local.get $k) (i32.const 3))))
+        (f64.store (i32.add (local.get $out) (i32.shl (local.get $k) (i32.const 3)))
+          (f64.div (f64.sub (f64.load offset=8 (local.get $a)) (f64.load (i32.sub (local.get $a) (i32.const 8)))) (local.get $h2)))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (br $next)))
+    (f64.store (local.get $out)
+      (f64.div (f64.sub (f64.load offset=8 (local.get $x)) (f64.load (local.get $x))) (local.get $h)))
+    (local.set $a (i32.add (local.get $x) (i32.shl (i32.sub (local.get $n) (i32.const 1)) (i32.const 3))))
+    (f64.store (i32.add (local.get $out) (i32.shl (i32.sub (local.get $n) (i32.const 1)) (i32.const 3)))
+      (f64.div (f64.sub (f64.load (local.get $a)) (f64.load (i32.sub (local.get $a) (i32.const 8)))) (local.get $h))))
+;; sameWords(a, b, n): 1 when the n 8-byte words at a and at b are equal bit for bit, else 0.
+  (func (export "sameWords") (param $a i32) (param $b i32) (param $n i32) (result i32)
+    (local $end i32)
+    (local.set $end (i32.add (local.get $a) (i32.shl (local.get $n) (i32.const 3))))
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_u (local.get $a) (local.get $end)))
+        (if (i64.ne (i64.load (local.get $a)) (i64.load (local.get $b))) (then (return (i32.const 0))))
+        (local.set $a (i32.add (local.get $a) (i32.const 8)))
+        (local.set $b (i32.add (local.get $b) (i32.const 8)))
+        (br $next)))
+    (i32.const 1))
 )
