@@ -9,7 +9,7 @@ import { differenceStats, differenceStatsKernel, gridStepKernel, gridStepPlain, 
 import { channelStatsKernel, KERNEL_MIN_LENGTH, sampleKernels, timeStatsKernel } from '../motor/sampleKernels.js';
 import { medianInPlace, selectKth, selectKthPlain } from '../motor/selectKth.js';
 import { timeLine, timeLineKernel } from '../motor/nominalTimeGrid.js';
-import { segmentDifferences, segmentDifferencesKernel } from '../motor/rebuildCommand.js';
+import { rmsDiff, rmsDiffPlain, segmentDifferences, segmentDifferencesKernel } from '../motor/rebuildCommand.js';
 import { countSteps, countStepsKernel } from '../motor/detectEncoderSpeed.js';
 import { largestMagnitude } from '../motor/classifyRecording.js';
 import { fitMotor } from '../motor/fitMotor.js';
@@ -311,6 +311,8 @@ describe('the sample kernels', () => {
         let q = 0;
         for (let k = 0; k < n; k++) q += x[k]! * x[k]!;
         expect(Object.is(room.exports.dot(0, 0, n), q)).toBe(true);
+        const shifted = Float64Array.from(x, (v, k) => v * 0.75 + Math.sin(k));
+        expect(Object.is(rmsDiff(x, shifted), rmsDiffPlain(x, shifted))).toBe(true);
         const y = Float64Array.from(x);
         expect(sameSamples(x, y)).toBe(true);
         // One word changed: a sign, a NaN payload, or one bit of the mantissa.

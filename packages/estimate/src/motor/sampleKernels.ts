@@ -31,6 +31,7 @@ export interface SampleKernels {
   crossSums(x: number, p: number, n: number, y: number, out: number): void;
   derivative(x: number, n: number, h: number, out: number): void;
   sameWords(a: number, b: number, n: number): number;
+  squaredDistance(a: number, b: number, n: number): number;
 }
 
 /** The kernel module, compiled on first use. */

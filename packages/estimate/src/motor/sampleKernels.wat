@@ -572,4 +572,17 @@
         (local.set $b (i32.add (local.get $b) (i32.const 8)))
         (br $next)))
     (i32.const 1))
+;; squaredDistance(a, b, n): Σ (a[k] − b[k])·(a[k] − b[k]) for k < n, in order (rebuildCommand's rmsDiff).
+  (func (export "squaredDistance") (param $a i32) (param $b i32) (param $n i32) (result f64)
+    (local $end i32) (local $d f64) (local $s f64)
+    (local.set $end (i32.add (local.get $a) (i32.shl (local.get $n) (i32.const 3))))
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_u (local.get $a) (local.get $end)))
+        (local.set $d (f64.sub (f64.load (local.get $a)) (f64.load (local.get $b))))
+        (local.set $s (f64.add (local.get $s) (f64.mul (local.get $d) (local.get $d))))
+        (local.set $a (i32.add (local.get $a) (i32.const 8)))
+        (local.set $b (i32.add (local.get $b) (i32.const 8)))
+        (br $next)))
+    (local.get $s))
 )
