@@ -8,6 +8,9 @@ import { planColumns, ROLE_LIMITS } from './columns.js';
 import { checkTimeBase } from './checkTimeBase.js';
 import { deriveSpeed } from './deriveSpeed.js';
 import { classifyBadCell, COMMA, DOT, scanCell, scanCellBytes } from './parseCell.js';
+import {
+  CONFIG_DOUBLES, KEPT_SLOT, KIND_EXTRA, KIND_ROLE, KIND_SPREAD, NEXT_SLOT, ROWS_AT, RUN_CHECK, RUN_DONE, START_SLOT, rowKernelRoom, rowKernelUse,
+} from './scanRows.js';
 import { settleDialect } from './settleDialect.js';
 import type { SettledHead } from './settleDialect.js';
 import type {
@@ -309,6 +312,8 @@ class BodyReader {
   private scanAt = 0;
   private readonly sizeHint: number | undefined;
   private rowCells: string[] | null = null;
+  /** Per column, what the row kernel does with it (see scanRows.wat); null when the kernel is not used. */
+  private readonly kernelConfig: Float64Array | null;
 
   private pending = '';
   /** 1-based line number of `pending[0]`. */
@@ -390,6 +395,20 @@ class BodyReader {
     this.conv = new Float64Array(roleCols.length);
     this.starts = new Int32Array(this.nCols);
     this.ends = new Int32Array(this.nCols);
+    this.kernelConfig = this.makeKernelConfig();
+  }
+
+  /** The row kernel's config: kind, output array, factor, offset, min, max per column. */
+  private makeKernelConfig(): Float64Array | null {
+    const config = new Float64Array(CONFIG_DOUBLES * this.nCols).fill(Number.NaN);
+    const set = (c: number, values: number[]): void => config.set(values, CONFIG_DOUBLES * c);
+    const nRoles = this.roleCol.length;
+    const nExtra = this.extraCol.length;
+    this.roleCol.forEach((c, k) => set(c, [KIND_ROLE, k, this.roleFactor[k]!, this.roleOffset[k]!, this.roleMin[k]!, this.roleMax[k]!]));
+    this.extraCol.forEach((c, e) => set(c, [KIND_EXTRA, nRoles + e, 1, 0, 0, 0]));
+    this.spreadCol.forEach((c, e) => set(c, [KIND_SPREAD, nRoles + nExtra + e, this.spreadFactor[e]!, 0, 0, 0]));
+    // Every column must be one of the three (it is, by planColumns); otherwise the scanner reads all.
+    return config.some((x) => x !== x) ? null : config;
   }
 
   /**
@@ -453,7 +472,7 @@ class BodyReader {
     }
     this.rowCells = null;
     this.rowBytes = bytes;
-    this.readFastBytes(bytes, from, end, nlCode);
+    if (!this.readKernelBytes(bytes, from, end, nlCode)) this.readFastBytes(bytes, from, end, nlCode);
     // Here rather than at the end of readFastBytes: its loop is compiled while it runs (on-stack
     // replacement), before any code after the loop has run, and V8 would leave that compiled code
     // at such code on every later chunk.
@@ -520,6 +539,92 @@ class BodyReader {
       }
       pos = next;
     }
+  }
+
+  /**
+   * {@link readFastBytes} with the numbers scanned by the WebAssembly kernel (scanRows.wat), which
+   * reads a fresh process's first chunks as fast as warmed-up JavaScript would. The bytes are
+   * copied into the kernel's memory once; it reads every line whose cells are all plain numbers
+   * (exactly as {@link scanCellBytes} reads them, bit for bit) and has as many cells as the header,
+   * and marks any other line (comments, blanks, text, quirks its fast path leaves to `Number()`),
+   * which {@link readFastBytes} then reads on its own, in order. Returns false (having read
+   * nothing) when the kernel cannot run.
+   */
+  private readKernelBytes(bytes: Buffer, from: number, end: number, nlCode: number): boolean {
+    const config = this.kernelConfig;
+    if (config === null) return false;
+    const nCols = this.nCols;
+    const length = end - from;
+    const got = rowKernelRoom(length, nCols);
+    if (got === null) return false;
+    const { room, layout } = got;
+    const mem = room.f64;
+    room.u8.set(bytes.subarray(from, end), ROWS_AT);
+    mem.set(config, layout.config >> 3);
+    const run = room.exports.run;
+    const delimCode = this.delimiter.charCodeAt(0);
+    const decimal = this.decimal;
+    const maxLine = Math.min(this.opts.maxLineLength, 0x7fffffff);
+    const maxRows = layout.maxRows;
+    const timeCol = this.timeSlot >= 0 ? this.roleCol[this.timeSlot]! : -1;
+    const scratch = layout.scratch >> 3;
+    const out = layout.out >> 3;
+    const vals = this.vals;
+    // Byte index in `bytes` = kernel address + shift; file offset = byte index + base.
+    const shift = from - ROWS_AT;
+    const base = this.fed - bytes.length;
+    const stopAt = ROWS_AT + length;
+    for (let at = ROWS_AT; at < stopAt; ) {
+      const status = run(at, stopAt, maxRows, nCols, delimCode, decimal, nlCode, maxLine, layout.config, timeCol, this.kept > 0 ? 1 : 0, this.lastTime);
+      const next = mem[NEXT_SLOT]!;
+      const kept = mem[KEPT_SLOT]!;
+      if (kept > 0) this.keepBatch(mem, out, maxRows, kept, base + shift + (status === RUN_DONE ? next : mem[START_SLOT]!));
+      if (status !== RUN_DONE) {
+        const start = mem[START_SLOT]!;
+        if (status === RUN_CHECK) {
+          // A row of numbers that commit() does not simply keep: it drops it, or stops the input.
+          const line = this.line++;
+          this.scanAt = base + shift + start;
+          for (let c = 0; c < nCols; c++) vals[c] = mem[scratch + c]!;
+          this.fastRows++;
+          this.commit(line, nCols, false);
+        } else {
+          this.readFastBytes(bytes, shift + start, shift + next, nlCode);
+        }
+      }
+      at = next;
+    }
+    return true;
+  }
+
+  /**
+   * Stores `n` rows that the row kernel read and checked (its output arrays at `out` in `mem`, in
+   * doubles, `stride` apart), as {@link commit} would store them one by one; `scanAt` is the file
+   * offset just after them.
+   */
+  private keepBatch(mem: Float64Array, out: number, stride: number, n: number, scanAt: number): void {
+    this.rowsRead += n;
+    this.fastRows += n;
+    rowKernelUse.lines += n;
+    if (this.pendingBlank.length) {
+      this.blankCount += this.pendingBlank.length;
+      for (const b of this.pendingBlank) if (this.blankLines.length < LISTED_LINES) this.blankLines.push(b);
+      this.pendingBlank = [];
+    }
+    const at = this.kept;
+    this.kept = at + n;
+    this.scanAt = scanAt;
+    while (this.kept > this.capacity) this.grow();
+    let array = 0;
+    for (const buffers of [this.roleBuffers, this.extraBuffers, this.spreadBuffers]) {
+      for (const b of buffers) {
+        const from = out + stride * array++;
+        b.set(mem.subarray(from, from + n), at);
+      }
+    }
+    this.lastTime = this.timeSlot >= 0 ? this.roleBuffers[this.timeSlot]![this.kept - 1]! : this.kept - 1;
+    this.line += n;
+    this.lastKeptLine = this.line - 1;
   }
 
   /** {@link tooLong} for line `line` of a byte chunk being scanned. */
