@@ -136,8 +136,10 @@ export function createIngestor(options: IngestOptions = {}): Ingestor {
       throw new IngestError('not-text', file, 'the file is UTF-16 text; save it as UTF-8');
     }
     encoding = 'utf-8';
+    // ASCII is valid UTF-8: only other heads need the (string-making) check.
+    const asciiHead = isAscii(head);
     try {
-      new TextDecoder('utf-8', { fatal: true, ignoreBOM: true }).decode(head, { stream: true });
+      if (!asciiHead) new TextDecoder('utf-8', { fatal: true, ignoreBOM: true }).decode(head, { stream: true });
     } catch {
       encoding = 'windows-1252';
       earlyIssues.push({
@@ -155,7 +157,7 @@ export function createIngestor(options: IngestOptions = {}): Ingestor {
       decoder = { decode: (chunk?: Uint8Array): string => (chunk ? td.decode(chunk, { stream: true }) : td.decode()) };
     }
     decoderClean = head.length === 0 || head[head.length - 1]! < 0x80;
-    const ascii = decoderClean && isAscii(head);
+    const ascii = decoderClean && asciiHead;
     feedText(decoder.decode(head), false, ascii ? toBuffer(head) : undefined);
   }
 

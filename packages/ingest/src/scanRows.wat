@@ -33,13 +33,6 @@
     "\00\80\e0\37\79\c3\41\43\00\a0\d8\85\57\34\76\43\00\c8\4e\67\6d\c1\ab\43\00\3d\91\60\e4\58\e1\43"
     "\40\8c\b5\78\1d\af\15\44\50\ef\e2\d6\e4\1a\4b\44\92\d5\4d\06\cf\f0\80\44")
 
-  (func $pow10 (param $k i32) (result f64)
-    (f64.load (i32.shl (local.get $k) (i32.const 3))))
-
-  ;; 1 when the byte at $i is a digit.
-  (func $isDigit (param $i i32) (result i32)
-    (i32.le_u (i32.sub (i32.load8_u (local.get $i)) (i32.const 48)) (i32.const 9)))
-
   ;; The exact sign (−1, 0 or 1) of a + b + c (signOfSum in parseCell.ts).
   (func $signOfSum (param $a f64) (param $b f64) (param $c f64) (result i32)
     (local $x f64) (local $bv f64) (local $y f64) (local $q1 f64) (local $yv f64) (local $r1 f64)
@@ -69,7 +62,7 @@
     (local $x f64) (local $round i32) (local $p f64) (local $xc f64) (local $xHigh f64) (local $xLow f64)
     (local $e f64) (local $s f64) (local $bits i64) (local $ulp f64) (local $below f64)
     (local $halfUp f64) (local $halfDown f64) (local $t f64) (local $sign i32)
-    (local.set $scale (call $pow10 (local.get $j)))
+    (local.set $scale (f64.load (i32.shl (local.get $j) (i32.const 3))))
     (local.set $scaleC (f64.mul (f64.const 134217729) (local.get $scale)))
     (local.set $scaleHigh (f64.sub (local.get $scaleC) (f64.sub (local.get $scaleC) (local.get $scale))))
     (local.set $scaleLow (f64.sub (local.get $scale) (local.get $scaleHigh)))
@@ -126,7 +119,7 @@
     (local $top f64) (local $mantissa f64) (local $v f64)
     (local.set $top (f64.convert_i64_u (local.get $high)))
     (if (local.get $lowDigits)
-      (then (local.set $top (f64.mul (local.get $top) (call $pow10 (local.get $lowDigits))))))
+      (then (local.set $top (f64.mul (local.get $top) (f64.load (i32.shl (local.get $lowDigits) (i32.const 3)))))))
     (local.set $mantissa (f64.add (local.get $top) (f64.convert_i64_u (local.get $low))))
     (if (f64.ge (local.get $mantissa) (f64.const 9007199254740992))
       (then
@@ -141,10 +134,10 @@
       (if (i32.eqz (local.get $exp))
         (then (local.set $v (local.get $mantissa)) (br $made)))
       (if (i32.and (i32.gt_s (local.get $exp) (i32.const 0)) (i32.le_s (local.get $exp) (i32.const 22)))
-        (then (local.set $v (f64.mul (local.get $mantissa) (call $pow10 (local.get $exp)))) (br $made)))
+        (then (local.set $v (f64.mul (local.get $mantissa) (f64.load (i32.shl (local.get $exp) (i32.const 3))))) (br $made)))
       (if (i32.and (i32.lt_s (local.get $exp) (i32.const 0)) (i32.ge_s (local.get $exp) (i32.const -22)))
         (then
-          (local.set $v (f64.div (local.get $mantissa) (call $pow10 (i32.sub (i32.const 0) (local.get $exp)))))
+          (local.set $v (f64.div (local.get $mantissa) (f64.load (i32.shl (i32.sub (i32.const 0) (local.get $exp)) (i32.const 3)))))
           (br $made)))
       (return (i32.const 0)))
     (f64.store (local.get $dst) (select (f64.neg (local.get $v)) (local.get $v) (local.get $neg)))
@@ -204,7 +197,7 @@
           (local.set $i (i32.add (local.get $i) (i32.const 1)))
           (br $digitsLow)))
         (local.set $digits (i32.add (local.get $digits) (i32.sub (local.get $i) (local.get $from))))
-        (if (i32.and (i32.eq (local.get $digits) (i32.const 17)) (call $isDigit (local.get $i)))
+        (if (i32.and (i32.eq (local.get $digits) (i32.const 17)) (i32.le_u (i32.sub (i32.load8_u (local.get $i)) (i32.const 48)) (i32.const 9)))
           (then (return (i32.const -1))))))
     (local.set $sawDigit (i32.gt_u (local.get $i) (local.get $first)))
     (local.set $c (i32.load8_u (local.get $i)))
@@ -242,7 +235,7 @@
               (local.set $i (i32.add (local.get $i) (i32.const 1)))
               (br $fracLow)))
             (local.set $digits (i32.add (local.get $digits) (i32.sub (local.get $i) (local.get $from))))
-            (if (i32.and (i32.eq (local.get $digits) (i32.const 17)) (call $isDigit (local.get $i)))
+            (if (i32.and (i32.eq (local.get $digits) (i32.const 17)) (i32.le_u (i32.sub (i32.load8_u (local.get $i)) (i32.const 48)) (i32.const 9)))
               (then (return (i32.const -1))))))
         (local.set $exp (i32.sub (local.get $fracStart) (local.get $i)))
         (if (i32.gt_u (local.get $i) (local.get $fracStart)) (then (local.set $sawDigit (i32.const 1))))
