@@ -9,7 +9,7 @@ import { checkTimeBase } from './checkTimeBase.js';
 import { deriveSpeed } from './deriveSpeed.js';
 import { classifyBadCell, COMMA, DOT, scanCell, scanCellBytes } from './parseCell.js';
 import {
-  CONFIG_DOUBLES, KEPT_SLOT, KIND_EXTRA, KIND_ROLE, KIND_SPREAD, NEXT_SLOT, ROWS_AT, RUN_CHECK, RUN_DONE, START_SLOT, rowKernelRoom, rowKernelUse,
+  CELLS_SLOT, CONFIG_DOUBLES, KEPT_SLOT, KIND_EXTRA, KIND_ROLE, KIND_SPREAD, NEXT_SLOT, ROWS_AT, RUN_CHECK, RUN_DONE, START_SLOT, SURPLUS_SLOT, rowKernelRoom, rowKernelUse,
 } from './scanRows.js';
 import { settleDialect } from './settleDialect.js';
 import type { SettledHead } from './settleDialect.js';
@@ -547,8 +547,8 @@ class BodyReader {
    * {@link readFastBytes} with the numbers scanned by the WebAssembly kernel (scanRows.wat), which
    * reads a fresh process's first chunks as fast as warmed-up JavaScript would. The bytes are
    * copied into the kernel's memory once; it reads every line whose cells are all plain numbers
-   * (exactly as {@link scanCellBytes} reads them, bit for bit) and has as many cells as the header,
-   * and marks any other line (comments, blanks, text, quirks its fast path leaves to `Number()`),
+   * (exactly as {@link scanCellBytes} reads them, bit for bit) and has as many cells as the header
+   * (and perhaps blank ones after them), and marks any other line (comments, blanks, text, quirks its fast path leaves to `Number()`),
    * which {@link readFastBytes} then reads on its own, in order. Returns false (having read
    * nothing) when the kernel cannot run.
    */
@@ -576,11 +576,16 @@ class BodyReader {
     const shift = from - ROWS_AT;
     const base = this.fed - bytes.length;
     const stopAt = ROWS_AT + length;
+    let lines = 0;
+    let stops = 0;
     for (let at = ROWS_AT; at < stopAt; ) {
       const status = run(at, stopAt, maxRows, nCols, delimCode, decimal, nlCode, maxLine, layout.config, timeCol, this.kept > 0 ? 1 : 0, this.lastTime);
       const next = mem[NEXT_SLOT]!;
       const kept = mem[KEPT_SLOT]!;
-      if (kept > 0) this.keepBatch(mem, out, maxRows, kept, base + shift + (status === RUN_DONE ? next : mem[START_SLOT]!));
+      if (kept > 0) {
+        this.keepBatch(mem, out, maxRows, kept, base + shift + (status === RUN_DONE ? next : mem[START_SLOT]!));
+        this.surplusBlankRows += mem[SURPLUS_SLOT]!;
+      }
       if (status !== RUN_DONE) {
         const start = mem[START_SLOT]!;
         if (status === RUN_CHECK) {
@@ -589,11 +594,19 @@ class BodyReader {
           this.scanAt = base + shift + start;
           for (let c = 0; c < nCols; c++) vals[c] = mem[scratch + c]!;
           this.fastRows++;
-          this.commit(line, nCols, false);
+          this.commit(line, mem[CELLS_SLOT]!, false);
         } else {
           this.readFastBytes(bytes, shift + start, shift + next, nlCode);
         }
+        // When the kernel leaves most lines to JavaScript (a column of blanks or text, say), a call
+        // per line costs more than it saves: the JavaScript scanner reads the rest of the chunk.
+        stops++;
+        if (stops >= 64 && 4 * stops > lines + stops) {
+          if (next < stopAt) this.readFastBytes(bytes, shift + next, end, nlCode);
+          return true;
+        }
       }
+      lines += kept;
       at = next;
     }
     return true;

@@ -12,10 +12,15 @@ export interface RowKernel {
 
 /** Byte address where the caller puts the bytes to scan (below it: the kernel's powers of ten and its results). */
 export const ROWS_AT = 256;
-/** Indexes in the f64 view of the kernel's results: where to go on, lines kept, start of the line it stopped at. */
+/**
+ * Indexes in the f64 view of the kernel's results: where to go on, lines kept, the number of cells
+ * and the start of the line it stopped at, and how many kept lines had blank cells past the header's.
+ */
 export const NEXT_SLOT = 23;
 export const KEPT_SLOT = 24;
+export const CELLS_SLOT = 25;
 export const START_SLOT = 26;
+export const SURPLUS_SLOT = 27;
 /** `run` statuses: stopped at the end or after maxRows lines; at a line left to the scanner; at a row left to commit(). */
 export const RUN_DONE = 0;
 export const RUN_SCAN = 1;

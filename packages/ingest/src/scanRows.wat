@@ -3,8 +3,9 @@
 ;;
 ;; run(pos, end, maxRows, nCols, delim, dec, nl, maxLine, config, timeCol, haveLast, lastTime)
 ;; reads the lines of memory[pos…end) (each one ends with the byte nl; end is just after one). A
-;; line is kept when it has exactly nCols cells, at most maxLine bytes before its newline, every
-;; cell is a plain number that the kernel reads exactly as scanCellBytes (parseCell.ts) does, and
+;; line is kept when it has nCols cells (or more, the others blank: a trailing delimiter), at most
+;; maxLine bytes before its newline, each of the nCols cells is a plain number that the kernel reads
+;; exactly as scanCellBytes (parseCell.ts) does, and
 ;; every column passes the check commit() (createIngestor.ts) makes: column c has at config + 48c
 ;; the doubles kind, dest, factor, offset, min, max; kind 0 (a role) stores v · factor + offset,
 ;; which must lie in [min, max], and for column timeCol must exceed the last kept time (when
@@ -14,7 +15,8 @@
 ;; a line it does not keep: status 1 when it did not read the cells (left to the JavaScript
 ;; scanner), 2 when it read them (left in the scratch row) but a check failed (left to commit()).
 ;; It stores as doubles: at 184 where to go on (after the line it stopped at, if any), at 192 the
-;; number of lines kept, at 208 the start of the line it stopped at.
+;; number of lines kept, at 216 how many of them had blank cells past the nCols, and for the line
+;; it stopped at (status 1 or 2) its start at 208 and (status 2) its number of cells at 200.
 ;;
 ;; Each cell follows scanCellBytes step by step: blanks, sign, up to 17 significant digits (the
 ;; first 9 in `high`, the next 8 in `low`, integers held exactly in i64), decimal point, exponent of
@@ -292,7 +294,7 @@
       (param $config i32) (param $timeCol i32) (param $haveLast i32) (param $lastTime f64) (result i32)
     (local $m i32) (local $start i32) (local $next i32) (local $i i32) (local $c i32) (local $e i32)
     (local $dst i32) (local $scratch i32) (local $out i32) (local $cfg i32) (local $kind i32)
-    (local $v f64) (local $s f64) (local $t f64) (local $status i32)
+    (local $v f64) (local $s f64) (local $t f64) (local $status i32) (local $n i32) (local $b i32) (local $surplus i32)
     (local.set $scratch (i32.add (local.get $config) (i32.mul (local.get $nCols) (i32.const 48))))
     (local.set $out (i32.add (local.get $scratch) (i32.shl (local.get $nCols) (i32.const 3))))
     (block $done
@@ -303,21 +305,39 @@
             (br_if $done (i32.ge_u (local.get $m) (local.get $maxRows)))
             (local.set $start (local.get $pos))
             ;; The cells, into the scratch row.
-            (local.set $c (i32.const 0))
+            (local.set $n (i32.const 0))
             (local.set $i (local.get $start))
             (local.set $dst (local.get $scratch))
-            (loop $cells
-              (local.set $e (call $cell (local.get $i) (local.get $dst) (local.get $delim) (local.get $dec) (local.get $nl)))
-              (br_if $scanFail (i32.lt_s (local.get $e) (i32.const 0)))
-              (local.set $c (i32.add (local.get $c) (i32.const 1)))
-              (if (i32.eq (i32.load8_u (local.get $e)) (local.get $delim))
-                (then
-                  (br_if $scanFail (i32.ge_u (local.get $c) (local.get $nCols)))
-                  (local.set $i (i32.add (local.get $e) (i32.const 1)))
-                  (local.set $dst (i32.add (local.get $dst) (i32.const 8)))
-                  (br $cells))))
-            ;; At the newline: exactly nCols cells, and not too long.
-            (br_if $scanFail (i32.ne (local.get $c) (local.get $nCols)))
+            (block $atNewline
+              (loop $cells
+                (local.set $e (call $cell (local.get $i) (local.get $dst) (local.get $delim) (local.get $dec) (local.get $nl)))
+                (br_if $scanFail (i32.lt_s (local.get $e) (i32.const 0)))
+                (local.set $n (i32.add (local.get $n) (i32.const 1)))
+                (br_if $atNewline (i32.ne (i32.load8_u (local.get $e)) (local.get $delim)))
+                (if (i32.ge_u (local.get $n) (local.get $nCols))
+                  (then
+                    ;; Cells past the header's: kept only when blank (whitespace, as trim() sees it).
+                    (local.set $i (i32.add (local.get $e) (i32.const 1)))
+                    (loop $rest
+                      (local.set $b (i32.load8_u (local.get $i)))
+                      (if (i32.eq (local.get $b) (local.get $nl))
+                        (then
+                          (local.set $e (local.get $i))
+                          (local.set $n (i32.add (local.get $n) (i32.const 1)))
+                          (br $atNewline)))
+                      (if (i32.eq (local.get $b) (local.get $delim))
+                        (then (local.set $n (i32.add (local.get $n) (i32.const 1))))
+                        (else
+                          (br_if $scanFail
+                            (i32.eqz (i32.or (i32.eq (local.get $b) (i32.const 32))
+                                             (i32.le_u (i32.sub (local.get $b) (i32.const 9)) (i32.const 4)))))))
+                      (local.set $i (i32.add (local.get $i) (i32.const 1)))
+                      (br $rest))))
+                (local.set $i (i32.add (local.get $e) (i32.const 1)))
+                (local.set $dst (i32.add (local.get $dst) (i32.const 8)))
+                (br $cells)))
+            ;; At the newline: at least nCols cells (blank ones past them), and not too long.
+            (br_if $scanFail (i32.lt_u (local.get $n) (local.get $nCols)))
             (br_if $scanFail (i32.gt_u (i32.sub (local.get $e) (local.get $start)) (local.get $maxLine)))
             (local.set $next (i32.add (local.get $e) (i32.const 1)))
             ;; Each column converted, checked and stored at row m of its output array.
@@ -356,6 +376,8 @@
                 (local.set $lastTime (local.get $t))
                 (local.set $haveLast (i32.const 1))))
             (local.set $m (i32.add (local.get $m) (i32.const 1)))
+            (if (i32.gt_u (local.get $n) (local.get $nCols))
+              (then (local.set $surplus (i32.add (local.get $surplus) (i32.const 1)))))
             (local.set $pos (local.get $next))
             (br $row)))
         ;; A line for JavaScript to read: find its newline.
@@ -372,9 +394,11 @@
     (if (local.get $status)
       (then
         (f64.store (i32.const 184) (f64.convert_i32_u (local.get $next)))
+        (f64.store (i32.const 200) (f64.convert_i32_u (local.get $n)))
         (f64.store (i32.const 208) (f64.convert_i32_u (local.get $start))))
       (else
         (f64.store (i32.const 184) (f64.convert_i32_u (local.get $pos)))))
     (f64.store (i32.const 192) (f64.convert_i32_u (local.get $m)))
+    (f64.store (i32.const 216) (f64.convert_i32_u (local.get $surplus)))
     (local.get $status))
 )
