@@ -406,9 +406,9 @@ class BodyReader {
     const set = (c: number, values: number[]): void => config.set(values, CONFIG_DOUBLES * c);
     const nRoles = this.roleCol.length;
     const nExtra = this.extraCol.length;
-    this.roleCol.forEach((c, k) => set(c, [KIND_ROLE, k, this.roleFactor[k]!, this.roleOffset[k]!, this.roleMin[k]!, this.roleMax[k]!]));
-    this.extraCol.forEach((c, e) => set(c, [KIND_EXTRA, nRoles + e, 1, 0, 0, 0]));
-    this.spreadCol.forEach((c, e) => set(c, [KIND_SPREAD, nRoles + nExtra + e, this.spreadFactor[e]!, 0, 0, 0]));
+    this.roleCol.forEach((c, k) => set(c, [KIND_ROLE, k, this.roleFactor[k]!, this.roleOffset[k]!, this.roleMin[k]!, this.roleMax[k]!, 0, 0]));
+    this.extraCol.forEach((c, e) => set(c, [KIND_EXTRA, nRoles + e, 1, 0, 0, 0, 0, 0]));
+    this.spreadCol.forEach((c, e) => set(c, [KIND_SPREAD, nRoles + nExtra + e, this.spreadFactor[e]!, 0, 0, 0, 0, 0]));
     // Every column must be one of the three (it is, by planColumns); otherwise the scanner reads all.
     return config.some((x) => x !== x) ? null : config;
   }
@@ -583,6 +583,7 @@ class BodyReader {
       const next = mem[NEXT_SLOT]!;
       const kept = mem[KEPT_SLOT]!;
       if (kept > 0) {
+        this.countBlanks(mem, layout.config >> 3);
         this.keepBatch(mem, out, maxRows, kept, base + shift + (status === RUN_DONE ? next : mem[START_SLOT]!));
         this.surplusBlankRows += mem[SURPLUS_SLOT]!;
       }
@@ -592,7 +593,12 @@ class BodyReader {
           // A row of numbers that commit() does not simply keep: it drops it, or stops the input.
           const line = this.line++;
           this.scanAt = base + shift + start;
-          for (let c = 0; c < nCols; c++) vals[c] = mem[scratch + c]!;
+          // Its only NaN cells are blank ones: an empty text stands for each.
+          for (let c = 0; c < nCols; c++) {
+            vals[c] = mem[scratch + c]!;
+            this.starts[c] = 0;
+            this.ends[c] = 0;
+          }
           this.fastRows++;
           this.commit(line, mem[CELLS_SLOT]!, false);
         } else {
@@ -610,6 +616,26 @@ class BodyReader {
       at = next;
     }
     return true;
+  }
+
+  /**
+   * Counts the blank cells of extra and spread columns in the rows the row kernel has just kept (its
+   * counts in the config at `config` in `mem`, in doubles), as {@link commit} counts them row by
+   * row; call before {@link keepBatch}, which moves the line number past those rows.
+   */
+  private countBlanks(mem: Float64Array, config: number): void {
+    this.extraCol.forEach((c, e) => {
+      const blanks = mem[config + CONFIG_DOUBLES * c + 6]!;
+      if (blanks === 0) return;
+      if (this.extraBad[e] === 0) this.extraFirstBad[e] = this.line + mem[config + CONFIG_DOUBLES * c + 7]!;
+      this.extraBad[e] = this.extraBad[e]! + blanks;
+    });
+    this.spreadCol.forEach((c, e) => {
+      const blanks = mem[config + CONFIG_DOUBLES * c + 6]!;
+      if (blanks === 0) return;
+      if (this.spreadBad[e] === 0) this.spreadFirstBad[e] = this.line + mem[config + CONFIG_DOUBLES * c + 7]!;
+      this.spreadBad[e] = this.spreadBad[e]! + blanks;
+    });
   }
 
   /**

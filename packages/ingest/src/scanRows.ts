@@ -29,8 +29,8 @@ export const RUN_CHECK = 2;
 export const KIND_ROLE = 0;
 export const KIND_EXTRA = 1;
 export const KIND_SPREAD = 2;
-/** Doubles per column in the config. */
-export const CONFIG_DOUBLES = 6;
+/** Doubles per column in the config (kind, dest, factor, offset, min, max, then the kernel's count of blank cells and the row of the first). */
+export const CONFIG_DOUBLES = 8;
 
 const kernel = createKernel<RowKernel>(wasm);
 let enabled = true;
@@ -92,7 +92,7 @@ export function scanRowsOf(bytes: Uint8Array, from: number, end: number, nCols: 
   const { room, layout } = got;
   room.u8.set(bytes.subarray(from, end), ROWS_AT);
   const mem = room.f64;
-  for (let c = 0; c < nCols; c++) mem.set([KIND_EXTRA, c, 1, 0, 0, 0], layout.config / 8 + CONFIG_DOUBLES * c);
+  for (let c = 0; c < nCols; c++) mem.set([KIND_EXTRA, c, 1, 0, 0, 0, 0, 0], layout.config / 8 + CONFIG_DOUBLES * c);
   const rows: (number[] | null)[] = [];
   const stop = ROWS_AT + end - from;
   for (let at = ROWS_AT; at < stop; ) {

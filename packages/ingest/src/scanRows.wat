@@ -6,10 +6,12 @@
 ;; line is kept when it has nCols cells (or more, the others blank: a trailing delimiter), at most
 ;; maxLine bytes before its newline, each of the nCols cells is a plain number that the kernel reads
 ;; exactly as scanCellBytes (parseCell.ts) does, and
-;; every column passes the check commit() (createIngestor.ts) makes: column c has at config + 48c
-;; the doubles kind, dest, factor, offset, min, max; kind 0 (a role) stores v · factor + offset,
-;; which must lie in [min, max], and for column timeCol must exceed the last kept time (when
-;; haveLast); kind 1 (extra) stores v; kind 2 (spread) stores v · factor. The value goes to row m
+;; every column passes the check commit() (createIngestor.ts) makes: column c has at config + 64c
+;; the doubles kind, dest, factor, offset, min, max, blanks, first; kind 0 (a role) stores
+;; v · factor + offset, which must lie in [min, max] (so a blank cell, NaN, stops there), and for
+;; column timeCol must exceed the last kept time (when haveLast); kind 1 (extra) stores v; kind 2
+;; (spread) stores v · factor; for these two the kernel counts the kept rows whose cell is blank
+;; (NaN) in `blanks` and notes the first one's row m in `first`. The value goes to row m
 ;; of output array dest; the arrays (maxRows doubles each) follow the scratch row (nCols doubles)
 ;; that follows the config. The kernel stops at end or after maxRows kept lines (status 0), or at
 ;; a line it does not keep: status 1 when it did not read the cells (left to the JavaScript
@@ -161,8 +163,24 @@
         (local.set $i (i32.add (local.get $i) (i32.const 1)))
         (local.set $c (i32.load8_u (local.get $i)))
         (br $blank)))
+    ;; A blank cell (carriage returns too, unless one is the newline) is NaN, as scanCellBytes reads it.
+    (if (i32.and (i32.eq (local.get $c) (i32.const 13)) (i32.ne (local.get $nl) (i32.const 13)))
+      (then
+        (block $cr (loop $blanks
+          (br_if $cr
+            (i32.eqz
+              (i32.or
+                (i32.or (i32.eq (local.get $c) (i32.const 32)) (i32.eq (local.get $c) (i32.const 13)))
+                (i32.and (i32.eq (local.get $c) (i32.const 9)) (local.get $tab)))))
+          (local.set $i (i32.add (local.get $i) (i32.const 1)))
+          (local.set $c (i32.load8_u (local.get $i)))
+          (br $blanks)))
+        (if (i32.and (i32.ne (local.get $c) (local.get $delim)) (i32.ne (local.get $c) (local.get $nl)))
+          (then (return (i32.const -1))))))
     (if (i32.or (i32.eq (local.get $c) (local.get $delim)) (i32.eq (local.get $c) (local.get $nl)))
-      (then (return (i32.const -1))))
+      (then
+        (f64.store (local.get $dst) (f64.const nan))
+        (return (local.get $i))))
     (if (i32.eq (local.get $c) (i32.const 45))
       (then
         (local.set $neg (i32.const 1))
@@ -294,8 +312,15 @@
       (param $config i32) (param $timeCol i32) (param $haveLast i32) (param $lastTime f64) (result i32)
     (local $m i32) (local $start i32) (local $next i32) (local $i i32) (local $c i32) (local $e i32)
     (local $dst i32) (local $scratch i32) (local $out i32) (local $cfg i32) (local $kind i32)
-    (local $v f64) (local $s f64) (local $t f64) (local $status i32) (local $n i32) (local $b i32) (local $surplus i32)
-    (local.set $scratch (i32.add (local.get $config) (i32.mul (local.get $nCols) (i32.const 48))))
+    (local $v f64) (local $s f64) (local $t f64) (local $status i32) (local $n i32) (local $b i32) (local $surplus i32) (local $blank i32)
+    (local.set $scratch (i32.add (local.get $config) (i32.mul (local.get $nCols) (i32.const 64))))
+    ;; No blank cells counted yet.
+    (local.set $cfg (local.get $config))
+    (block $zeroed (loop $zero
+      (br_if $zeroed (i32.ge_u (local.get $cfg) (local.get $scratch)))
+      (f64.store offset=48 (local.get $cfg) (f64.const 0))
+      (local.set $cfg (i32.add (local.get $cfg) (i32.const 64)))
+      (br $zero)))
     (local.set $out (i32.add (local.get $scratch) (i32.shl (local.get $nCols) (i32.const 3))))
     (block $done
       (block $checkFail
@@ -339,7 +364,12 @@
             ;; At the newline: at least nCols cells (blank ones past them), and not too long.
             (br_if $scanFail (i32.lt_u (local.get $n) (local.get $nCols)))
             (br_if $scanFail (i32.gt_u (i32.sub (local.get $e) (local.get $start)) (local.get $maxLine)))
+            ;; A blank line (one blank cell) is not a row.
+            (br_if $scanFail
+              (i32.and (i32.eq (local.get $n) (i32.const 1))
+                       (f64.ne (f64.load (local.get $scratch)) (f64.load (local.get $scratch)))))
             (local.set $next (i32.add (local.get $e) (i32.const 1)))
+            (local.set $blank (i32.const 0))
             ;; Each column converted, checked and stored at row m of its output array.
             (local.set $c (i32.const 0))
             (local.set $cfg (local.get $config))
@@ -359,6 +389,7 @@
                         (i32.and (local.get $haveLast) (i32.eqz (f64.gt (local.get $s) (local.get $lastTime)))))
                       (local.set $t (local.get $s)))))
                 (else
+                  (if (f64.ne (local.get $v) (local.get $v)) (then (local.set $blank (i32.const 1))))
                   (if (i32.eq (local.get $kind) (i32.const 1))
                     (then (local.set $s (local.get $v)))
                     (else (local.set $s (f64.mul (local.get $v) (f64.load offset=16 (local.get $cfg))))))))
@@ -368,9 +399,24 @@
                     (i32.add (i32.mul (i32.trunc_f64_s (f64.load offset=8 (local.get $cfg))) (local.get $maxRows)) (local.get $m))
                     (i32.const 3)))
                 (local.get $s))
-              (local.set $cfg (i32.add (local.get $cfg) (i32.const 48)))
+              (local.set $cfg (i32.add (local.get $cfg) (i32.const 64)))
               (local.set $c (i32.add (local.get $c) (i32.const 1)))
               (br_if $cols (i32.lt_u (local.get $c) (local.get $nCols))))
+            ;; The row is kept: count its blank extra and spread cells (and note the first row of each).
+            (if (local.get $blank)
+              (then
+                (local.set $c (i32.const 0))
+                (local.set $cfg (local.get $config))
+                (loop $blanks
+                  (if (f64.ne (f64.load (i32.add (local.get $scratch) (i32.shl (local.get $c) (i32.const 3))))
+                              (f64.load (i32.add (local.get $scratch) (i32.shl (local.get $c) (i32.const 3)))))
+                    (then
+                      (if (f64.eq (f64.load offset=48 (local.get $cfg)) (f64.const 0))
+                        (then (f64.store offset=56 (local.get $cfg) (f64.convert_i32_u (local.get $m)))))
+                      (f64.store offset=48 (local.get $cfg) (f64.add (f64.load offset=48 (local.get $cfg)) (f64.const 1)))))
+                  (local.set $cfg (i32.add (local.get $cfg) (i32.const 64)))
+                  (local.set $c (i32.add (local.get $c) (i32.const 1)))
+                  (br_if $blanks (i32.lt_u (local.get $c) (local.get $nCols))))))
             (if (i32.ge_s (local.get $timeCol) (i32.const 0))
               (then
                 (local.set $lastTime (local.get $t))

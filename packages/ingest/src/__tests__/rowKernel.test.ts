@@ -92,6 +92,8 @@ describe('the row kernel reads cells as scanCellBytes and Number() do', () => {
               const cells = cellsOf[k]!;
               const plain = cells.length === nCols && cells.every((c) => /^[ \t]*[+-]?\d{1,8}(\.\d{0,6})?[ \t]*$/.test(decimal === COMMA ? c.replace(',', '.') : c));
               if (plain && (starts[k + 1] ?? bytes.length) - starts[k]! - 1 <= maxLine) expect(row, JSON.stringify(cells)).not.toBeNull();
+              // A line of one blank cell is a blank line, not a row: left to the scanner.
+              if (cells.length === 1 && cells[0]!.trim() === '') expect(row).toBeNull();
               if (row === null) return;
               // A line the kernel reads has nCols cells, each a number that scanCellBytes reads the
               // same, and perhaps blank cells after them.
@@ -210,8 +212,8 @@ describe('an ingestor reads the same with the row kernel as without it', () => {
     const lines = ['time [s],voltage [V],current [A],note'];
     for (let k = 0; k < 20_000; k++) {
       const t = (k + 1) / 1000;
-      // A blank note on most lines from line 5000 on, text on some, a trailing delimiter on others.
-      const note = k < 5000 || k % 7 === 0 ? String(k % 13) : k % 11 === 0 ? 'n/a' : '';
+      // From line 5000 on, text in the note on every other line, and blank notes; a trailing delimiter on some lines.
+      const note = k < 5000 || k % 7 === 0 ? String(k % 13) : k % 2 === 0 ? 'n/a' : '';
       lines.push(`${t},${k % 3 === 0 ? 12 : 0},${Math.sin(k) / 3},${note}${k % 5 === 0 ? ',' : ''}`);
     }
     const bytes = Buffer.from(lines.join('\n') + '\n', 'latin1');
@@ -220,8 +222,9 @@ describe('an ingestor reads the same with the row kernel as without it', () => {
       const want = read(bytes, sizes, false);
       expect(read(bytes, sizes, true)).toEqual(want);
       expect(rowKernelUse.lines - before).toBeGreaterThan(4000);
-      // In one chunk, the JavaScript scanner takes over soon after line 5000 (the kernel would keep every 7th line after it).
-      if (sizes.length === 1) expect(rowKernelUse.lines - before).toBeLessThan(5500);
+      // In one chunk, the JavaScript scanner takes over once a quarter of the lines read are left to it
+      // (the kernel alone would keep 5000 + 15000 · (1/7 + 6/7 · 1/2) ≈ 13570 lines).
+      if (sizes.length === 1) expect(rowKernelUse.lines - before).toBeLessThan(10_000);
       expect((want as { meta: { rowsKept: number } }).meta.rowsKept).toBe(20_000);
     }
   });
