@@ -8,6 +8,9 @@ import { planColumns, ROLE_LIMITS } from './columns.js';
 import { checkTimeBase } from './checkTimeBase.js';
 import { deriveSpeed } from './deriveSpeed.js';
 import { classifyBadCell, COMMA, DOT, scanCell, scanCellBytes } from './parseCell.js';
+import {
+  CELLS_SLOT, CONFIG_DOUBLES, KEPT_SLOT, KIND_EXTRA, KIND_ROLE, KIND_SPREAD, NEXT_SLOT, ROWS_AT, RUN_CHECK, RUN_DONE, START_SLOT, SURPLUS_SLOT, rowKernelRoom, rowKernelUse,
+} from './scanRows.js';
 import { settleDialect } from './settleDialect.js';
 import type { SettledHead } from './settleDialect.js';
 import type {
@@ -133,8 +136,10 @@ export function createIngestor(options: IngestOptions = {}): Ingestor {
       throw new IngestError('not-text', file, 'the file is UTF-16 text; save it as UTF-8');
     }
     encoding = 'utf-8';
+    // ASCII is valid UTF-8: only other heads need the (string-making) check.
+    const asciiHead = isAscii(head);
     try {
-      new TextDecoder('utf-8', { fatal: true, ignoreBOM: true }).decode(head, { stream: true });
+      if (!asciiHead) new TextDecoder('utf-8', { fatal: true, ignoreBOM: true }).decode(head, { stream: true });
     } catch {
       encoding = 'windows-1252';
       earlyIssues.push({
@@ -152,7 +157,7 @@ export function createIngestor(options: IngestOptions = {}): Ingestor {
       decoder = { decode: (chunk?: Uint8Array): string => (chunk ? td.decode(chunk, { stream: true }) : td.decode()) };
     }
     decoderClean = head.length === 0 || head[head.length - 1]! < 0x80;
-    const ascii = decoderClean && isAscii(head);
+    const ascii = decoderClean && asciiHead;
     feedText(decoder.decode(head), false, ascii ? toBuffer(head) : undefined);
   }
 
@@ -309,6 +314,8 @@ class BodyReader {
   private scanAt = 0;
   private readonly sizeHint: number | undefined;
   private rowCells: string[] | null = null;
+  /** Per column, what the row kernel does with it (see scanRows.wat); null when the kernel is not used. */
+  private readonly kernelConfig: Float64Array | null;
 
   private pending = '';
   /** 1-based line number of `pending[0]`. */
@@ -390,6 +397,20 @@ class BodyReader {
     this.conv = new Float64Array(roleCols.length);
     this.starts = new Int32Array(this.nCols);
     this.ends = new Int32Array(this.nCols);
+    this.kernelConfig = this.makeKernelConfig();
+  }
+
+  /** The row kernel's config: kind, output array, factor, offset, min, max per column. */
+  private makeKernelConfig(): Float64Array | null {
+    const config = new Float64Array(CONFIG_DOUBLES * this.nCols).fill(Number.NaN);
+    const set = (c: number, values: number[]): void => config.set(values, CONFIG_DOUBLES * c);
+    const nRoles = this.roleCol.length;
+    const nExtra = this.extraCol.length;
+    this.roleCol.forEach((c, k) => set(c, [KIND_ROLE, k, this.roleFactor[k]!, this.roleOffset[k]!, this.roleMin[k]!, this.roleMax[k]!, 0, 0]));
+    this.extraCol.forEach((c, e) => set(c, [KIND_EXTRA, nRoles + e, 1, 0, 0, 0, 0, 0]));
+    this.spreadCol.forEach((c, e) => set(c, [KIND_SPREAD, nRoles + nExtra + e, this.spreadFactor[e]!, 0, 0, 0, 0, 0]));
+    // Every column must be one of the three (it is, by planColumns); otherwise the scanner reads all.
+    return config.some((x) => x !== x) ? null : config;
   }
 
   /**
@@ -453,7 +474,7 @@ class BodyReader {
     }
     this.rowCells = null;
     this.rowBytes = bytes;
-    this.readFastBytes(bytes, from, end, nlCode);
+    if (!this.readKernelBytes(bytes, from, end, nlCode)) this.readFastBytes(bytes, from, end, nlCode);
     // Here rather than at the end of readFastBytes: its loop is compiled while it runs (on-stack
     // replacement), before any code after the loop has run, and V8 would leave that compiled code
     // at such code on every later chunk.
@@ -520,6 +541,131 @@ class BodyReader {
       }
       pos = next;
     }
+  }
+
+  /**
+   * {@link readFastBytes} with the numbers scanned by the WebAssembly kernel (scanRows.wat), which
+   * reads a fresh process's first chunks as fast as warmed-up JavaScript would. The bytes are
+   * copied into the kernel's memory once; it reads every line whose cells are all plain numbers
+   * (exactly as {@link scanCellBytes} reads them, bit for bit) and has as many cells as the header
+   * (and perhaps blank ones after them), and marks any other line (comments, blanks, text, quirks its fast path leaves to `Number()`),
+   * which {@link readFastBytes} then reads on its own, in order. Returns false (having read
+   * nothing) when the kernel cannot run.
+   */
+  private readKernelBytes(bytes: Buffer, from: number, end: number, nlCode: number): boolean {
+    const config = this.kernelConfig;
+    if (config === null) return false;
+    const nCols = this.nCols;
+    const length = end - from;
+    const got = rowKernelRoom(length, nCols);
+    if (got === null) return false;
+    const { room, layout } = got;
+    const mem = room.f64;
+    room.u8.set(bytes.subarray(from, end), ROWS_AT);
+    mem.set(config, layout.config >> 3);
+    const run = room.exports.run;
+    const delimCode = this.delimiter.charCodeAt(0);
+    const decimal = this.decimal;
+    const maxLine = Math.min(this.opts.maxLineLength, 0x7fffffff);
+    const maxRows = layout.maxRows;
+    const timeCol = this.timeSlot >= 0 ? this.roleCol[this.timeSlot]! : -1;
+    const scratch = layout.scratch >> 3;
+    const out = layout.out >> 3;
+    const vals = this.vals;
+    // Byte index in `bytes` = kernel address + shift; file offset = byte index + base.
+    const shift = from - ROWS_AT;
+    const base = this.fed - bytes.length;
+    const stopAt = ROWS_AT + length;
+    let lines = 0;
+    let stops = 0;
+    for (let at = ROWS_AT; at < stopAt; ) {
+      const status = run(at, stopAt, maxRows, nCols, delimCode, decimal, nlCode, maxLine, layout.config, timeCol, this.kept > 0 ? 1 : 0, this.lastTime);
+      const next = mem[NEXT_SLOT]!;
+      const kept = mem[KEPT_SLOT]!;
+      if (kept > 0) {
+        this.countBlanks(mem, layout.config >> 3);
+        this.keepBatch(mem, out, maxRows, kept, base + shift + (status === RUN_DONE ? next : mem[START_SLOT]!));
+        this.surplusBlankRows += mem[SURPLUS_SLOT]!;
+      }
+      if (status !== RUN_DONE) {
+        const start = mem[START_SLOT]!;
+        if (status === RUN_CHECK) {
+          // A row of numbers that commit() does not simply keep: it drops it, or stops the input.
+          const line = this.line++;
+          this.scanAt = base + shift + start;
+          // Its only NaN cells are blank ones: an empty text stands for each.
+          for (let c = 0; c < nCols; c++) {
+            vals[c] = mem[scratch + c]!;
+            this.starts[c] = 0;
+            this.ends[c] = 0;
+          }
+          this.fastRows++;
+          this.commit(line, mem[CELLS_SLOT]!, false);
+        } else {
+          this.readFastBytes(bytes, shift + start, shift + next, nlCode);
+        }
+        // When the kernel leaves most lines to JavaScript (a column of blanks or text, say), a call
+        // per line costs more than it saves: the JavaScript scanner reads the rest of the chunk.
+        stops++;
+        if (stops >= 64 && 4 * stops > lines + stops) {
+          if (next < stopAt) this.readFastBytes(bytes, shift + next, end, nlCode);
+          return true;
+        }
+      }
+      lines += kept;
+      at = next;
+    }
+    return true;
+  }
+
+  /**
+   * Counts the blank cells of extra and spread columns in the rows the row kernel has just kept (its
+   * counts in the config at `config` in `mem`, in doubles), as {@link commit} counts them row by
+   * row; call before {@link keepBatch}, which moves the line number past those rows.
+   */
+  private countBlanks(mem: Float64Array, config: number): void {
+    this.extraCol.forEach((c, e) => {
+      const blanks = mem[config + CONFIG_DOUBLES * c + 6]!;
+      if (blanks === 0) return;
+      if (this.extraBad[e] === 0) this.extraFirstBad[e] = this.line + mem[config + CONFIG_DOUBLES * c + 7]!;
+      this.extraBad[e] = this.extraBad[e]! + blanks;
+    });
+    this.spreadCol.forEach((c, e) => {
+      const blanks = mem[config + CONFIG_DOUBLES * c + 6]!;
+      if (blanks === 0) return;
+      if (this.spreadBad[e] === 0) this.spreadFirstBad[e] = this.line + mem[config + CONFIG_DOUBLES * c + 7]!;
+      this.spreadBad[e] = this.spreadBad[e]! + blanks;
+    });
+  }
+
+  /**
+   * Stores `n` rows that the row kernel read and checked (its output arrays at `out` in `mem`, in
+   * doubles, `stride` apart), as {@link commit} would store them one by one; `scanAt` is the file
+   * offset just after them.
+   */
+  private keepBatch(mem: Float64Array, out: number, stride: number, n: number, scanAt: number): void {
+    this.rowsRead += n;
+    this.fastRows += n;
+    rowKernelUse.lines += n;
+    if (this.pendingBlank.length) {
+      this.blankCount += this.pendingBlank.length;
+      for (const b of this.pendingBlank) if (this.blankLines.length < LISTED_LINES) this.blankLines.push(b);
+      this.pendingBlank = [];
+    }
+    const at = this.kept;
+    this.kept = at + n;
+    this.scanAt = scanAt;
+    while (this.kept > this.capacity) this.grow();
+    let array = 0;
+    for (const buffers of [this.roleBuffers, this.extraBuffers, this.spreadBuffers]) {
+      for (const b of buffers) {
+        const from = out + stride * array++;
+        b.set(mem.subarray(from, from + n), at);
+      }
+    }
+    this.lastTime = this.timeSlot >= 0 ? this.roleBuffers[this.timeSlot]![this.kept - 1]! : this.kept - 1;
+    this.line += n;
+    this.lastKeptLine = this.line - 1;
   }
 
   /** {@link tooLong} for line `line` of a byte chunk being scanned. */
