@@ -1,0 +1,27 @@
+import { createKernel } from '@motorprint/model/kernels';
+import { wasm } from './estimateKernels.wasm.js';
+
+/**
+ * The estimate package's WebAssembly kernels (estimateKernels.wat; internal). One module, so that
+ * the sweep's row buffers and the chunk sums work on the same memory. Addresses are in bytes.
+ */
+export interface EstimateKernelExports {
+  /** Σ r[k]² over `rows` doubles at `r`, in order. */
+  sumSquares(r: number, rows: number): number;
+  /** `sumChunkUnrolled` for p = 1…8: columns of J `st` bytes apart, sums stored at `out`; returns rᵀr. */
+  sums1(r: number, J: number, rows: number, st: number, out: number): number;
+  sums2(r: number, J: number, rows: number, st: number, out: number): number;
+  sums3(r: number, J: number, rows: number, st: number, out: number): number;
+  sums4(r: number, J: number, rows: number, st: number, out: number): number;
+  sums5(r: number, J: number, rows: number, st: number, out: number): number;
+  sums6(r: number, J: number, rows: number, st: number, out: number): number;
+  sums7(r: number, J: number, rows: number, st: number, out: number): number;
+  sums8(r: number, J: number, rows: number, st: number, out: number): number;
+  /** Diagonal tile of `sumChunkTiled`: 15 sums at `out` (see the .wat); returns rᵀr. */
+  diagTile(r: number, c0: number, c1: number, c2: number, c3: number, rows: number, out: number): number;
+  /** Off-diagonal tile of `sumChunkTiled`: 16 sums at `out`, row by row. */
+  offTile(c0: number, c1: number, c2: number, c3: number, d0: number, d1: number, d2: number, d3: number, rows: number, out: number): void;
+}
+
+/** The kernel module (compiled on first use; `room` is null where WebAssembly is missing). */
+export const estimateKernel = createKernel<EstimateKernelExports>(wasm);
