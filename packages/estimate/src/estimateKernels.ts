@@ -21,7 +21,23 @@ export interface EstimateKernelExports {
   diagTile(r: number, c0: number, c1: number, c2: number, c3: number, rows: number, out: number): number;
   /** Off-diagonal tile of `sumChunkTiled`: 16 sums at `out`, row by row. */
   offTile(c0: number, c1: number, c2: number, c3: number, d0: number, d1: number, d2: number, d3: number, rows: number, out: number): void;
+  /** sweepLinearModel's freeRunSens over samples [k0, k1) (parameter block at P, see the .wat); returns the row count. */
+  freeRunSens: FreeRunKernel;
+  /** sweepLinearModel's freeRunValues over samples [k0, k1) (the same arguments; jac unused). */
+  freeRunValues: FreeRunKernel;
 }
+
+/** A free-run kernel: block P, samples [k0, k1), rows so far, buffers and series addresses (0 = absent). */
+export type FreeRunKernel = (
+  P: number, k0: number, k1: number, rows: number, r: number, jac: number,
+  mi: number, mw: number, outI: number, outW: number, input: number, cls: number, levels: number,
+) => number;
 
 /** The kernel module (compiled on first use; `room` is null where WebAssembly is missing). */
 export const estimateKernel = createKernel<EstimateKernelExports>(wasm);
+
+/**
+ * Whether the package's hot loops may run in the kernels (default true). Tests set it to false to
+ * run the JavaScript loops, the reference the kernels are compared with; nothing else changes it.
+ */
+export const useKernels = { on: true };

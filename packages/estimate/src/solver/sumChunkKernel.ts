@@ -1,4 +1,4 @@
-import { estimateKernel } from '../estimateKernels.js';
+import { estimateKernel, useKernels } from '../estimateKernels.js';
 import type { EstimateKernelExports } from '../estimateKernels.js';
 
 /** Doubles of scratch the chunk-sum kernels write their sums to (≥ 45, the p = 8 layout). */
@@ -93,7 +93,7 @@ export const KERNEL_MIN_ROWS = 64;
  * otherwise `out` holds the same bits as the JavaScript loops give (rᵀr last).
  */
 export function sumChunkWasm(p: number, out: Float64Array, r: Float64Array, J: Float64Array, rows: number, stride: number): boolean {
-  if (!(rows >= 0 && p >= 1 && r.length >= rows && J.length >= (p - 1) * stride + rows)) return false;
+  if (!useKernels.on || !(rows >= 0 && p >= 1 && r.length >= rows && J.length >= (p - 1) * stride + rows)) return false;
   const room = estimateKernel.room(8 * (SUMS_SCRATCH + rows * (p + 1)));
   if (room === null) return false;
   const mem = room.f64;
@@ -107,7 +107,7 @@ export function sumChunkWasm(p: number, out: Float64Array, r: Float64Array, J: F
 
 /** Σ r[k]² for k < rows through the kernel (copying r), or null where it cannot run. */
 export function sumSquaresWasm(r: Float64Array, rows: number): number | null {
-  if (!(rows >= 0 && r.length >= rows)) return null;
+  if (!useKernels.on || !(rows >= 0 && r.length >= rows)) return null;
   const room = estimateKernel.room(8 * rows);
   if (room === null) return null;
   room.f64.set(r.subarray(0, rows), 0);
