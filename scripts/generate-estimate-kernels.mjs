@@ -132,11 +132,13 @@ const SLOTS = ['a', 'b', 'c', 'd', 'e', 'f'];
 const MATS = ['p11', 'p12', 'p21', 'p22', 'g1', 'g2', 't1', 't2'];
 const STATE = ['i', 'w', ...SLOTS.flatMap((q) => [`${q}i`, `${q}w`]), 'ti', 'tw'];
 
-function freeRunPass(name, sens) {
-  emit(`  ;; ${name}: samples [k0, k1) of sweepLinearModel's ${sens ? 'freeRunSens (rows, Jacobian rows and sensitivities)' : 'freeRunValues (residual rows only)'}, the`);
+function freeRunPass(name, sens, basis = false) {
+  const what = basis ? 'freeRunBasis with level classes (freeRunSens plus the sensitivities to the class levels)' : sens ? 'freeRunSens (rows, Jacobian rows and sensitivities)' : 'freeRunValues (residual rows only)';
+  emit(`  ;; ${name}: samples [k0, k1) of sweepLinearModel's ${what}, the`);
   emit('  ;; parameter block at P (doubles: [Φ Γv Γτ, slot derivatives] 56, state 16, sI sW off tau tcW ldW offW n, column');
   emit('  ;; offsets of the 6 slots, Tc, load and offset 9). Series addresses 0 = absent; the input is levels[cls[k]] when');
   emit('  ;; cls is given (i32), else input[k]. Row buffers r and jac (columns at jac + 8·column offset); returns the row count.');
+  if (basis) emit('  ;; Block P also holds uScale, m, the address of su (2m) and of colU (m column offsets as doubles); cls must be given.');
   emit(`  (func (export "${name}") (param $P i32) (param $k0 i32) (param $k1 i32) (param $rows i32) (param $r i32) (param $jac i32)`);
   emit('    (param $mi i32) (param $mw i32) (param $outI i32) (param $outW i32) (param $input i32) (param $cls i32) (param $levels i32) (result i32)');
   emit('    (local $k i32) (local $kb i32) (local $rb i32) (local $n i32) (local $v f64) (local $res f64) (local $z f64) (local $iNext f64)');
@@ -145,6 +147,10 @@ function freeRunPass(name, sens) {
     for (const q of SLOTS) for (let e = 0; e < 8; e++) f64Locals.push(`${q}${e}`);
     for (const q of SLOTS) f64Locals.push(`${q}t`, `${q}t2`);
     f64Locals.push('tcI', 'ldI', 'tcW', 'ldW', 'offI');
+  }
+  if (basis) {
+    f64Locals.push('uScale', 'uI', 'uW', 'ui', 'uw', 'ev');
+    emit('    (local $m i32) (local $su i32) (local $colU i32) (local $j i32) (local $q i32) (local $ps i32)');
   }
   for (const l of f64Locals) emit(`    (local $${l} f64)`);
   if (sens) for (const c of COLS) emit(`    (local $${c} i32)`);
@@ -159,15 +165,27 @@ function freeRunPass(name, sens) {
     emit(`    ${put('ldW', mul(g('ldWs'), g('sW')))} ${put('offI', mul(g('offWs'), g('sI')))}`);
     for (const q of SLOTS) emit(`    ${put(`${q}t`, mul(g(`${q}6`), g('tau')))} ${put(`${q}t2`, mul(g(`${q}7`), g('tau')))}`);
   }
+  if (basis) {
+    emit(blockF64('uScale', 89));
+    emit(`    ${put('m', `(i32.trunc_f64_s (f64.load offset=${8 * 90} (local.get $P)))`)}`);
+    emit(`    ${put('su', `(i32.trunc_f64_s (f64.load offset=${8 * 91} (local.get $P)))`)}`);
+    emit(`    ${put('colU', `(i32.trunc_f64_s (f64.load offset=${8 * 92} (local.get $P)))`)}`);
+    emit(`    ${put('uI', mul(g('uScale'), g('sI')))} ${put('uW', mul(g('uScale'), g('sW')))}`);
+  }
   emit(`    ${put('xt1', mul(g('t1'), g('tau')))} ${put('xt2', mul(g('t2'), g('tau')))}`);
   emit('    (local.set $k (local.get $k0))');
   emit('    (block $done');
   emit('      (br_if $done (i32.ge_s (local.get $k) (local.get $k1)))');
   emit('      (loop $next');
   emit(`        ${put('kb', '(i32.shl (local.get $k) (i32.const 3))')}`);
-  emit('        (if (local.get $cls)');
-  emit(`          (then ${put('v', '(f64.load (i32.add (local.get $levels) (i32.shl (i32.load (i32.add (local.get $cls) (i32.shl (local.get $k) (i32.const 2)))) (i32.const 3))))')})`);
-  emit(`          (else ${put('v', `(f64.load ${at('input', 'kb')})`)}))`);
+  if (basis) {
+    emit(`        ${put('q', '(i32.load (i32.add (local.get $cls) (i32.shl (local.get $k) (i32.const 2))))')}`);
+    emit(`        ${put('v', '(f64.load (i32.add (local.get $levels) (i32.shl (local.get $q) (i32.const 3))))')}`);
+  } else {
+    emit('        (if (local.get $cls)');
+    emit(`          (then ${put('v', '(f64.load (i32.add (local.get $levels) (i32.shl (i32.load (i32.add (local.get $cls) (i32.shl (local.get $k) (i32.const 2)))) (i32.const 3))))')})`);
+    emit(`          (else ${put('v', `(f64.load ${at('input', 'kb')})`)}))`);
+  }
   for (const [ch, meas, out, sc] of [['i', 'mi', 'outI', 'sI'], ['w', 'mw', 'outW', 'sW']]) {
     emit(`        (if (local.get $${meas}) (then`);
     const model = ch === 'i' ? sum(g('i'), g('off')) : g('w');
@@ -180,6 +198,16 @@ function freeRunPass(name, sens) {
       emit(`          (f64.store ${at('jT', 'rb')} ${mul(g(`t${ch}`), g(ch === 'i' ? 'tcI' : 'tcW'))})`);
       emit(`          (f64.store ${at('jLd', 'rb')} ${mul(g(`t${ch}`), g(ch === 'i' ? 'ldI' : 'ldW'))})`);
       emit(`          (f64.store ${at('jO', 'rb')} ${ch === 'i' ? g('offI') : '(f64.const 0)'})`);
+    }
+    if (basis) {
+      // jac[colU[j] + row] = su[2j + ch]·u, j < m.
+      emit('          (local.set $j (i32.const 0))');
+      emit('          (block $uDone (loop $uNext');
+      emit('            (br_if $uDone (i32.ge_s (local.get $j) (local.get $m)))');
+      emit('            (f64.store (i32.add (local.get $jac) (i32.shl (i32.add (i32.trunc_f64_s (f64.load (i32.add (local.get $colU) (i32.shl (local.get $j) (i32.const 3))))) (local.get $rows)) (i32.const 3)))');
+      emit(`              ${mul(`(f64.load offset=${ch === 'i' ? 0 : 8} (i32.add (local.get $su) (i32.shl (local.get $j) (i32.const 4))))`, g(ch === 'i' ? 'uI' : 'uW'))})`);
+      emit('            (local.set $j (i32.add (local.get $j) (i32.const 1)))');
+      emit('            (br $uNext)))');
     }
     emit('          (local.set $rows (i32.add (local.get $rows) (i32.const 1)))))');
   }
@@ -194,6 +222,19 @@ function freeRunPass(name, sens) {
     emit(`        ${put('ti', sum(mul(g('p11'), g('z')), mul(g('p12'), g('tw')), g('t1')))}`);
     emit(`        ${put('tw', sum(mul(g('p21'), g('z')), mul(g('p22'), g('tw')), g('t2')))}`);
   }
+  if (basis) {
+    // su[2j], su[2j+1] ← Φ·(su[2j], su[2j+1]) + Γv·e, e = 1 for the sample's class, else 0.
+    emit('        (local.set $j (i32.const 0))');
+    emit('        (block $sDone (loop $sNext');
+    emit('          (br_if $sDone (i32.ge_s (local.get $j) (local.get $m)))');
+    emit(`          ${put('ps', '(i32.add (local.get $su) (i32.shl (local.get $j) (i32.const 4)))')}`);
+    emit(`          ${put('ui', '(f64.load (local.get $ps))')} ${put('uw', '(f64.load offset=8 (local.get $ps))')}`);
+    emit(`          ${put('ev', '(select (f64.const 1) (f64.const 0) (i32.eq (local.get $j) (local.get $q)))')}`);
+    emit(`          (f64.store (local.get $ps) ${sum(mul(g('p11'), g('ui')), mul(g('p12'), g('uw')), mul(g('g1'), g('ev')))})`);
+    emit(`          (f64.store offset=8 (local.get $ps) ${sum(mul(g('p21'), g('ui')), mul(g('p22'), g('uw')), mul(g('g2'), g('ev')))})`);
+    emit('          (local.set $j (i32.add (local.get $j) (i32.const 1)))');
+    emit('          (br $sNext)))');
+  }
   emit(`        ${put('iNext', sum(mul(g('p11'), g('i')), mul(g('p12'), g('w')), mul(g('g1'), g('v')), g('xt1')))}`);
   emit(`        ${put('w', sum(mul(g('p21'), g('i')), mul(g('p22'), g('w')), mul(g('g2'), g('v')), g('xt2')))}`);
   emit(`        ${put('i', g('iNext'))}`);
@@ -203,12 +244,116 @@ function freeRunPass(name, sens) {
   emit('    (local.get $rows))');
 }
 
+/**
+ * intervalIndex(time, k0, k1, idx, table, cap) → count: for k in [k0, k1), h = time[k+1] − time[k]
+ * and idx[k] (i32) = its position in `table` of the distinct h (compared bit for bit), which it
+ * extends; −1 when more than `cap` distinct values occur (the caller then runs JavaScript).
+ */
+function intervalIndex() {
+  emit('  ;; intervalIndex: idx[k] = position of h = time[k+1] − time[k] in the table of distinct intervals (bitwise), k in [k0, k1);');
+  emit('  ;; returns the table size, or −1 past cap entries.');
+  emit('  (func (export "intervalIndex") (param $time i32) (param $k0 i32) (param $k1 i32) (param $idx i32) (param $table i32) (param $cap i32) (result i32)');
+  emit('    (local $k i32) (local $j i32) (local $count i32) (local $h f64) (local $bits i64) (local $pt i32)');
+  emit('    (local.set $k (local.get $k0))');
+  emit('    (block $done');
+  emit('      (br_if $done (i32.ge_s (local.get $k) (local.get $k1)))');
+  emit('      (loop $next');
+  emit('        (local.set $pt (i32.add (local.get $time) (i32.shl (local.get $k) (i32.const 3))))');
+  emit('        (local.set $h (f64.sub (f64.load offset=8 (local.get $pt)) (f64.load (local.get $pt))))');
+  emit('        (local.set $bits (i64.reinterpret_f64 (local.get $h)))');
+  emit('        (local.set $j (i32.const 0))');
+  emit('        (block $found');
+  emit('          (loop $search');
+  emit('            (br_if $found (i32.ge_s (local.get $j) (local.get $count)))');
+  emit('            (br_if $found (i64.eq (local.get $bits) (i64.load (i32.add (local.get $table) (i32.shl (local.get $j) (i32.const 3))))))');
+  emit('            (local.set $j (i32.add (local.get $j) (i32.const 1)))');
+  emit('            (br $search)))');
+  emit('        (if (i32.eq (local.get $j) (local.get $count)) (then');
+  emit('          (if (i32.ge_s (local.get $count) (local.get $cap)) (then (return (i32.const -1))))');
+  emit('          (i64.store (i32.add (local.get $table) (i32.shl (local.get $j) (i32.const 3))) (local.get $bits))');
+  emit('          (local.set $count (i32.add (local.get $count) (i32.const 1)))))');
+  emit('        (i32.store (i32.add (local.get $idx) (i32.shl (local.get $k) (i32.const 2))) (local.get $j))');
+  emit('        (local.set $k (i32.add (local.get $k) (i32.const 1)))');
+  emit('        (br_if $next (i32.lt_s (local.get $k) (local.get $k1)))))');
+  emit('    (local.get $count))');
+}
+
+/**
+ * freeRunEffects(P, E, k0, k1, row, i, w, jac, input, cls, levels, time, idx, qs): the effect
+ * columns of sweepLinearModel's freeRunEffects (both channels present) for samples [k0, k1), rows
+ * from `row`, model current and speed run again from (i, w); block P as in freeRunSens, block E
+ * (doubles): effect state 10 (eTi eTw eCi eCw eFi eFw eGi eGw F G), τ, κ, R, column offsets of
+ * the four effect columns. e^{−h/τ} of each sample's interval is qs[idx[k]] (from JavaScript).
+ */
+function freeRunEffects() {
+  const E = ['eTi', 'eTw', 'eCi', 'eCw', 'eFi', 'eFw', 'eGi', 'eGw', 'F', 'G'];
+  emit('  ;; freeRunEffects: the four effect columns of sweepLinearModel\'s freeRunEffects for samples [k0, k1) (both channels),');
+  emit('  ;; rows from row, current and speed run again from (i, w); block P as freeRunSens\'s, block E: effect state 10');
+  emit('  ;; (eTi eTw eCi eCw eFi eFw eGi eGw F G), τ, κ, R, offsets of the 4 columns; e^{−h/τ} of sample k is qs[idx[k]].');
+  emit('  (func (export "freeRunEffects") (param $P i32) (param $E i32) (param $k0 i32) (param $k1 i32) (param $row i32) (param $i f64) (param $w f64)');
+  emit('    (param $jac i32) (param $input i32) (param $cls i32) (param $levels i32) (param $time i32) (param $idx i32) (param $qs i32)');
+  emit('    (local $k i32) (local $kb i32) (local $rb i32) (local $n i32) (local $c0 i32) (local $c1 i32) (local $c2 i32) (local $c3 i32)');
+  const f = ['p11', 'p12', 'p21', 'p22', 'g1', 'g2', 't1', 't2', 'sI', 'sW', 'xt1', 'xt2', 'tauE', 'kappa', 'R', ...E,
+    'v', 'h', 'uT', 'uC', 'Pw', 'uF', 'uG', 'z', 'q', 'Fn', 'iNext'];
+  for (const l of f) emit(`    (local $${l} f64)`);
+  MATS.forEach((m, e) => emit(blockF64(m, e)));
+  emit(blockF64('sI', 72)); emit(blockF64('sW', 73));
+  emit(`    ${put('xt1', `(f64.mul (local.get $t1) (f64.load offset=${8 * 75} (local.get $P)))`)}`);
+  emit(`    ${put('xt2', `(f64.mul (local.get $t2) (f64.load offset=${8 * 75} (local.get $P)))`)}`);
+  emit(`    ${put('n', `(i32.trunc_f64_s (f64.load offset=${8 * 79} (local.get $P)))`)}`);
+  E.forEach((x, e) => emit(`    ${put(x, `(f64.load offset=${8 * e} (local.get $E))`)}`));
+  emit(`    ${put('tauE', `(f64.load offset=${8 * 10} (local.get $E))`)}`);
+  emit(`    ${put('kappa', `(f64.load offset=${8 * 11} (local.get $E))`)}`);
+  emit(`    ${put('R', `(f64.load offset=${8 * 12} (local.get $E))`)}`);
+  for (let c = 0; c < 4; c++) emit(`    ${put(`c${c}`, `(i32.add (local.get $jac) (i32.shl (i32.trunc_f64_s (f64.load offset=${8 * (13 + c)} (local.get $E))) (i32.const 3)))`)}`);
+  emit('    (local.set $k (local.get $k0))');
+  emit('    (block $done');
+  emit('      (br_if $done (i32.ge_s (local.get $k) (local.get $k1)))');
+  emit('      (loop $next');
+  for (const [ch, sc] of [['i', 'sI'], ['w', 'sW']]) {
+    emit(`        ${put('rb', '(i32.shl (local.get $row) (i32.const 3))')}`);
+    ['eT', 'eC', 'eF', 'eG'].forEach((x, c) => emit(`        (f64.store ${at(`c${c}`, 'rb')} ${mul(g(`${x}${ch}`), g(sc))})`));
+    emit('        (local.set $row (i32.add (local.get $row) (i32.const 1)))');
+  }
+  emit('        (br_if $done (i32.ge_s (i32.add (local.get $k) (i32.const 1)) (local.get $n)))');
+  emit(`        ${put('kb', '(i32.shl (local.get $k) (i32.const 3))')}`);
+  emit('        (if (local.get $cls)');
+  emit(`          (then ${put('v', '(f64.load (i32.add (local.get $levels) (i32.shl (i32.load (i32.add (local.get $cls) (i32.shl (local.get $k) (i32.const 2)))) (i32.const 3))))')})`);
+  emit(`          (else ${put('v', `(f64.load ${at('input', 'kb')})`)}))`);
+  emit(`        ${put('h', '(f64.sub (f64.load offset=8 (i32.add (local.get $time) (local.get $kb))) (f64.load (i32.add (local.get $time) (local.get $kb))))')}`);
+  // uT = w > 0 ? 1 : w < 0 ? -1 : 0; uC = w·|w|.
+  emit(`        ${put('uT', '(select (f64.const 1) (select (f64.const -1) (f64.const 0) (f64.lt (local.get $w) (f64.const 0))) (f64.gt (local.get $w) (f64.const 0)))')}`);
+  emit(`        ${put('uC', mul(g('w'), '(f64.abs (local.get $w))'))}`);
+  emit(`        ${put('Pw', mul(mul(g('R'), g('i')), g('i')))}`);
+  emit(`        ${put('uF', mul(mul('(f64.neg (local.get $kappa))', g('F')), g('i')))}`);
+  emit(`        ${put('uG', mul(mul('(f64.neg (local.get $kappa))', g('G')), g('i')))}`);
+  for (const [x, gi, gw, u] of [['eT', 't1', 't2', 'uT'], ['eC', 't1', 't2', 'uC'], ['eF', 'g1', 'g2', 'uF'], ['eG', 'g1', 'g2', 'uG']]) {
+    emit(`        ${put('z', g(`${x}i`))}`);
+    emit(`        ${put(`${x}i`, sum(mul(g('p11'), g('z')), mul(g('p12'), g(`${x}w`)), mul(g(gi), g(u))))}`);
+    emit(`        ${put(`${x}w`, sum(mul(g('p21'), g('z')), mul(g('p22'), g(`${x}w`)), mul(g(gw), g(u))))}`);
+  }
+  emit(`        ${put('q', '(f64.load (i32.add (local.get $qs) (i32.shl (i32.load (i32.add (local.get $idx) (i32.shl (local.get $k) (i32.const 2)))) (i32.const 3))))')}`);
+  emit(`        ${put('Fn', sum(mul(g('q'), g('F')), mul('(f64.sub (f64.const 1) (local.get $q))', g('Pw'))))}`);
+  emit(`        ${put('G', sum(mul(g('q'), g('G')), mul(`(f64.div ${mul(g('q'), g('h'))} (local.get $tauE))`, '(f64.sub (local.get $F) (local.get $Pw))')))}`);
+  emit(`        ${put('F', g('Fn'))}`);
+  emit(`        ${put('iNext', sum(mul(g('p11'), g('i')), mul(g('p12'), g('w')), mul(g('g1'), g('v')), g('xt1')))}`);
+  emit(`        ${put('w', sum(mul(g('p21'), g('i')), mul(g('p22'), g('w')), mul(g('g2'), g('v')), g('xt2')))}`);
+  emit(`        ${put('i', g('iNext'))}`);
+  emit('        (local.set $k (i32.add (local.get $k) (i32.const 1)))');
+  emit('        (br_if $next (i32.lt_s (local.get $k) (local.get $k1)))))');
+  E.forEach((x, e) => emit(`    (f64.store offset=${8 * e} (local.get $E) (local.get $${x}))`));
+  emit('  )');
+}
+
 sumSquares();
 for (let p = 1; p <= 8; p++) unrolled(p);
 diagonalTile();
 offDiagonalTile();
 freeRunPass('freeRunSens', true);
 freeRunPass('freeRunValues', false);
+freeRunPass('freeRunBasis', true, true);
+intervalIndex();
+freeRunEffects();
 const section = BEGIN + lines.map((l) => l + '\n').join('') + END;
 
 const text = readFileSync(target, 'utf8');

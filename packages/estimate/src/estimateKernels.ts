@@ -23,8 +23,17 @@ export interface EstimateKernelExports {
   offTile(c0: number, c1: number, c2: number, c3: number, d0: number, d1: number, d2: number, d3: number, rows: number, out: number): void;
   /** sweepLinearModel's freeRunSens over samples [k0, k1) (parameter block at P, see the .wat); returns the row count. */
   freeRunSens: FreeRunKernel;
+  /** sweepLinearModel's freeRunBasis with level classes (cls given; block P also holds uScale, m and the su and colU addresses). */
+  freeRunBasis: FreeRunKernel;
   /** sweepLinearModel's freeRunValues over samples [k0, k1) (the same arguments; jac unused). */
   freeRunValues: FreeRunKernel;
+  /** idx[k] = position of time[k+1] − time[k] in the table of distinct intervals (bitwise), k in [k0, k1); the table size or −1 past cap. */
+  intervalIndex(time: number, k0: number, k1: number, idx: number, table: number, cap: number): number;
+  /** The effect columns of sweepLinearModel's freeRunEffects for samples [k0, k1) (blocks P and E, see the .wat). */
+  freeRunEffects(
+    P: number, E: number, k0: number, k1: number, row: number, i: number, w: number,
+    jac: number, input: number, cls: number, levels: number, time: number, idx: number, qs: number,
+  ): void;
 }
 
 /** A free-run kernel: block P, samples [k0, k1), rows so far, buffers and series addresses (0 = absent). */

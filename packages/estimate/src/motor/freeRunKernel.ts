@@ -15,11 +15,15 @@ export const kernelRuns = { count: 0 };
 /** Largest kernel memory a run asks for (the loader keeps up to this much between calls). */
 const MAX_BYTES = 64 * 2 ** 20;
 
+/** Most distinct sample intervals of a run with effect columns (more: the JavaScript loops run). */
+const MAX_INTERVALS = 64;
+
 /** Doubles of the parameter block (`estimateKernels.wat`, freeRunSens). */
 const BLOCK_DOUBLES = 96;
 
 /**
- * A uniform free run [k0, k1) through the WebAssembly kernels `freeRunSens` / `freeRunValues`
+ * A uniform free run [k0, k1) through the WebAssembly kernels `freeRunSens`, `freeRunBasis` (level
+ * classes fitted) or `freeRunValues`
  * (internal; called by `sweepLinearModel` in place of its `freeRun`). The chunk buffers, the state
  * and the series are copied into the kernel's memory, the run goes in blocks of `RUN_BLOCK`
  * samples with the chunk accumulated at the same rows as `freeRun` does (the chunk sums by the
@@ -27,14 +31,24 @@ const BLOCK_DOUBLES = 96;
  * the written residual series are copied back, so `b`, `s.outI`/`s.outW` and `b.acc` end as the
  * JavaScript run leaves them, to the bit (the kernels do its operations in its order).
  *
- * @returns false, having changed nothing, where the kernel does not apply (effect columns, a
- *   fitted input basis, a short run) or cannot run; the caller then runs the JavaScript loops
+ * With effect columns (the score pass, both channels present) the kernel `freeRunEffects` adds
+ * them after each block as sweepLinearModel's `freeRunEffects` does; the factor e^{−h/τ} of each
+ * distinct interval h is computed here with Math.exp (kernels keep to exactly rounded operations).
+ *
+ * @returns false, having changed nothing, where the kernel does not apply (a fitted sine basis,
+ *   effect columns without both channels, a short run, more than `MAX_INTERVALS` distinct
+ *   intervals with effect columns) or cannot run; the caller then runs the JavaScript loops
  */
 export function freeRunInKernel(b: SweepBuffers, s: SweepSpec, k0: number, k1: number): boolean {
-  if (!useKernels.on || b.effects !== null || k1 - k0 < KERNEL_MIN_SAMPLES || b.r.length !== b.st) return false;
+  if (!useKernels.on || k1 - k0 < KERNEL_MIN_SAMPLES || b.r.length !== b.st) return false;
   const sens = b.wantJ;
   // The kernels read the input as levels[cls[k]] or input[k]; a fitted sine basis stays in JavaScript.
-  if (s.m > 0 && (sens || s.cls === null)) return false;
+  const m = s.m;
+  if (m > 0 && (s.cls === null || b.su.length < 2 * m || s.colU.length < m)) return false;
+  const basis = sens && m > 0;
+  // Effect columns (written only with a Jacobian): with both channels (else freeRunEffects takes its generic rows).
+  const ef = sens ? b.effects : null;
+  if (ef !== null && (s.mi === null || s.mw === null || s.time.length < s.n)) return false;
   const n = s.n, st = b.st, jac = b.jac, cls = s.cls;
   const mi = s.mi, mw = s.mw, outI = s.outI, outW = s.outW;
   if (k1 > n || (mi !== null && mi.length < n) || (mw !== null && mw.length < n) || (outI !== null && outI.length < n) || (outW !== null && outW.length < n)) return false;
@@ -51,15 +65,39 @@ export function freeRunInKernel(b: SweepBuffers, s: SweepSpec, k0: number, k1: n
   const IN = cls === null ? end : 0; end += cls === null ? n : 0;
   const LV = cls === null ? 0 : end; end += cls === null ? 0 : s.levels.length;
   const CL = cls === null ? 0 : end; end += cls === null ? 0 : (n + 1) >> 1;
+  // Effect columns: their block, the time base, each sample's interval index and the distinct intervals with e^{−h/τ}.
+  const SU = end; end += basis ? 2 * m : 0;
+  const CU = end; end += basis ? m : 0;
+  const E = end; end += ef === null ? 0 : 24;
+  const T0 = end; end += ef === null ? 0 : n;
+  const IX = end; end += ef === null ? 0 : (n + 1) >> 1;
+  const HT = end; end += ef === null ? 0 : MAX_INTERVALS;
+  const QS = end; end += ef === null ? 0 : MAX_INTERVALS;
   if (8 * end > MAX_BYTES) return false;
   const room = estimateKernel.room(8 * end);
   if (room === null) return false;
   const ex = room.exports, mem = room.f64;
+  if (ef !== null) {
+    // e^{−h/τ} of each distinct interval h = time[k+1] − time[k] (JavaScript's Math.exp, as freeRunEffects takes it).
+    mem.set(s.time.subarray(0, n), T0);
+    const count = ex.intervalIndex(8 * T0, k0, k1 < n ? k1 : n - 1, 8 * IX, 8 * HT, MAX_INTERVALS);
+    if (count < 0) return false;
+    const tau = ef.tau;
+    for (let j = 0; j < count; j++) { const h = mem[HT + j]!; mem[QS + j] = Math.exp(-h / tau); }
+    mem.set(ef.state.subarray(0, 10), E);
+    mem[E + 10] = tau; mem[E + 11] = s.R / ef.copper; mem[E + 12] = s.R;
+    for (let c = 0; c < 4; c++) mem[E + 13 + c] = (ef.col + c) * st;
+  }
   mem.set(b.slot.subarray(0, 56), P);
   mem.set(b.x.subarray(0, 16), P + 56);
   mem[P + 72] = s.sI; mem[P + 73] = s.sW; mem[P + 74] = s.off; mem[P + 75] = s.tau;
   mem[P + 76] = s.tcW; mem[P + 77] = s.ldW; mem[P + 78] = s.offW; mem[P + 79] = n;
   for (let j = 0; j < 9; j++) mem[P + 80 + j] = s.col[j]!;
+  if (basis) {
+    mem[P + 89] = s.uScale; mem[P + 90] = m; mem[P + 91] = 8 * SU; mem[P + 92] = 8 * CU;
+    mem.set(b.su.subarray(0, 2 * m), SU);
+    for (let j = 0; j < m; j++) mem[CU + j] = s.colU[j]!;
+  }
   mem.set(b.r, R0);
   if (sens) mem.set(jac, J0);
   if (mi !== null) mem.set(mi.subarray(0, n), MI);
@@ -71,7 +109,7 @@ export function freeRunInKernel(b: SweepBuffers, s: SweepSpec, k0: number, k1: n
   }
   kernelRuns.count++;
   const acc = b.acc;
-  const run = sens ? ex.freeRunSens : ex.freeRunValues;
+  const run = basis ? ex.freeRunBasis : sens ? ex.freeRunSens : ex.freeRunValues;
   let rows = b.rows;
   for (let k = k0; k < k1; k += RUN_BLOCK) {
     const e = k + RUN_BLOCK < k1 ? k + RUN_BLOCK : k1;
@@ -84,8 +122,12 @@ export function freeRunInKernel(b: SweepBuffers, s: SweepSpec, k0: number, k1: n
       }
       rows = 0;
     }
+    const row0 = rows, i0 = mem[P + 56]!, w0 = mem[P + 57]!;
     rows = run(8 * P, k, e, rows, 8 * R0, 8 * J0, 8 * MI, 8 * MW, 8 * OI, 8 * OW, 8 * IN, 8 * CL, 8 * LV);
+    if (ef !== null) ex.freeRunEffects(8 * P, 8 * E, k, e, row0, i0, w0, 8 * J0, 8 * IN, 8 * CL, 8 * LV, 8 * T0, 8 * IX, 8 * QS);
   }
+  if (ef !== null) ef.state.set(mem.subarray(E, E + 10));
+  if (basis) b.su.set(mem.subarray(SU, SU + 2 * m));
   b.rows = rows;
   b.x.set(mem.subarray(P + 56, P + 72));
   b.r.set(mem.subarray(R0, R0 + st));
