@@ -345,6 +345,33 @@ function freeRunEffects() {
   emit('  )');
 }
 
+/** sum(x, rows) → Σ x[k] and spread(x, rows, m) → Σ (x[k] − m)², in order (fitMotor's channel summaries). */
+function channelSums() {
+  emit('  ;; sum: Σ x[k] over rows doubles at x, in order.');
+  emit('  (func (export "sum") (param $x i32) (param $rows i32) (result f64)');
+  emit('    (local $pe i32) (local $s f64)');
+  emit('    (local.set $pe (i32.add (local.get $x) (i32.shl (local.get $rows) (i32.const 3))))');
+  emit('    (block $done');
+  emit('      (br_if $done (i32.ge_u (local.get $x) (local.get $pe)))');
+  emit('      (loop $next');
+  emit('        (local.set $s (f64.add (local.get $s) (f64.load (local.get $x))))');
+  emit('        (local.set $x (i32.add (local.get $x) (i32.const 8)))');
+  emit('        (br_if $next (i32.lt_u (local.get $x) (local.get $pe)))))');
+  emit('    (local.get $s))');
+  emit('  ;; spread: Σ (x[k] − m)·(x[k] − m) over rows doubles at x, in order.');
+  emit('  (func (export "spread") (param $x i32) (param $rows i32) (param $m f64) (result f64)');
+  emit('    (local $pe i32) (local $d f64) (local $s f64)');
+  emit('    (local.set $pe (i32.add (local.get $x) (i32.shl (local.get $rows) (i32.const 3))))');
+  emit('    (block $done');
+  emit('      (br_if $done (i32.ge_u (local.get $x) (local.get $pe)))');
+  emit('      (loop $next');
+  emit('        (local.set $d (f64.sub (f64.load (local.get $x)) (local.get $m)))');
+  emit(`        ${acc('s', 'd', 'd')}`);
+  emit('        (local.set $x (i32.add (local.get $x) (i32.const 8)))');
+  emit('        (br_if $next (i32.lt_u (local.get $x) (local.get $pe)))))');
+  emit('    (local.get $s))');
+}
+
 sumSquares();
 for (let p = 1; p <= 8; p++) unrolled(p);
 diagonalTile();
@@ -354,6 +381,7 @@ freeRunPass('freeRunValues', false);
 freeRunPass('freeRunBasis', true, true);
 intervalIndex();
 freeRunEffects();
+channelSums();
 const section = BEGIN + lines.map((l) => l + '\n').join('') + END;
 
 const text = readFileSync(target, 'utf8');

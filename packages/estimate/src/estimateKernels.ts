@@ -6,6 +6,10 @@ import { wasm } from './estimateKernels.wasm.js';
  * the sweep's row buffers and the chunk sums work on the same memory. Addresses are in bytes.
  */
 export interface EstimateKernelExports {
+  /** Σ x[k] over `rows` doubles at `x`, in order. */
+  sum(x: number, rows: number): number;
+  /** Σ (x[k] − m)² over `rows` doubles at `x`, in order. */
+  spread(x: number, rows: number, m: number): number;
   /** Σ r[k]² over `rows` doubles at `r`, in order. */
   sumSquares(r: number, rows: number): number;
   /** `sumChunkUnrolled` for p = 1…8: columns of J `st` bytes apart, sums stored at `out`; returns rᵀr. */

@@ -1724,5 +1724,28 @@
     (f64.store offset=64 (local.get $E) (local.get $F))
     (f64.store offset=72 (local.get $E) (local.get $G))
   )
+  ;; sum: Σ x[k] over rows doubles at x, in order.
+  (func (export "sum") (param $x i32) (param $rows i32) (result f64)
+    (local $pe i32) (local $s f64)
+    (local.set $pe (i32.add (local.get $x) (i32.shl (local.get $rows) (i32.const 3))))
+    (block $done
+      (br_if $done (i32.ge_u (local.get $x) (local.get $pe)))
+      (loop $next
+        (local.set $s (f64.add (local.get $s) (f64.load (local.get $x))))
+        (local.set $x (i32.add (local.get $x) (i32.const 8)))
+        (br_if $next (i32.lt_u (local.get $x) (local.get $pe)))))
+    (local.get $s))
+  ;; spread: Σ (x[k] − m)·(x[k] − m) over rows doubles at x, in order.
+  (func (export "spread") (param $x i32) (param $rows i32) (param $m f64) (result f64)
+    (local $pe i32) (local $d f64) (local $s f64)
+    (local.set $pe (i32.add (local.get $x) (i32.shl (local.get $rows) (i32.const 3))))
+    (block $done
+      (br_if $done (i32.ge_u (local.get $x) (local.get $pe)))
+      (loop $next
+        (local.set $d (f64.sub (f64.load (local.get $x)) (local.get $m)))
+        (local.set $s (f64.add (local.get $s) (f64.mul (local.get $d) (local.get $d))))
+        (local.set $x (i32.add (local.get $x) (i32.const 8)))
+        (br_if $next (i32.lt_u (local.get $x) (local.get $pe)))))
+    (local.get $s))
   ;; generated kernels: end
 )

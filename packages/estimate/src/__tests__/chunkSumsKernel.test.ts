@@ -1,10 +1,14 @@
 import fc from 'fast-check';
-import { describe, expect, it } from 'vitest';
+import { afterEach, describe, expect, it } from 'vitest';
+import { estimateKernel, useKernels } from '../estimateKernels.js';
+import { channelSums, channelSumsScalar } from '../motor/channelSums.js';
 import { accumulateNormalEquations, addChunkSums } from '../solver/accumulateNormalEquations.js';
 import { createNormalEquations } from '../solver/createNormalEquations.js';
 import { sumChunkWasm, sumSquaresWasm } from '../solver/sumChunkKernel.js';
 import { sumChunkTiled } from '../solver/sumChunkTiled.js';
 import { sumChunkUnrolled } from '../solver/sumChunkUnrolled.js';
+
+afterEach(() => { useKernels.on = true; });
 
 /** Doubles of mixed sizes with, now and then, NaN, ±Infinity, −0, huge and subnormal values. */
 const value = fc.oneof(
@@ -96,5 +100,33 @@ describe('the WebAssembly chunk sums', () => {
         expect(Object.is(viaKernel.ssr, viaLoops.ssr)).toBe(true);
         expect(viaKernel.rows).toBe(viaLoops.rows);
       }), { numRuns: 100 });
+  });
+});
+
+describe('the WebAssembly channel sums of fitMotor\'s summaries', () => {
+  it('equal the JavaScript loops bit for bit (odd lengths, residuals of another length, non-finite values)', () => {
+    fc.assert(fc.property(
+      fc.array(value, { minLength: 0, maxLength: 900 }), fc.option(fc.array(value, { minLength: 0, maxLength: 900 })), fc.integer({ min: 0, max: 300 }),
+      (x, y, from) => {
+        const meas = Float64Array.from(x), res = y === null ? null : Float64Array.from(y);
+        const want = channelSumsScalar(meas, res, from);
+        const got = channelSums(meas, res, from);
+        expect(got.count).toBe(want.count);
+        expect(Object.is(got.spread, want.spread)).toBe(true);
+        expect(Object.is(got.squares, want.squares)).toBe(true);
+      }), { numRuns: 300 });
+  });
+
+  it('run the kernel on long channels (so the comparison above reaches it)', () => {
+    const meas = Float64Array.from({ length: 1000 }, (_, k) => Math.sin(k) + 0.1 * k);
+    useKernels.on = false;
+    const want = channelSums(meas, meas, 3);
+    useKernels.on = true;
+    const room = estimateKernel.room(8);
+    room!.f64.fill(0);
+    const got = channelSums(meas, meas, 3);
+    // The kernel left the series in its memory: it ran.
+    expect(room!.f64[0]).toBe(meas[3]);
+    expect(got).toEqual(want);
   });
 });
