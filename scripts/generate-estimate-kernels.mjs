@@ -54,48 +54,72 @@ function unrolled(p) {
   emit('    (local.get $s))');
 }
 
+/**
+ * The 4×4 tiles of sumChunkTiled with f64x2 lanes: each lane holds one JᵀJ entry and does exactly
+ * its scalar multiply and add (rounded as the scalar ones; no fused multiply-add), so the sums are
+ * the same bits while the instruction count halves (which matters most before V8 optimises the
+ * module). Pairs of columns are loaded into the two lanes, single columns splatted to both.
+ */
+const vacc = (name, x, y) => `(local.set $${name} (f64x2.add (local.get $${name}) (f64x2.mul (local.get $${x}) (local.get $${y}))))`;
+const pair = (a, b) => `(v128.load64_lane 1 (i32.add (local.get $${b}) (local.get $o)) (v128.load64_zero (i32.add (local.get $${a}) (local.get $o))))`;
+const splat = (a) => `(v128.load64_splat (i32.add (local.get $${a}) (local.get $o)))`;
+
 /** diagTile(r, c0, c1, c2, c3, rows, out) → rᵀr: the diagonal tile of sumChunkTiled (column addresses in bytes). */
 function diagonalTile() {
-  const entries = [];
-  for (let i = 0; i < 4; i++) for (let j = i; j < 4; j++) entries.push([`a${i}${j}`, `x${i}`, `x${j}`]);
-  for (let i = 0; i < 4; i++) entries.push([`g${i}`, `x${i}`, 'rk']);
-  entries.push(['s', 'rk', 'rk']);
   emit('  ;; diagTile: the diagonal 4×4 tile of sumChunkTiled over columns c0…c3: out = a00 a01 a02 a03 a11 a12 a13 a22 a23 a33 g0 g1 g2 g3 s; returns s.');
+  emit('  ;; Lanes: (a00 a01) (a02 a03) (a10 a11) (a12 a13) (a22 a23) (a32 a33) (g0 g1) (g2 g3); a10 and a32 are dropped.');
   emit('  (func (export "diagTile") (param $r i32) (param $c0 i32) (param $c1 i32) (param $c2 i32) (param $c3 i32) (param $rows i32) (param $out i32) (result f64)');
-  emit('    (local $o i32) (local $pe i32) (local $rk f64) (local $x0 f64) (local $x1 f64) (local $x2 f64) (local $x3 f64)');
-  for (const [name] of entries) emit(`    (local $${name} f64)`);
+  emit('    (local $o i32) (local $pe i32) (local $rk f64) (local $s f64)');
+  emit('    (local $x01 v128) (local $x23 v128) (local $x0 v128) (local $x1 v128) (local $x2 v128) (local $x3 v128) (local $rr v128)');
+  emit('    (local $a0L v128) (local $a0R v128) (local $a1L v128) (local $a1R v128) (local $a2R v128) (local $a3R v128) (local $g01 v128) (local $g23 v128)');
   emit('    (local.set $pe (i32.shl (local.get $rows) (i32.const 3)))');
   emit('    (block $done');
   emit('      (br_if $done (i32.ge_u (local.get $o) (local.get $pe)))');
   emit('      (loop $next');
   emit(`        (local.set $rk ${ld('(i32.add (local.get $r) (local.get $o))')})`);
-  for (let j = 0; j < 4; j++) emit(`        (local.set $x${j} ${ld(`(i32.add (local.get $c${j}) (local.get $o))`)})`);
-  for (const [name, x, y] of entries) emit(`        ${acc(name, x, y)}`);
+  emit('        (local.set $rr (f64x2.splat (local.get $rk)))');
+  emit(`        (local.set $x01 ${pair('c0', 'c1')})`);
+  emit(`        (local.set $x23 ${pair('c2', 'c3')})`);
+  for (let j = 0; j < 4; j++) emit(`        (local.set $x${j} ${splat(`c${j}`)})`);
+  emit(`        ${vacc('a0L', 'x0', 'x01')} ${vacc('a0R', 'x0', 'x23')}`);
+  emit(`        ${vacc('a1L', 'x1', 'x01')} ${vacc('a1R', 'x1', 'x23')}`);
+  emit(`        ${vacc('a2R', 'x2', 'x23')} ${vacc('a3R', 'x3', 'x23')}`);
+  emit(`        ${vacc('g01', 'x01', 'rr')} ${vacc('g23', 'x23', 'rr')}`);
+  emit(`        ${acc('s', 'rk', 'rk')}`);
   emit('        (local.set $o (i32.add (local.get $o) (i32.const 8)))');
   emit('        (br_if $next (i32.lt_u (local.get $o) (local.get $pe)))))');
-  entries.forEach(([name], m) => emit(`    (f64.store offset=${8 * m} (local.get $out) (local.get $${name}))`));
+  emit('    (v128.store offset=0 align=8 (local.get $out) (local.get $a0L))');
+  emit('    (v128.store offset=16 align=8 (local.get $out) (local.get $a0R))');
+  emit('    (f64.store offset=32 (local.get $out) (f64x2.extract_lane 1 (local.get $a1L)))');
+  emit('    (v128.store offset=40 align=8 (local.get $out) (local.get $a1R))');
+  emit('    (v128.store offset=56 align=8 (local.get $out) (local.get $a2R))');
+  emit('    (f64.store offset=72 (local.get $out) (f64x2.extract_lane 1 (local.get $a3R)))');
+  emit('    (v128.store offset=80 align=8 (local.get $out) (local.get $g01))');
+  emit('    (v128.store offset=96 align=8 (local.get $out) (local.get $g23))');
+  emit('    (f64.store offset=112 (local.get $out) (local.get $s))');
   emit('    (local.get $s))');
 }
 
 /** offTile(c0…c3, d0…d3, rows, out): the off-diagonal tile of sumChunkTiled, out = a00 a01 … a33 row by row. */
 function offDiagonalTile() {
-  const entries = [];
-  for (let i = 0; i < 4; i++) for (let j = 0; j < 4; j++) entries.push([`a${i}${j}`, `x${i}`, `y${j}`]);
   emit('  ;; offTile: the off-diagonal 4×4 tile of sumChunkTiled, columns c0…c3 against d0…d3: out = a00 a01 … a33 row by row.');
+  emit('  ;; Lanes: (ai0 ai1) and (ai2 ai3) for each row i.');
   emit('  (func (export "offTile") (param $c0 i32) (param $c1 i32) (param $c2 i32) (param $c3 i32) (param $d0 i32) (param $d1 i32) (param $d2 i32) (param $d3 i32) (param $rows i32) (param $out i32)');
-  emit('    (local $o i32) (local $pe i32)');
-  for (let j = 0; j < 4; j++) emit(`    (local $x${j} f64) (local $y${j} f64)`);
-  for (const [name] of entries) emit(`    (local $${name} f64)`);
+  emit('    (local $o i32) (local $pe i32) (local $y01 v128) (local $y23 v128) (local $x v128)');
+  for (let i = 0; i < 4; i++) emit(`    (local $a${i}L v128) (local $a${i}R v128)`);
   emit('    (local.set $pe (i32.shl (local.get $rows) (i32.const 3)))');
   emit('    (block $done');
   emit('      (br_if $done (i32.ge_u (local.get $o) (local.get $pe)))');
   emit('      (loop $next');
-  for (let j = 0; j < 4; j++) emit(`        (local.set $x${j} ${ld(`(i32.add (local.get $c${j}) (local.get $o))`)})`);
-  for (let j = 0; j < 4; j++) emit(`        (local.set $y${j} ${ld(`(i32.add (local.get $d${j}) (local.get $o))`)})`);
-  for (const [name, x, y] of entries) emit(`        ${acc(name, x, y)}`);
+  emit(`        (local.set $y01 ${pair('d0', 'd1')})`);
+  emit(`        (local.set $y23 ${pair('d2', 'd3')})`);
+  for (let i = 0; i < 4; i++) emit(`        (local.set $x ${splat(`c${i}`)}) ${vacc(`a${i}L`, 'x', 'y01')} ${vacc(`a${i}R`, 'x', 'y23')}`);
   emit('        (local.set $o (i32.add (local.get $o) (i32.const 8)))');
   emit('        (br_if $next (i32.lt_u (local.get $o) (local.get $pe)))))');
-  entries.forEach(([name], m) => emit(`    (f64.store offset=${8 * m} (local.get $out) (local.get $${name}))`));
+  for (let i = 0; i < 4; i++) {
+    emit(`    (v128.store offset=${32 * i} align=8 (local.get $out) (local.get $a${i}L))`);
+    emit(`    (v128.store offset=${32 * i + 16} align=8 (local.get $out) (local.get $a${i}R))`);
+  }
   emit('  )');
 }
 
