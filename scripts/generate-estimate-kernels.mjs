@@ -70,7 +70,7 @@ function diagonalTile() {
   emit('  ;; Lanes: (a00 a01) (a02 a03) (a10 a11) (a12 a13) (a22 a23) (a32 a33) (g0 g1) (g2 g3); a10 and a32 are dropped.');
   emit('  (func (export "diagTile") (param $r i32) (param $c0 i32) (param $c1 i32) (param $c2 i32) (param $c3 i32) (param $rows i32) (param $out i32) (result f64)');
   emit('    (local $o i32) (local $pe i32) (local $rk f64) (local $s f64)');
-  emit('    (local $x01 v128) (local $x23 v128) (local $x0 v128) (local $x1 v128) (local $x2 v128) (local $x3 v128) (local $rr v128)');
+  emit('    (local $x01 v128) (local $x23 v128) (local $x v128) (local $rr v128)');
   emit('    (local $a0L v128) (local $a0R v128) (local $a1L v128) (local $a1R v128) (local $a2R v128) (local $a3R v128) (local $g01 v128) (local $g23 v128)');
   emit('    (local.set $pe (i32.shl (local.get $rows) (i32.const 3)))');
   emit('    (block $done');
@@ -80,10 +80,11 @@ function diagonalTile() {
   emit('        (local.set $rr (f64x2.splat (local.get $rk)))');
   emit(`        (local.set $x01 ${pair('c0', 'c1')})`);
   emit(`        (local.set $x23 ${pair('c2', 'c3')})`);
-  for (let j = 0; j < 4; j++) emit(`        (local.set $x${j} ${splat(`c${j}`)})`);
-  emit(`        ${vacc('a0L', 'x0', 'x01')} ${vacc('a0R', 'x0', 'x23')}`);
-  emit(`        ${vacc('a1L', 'x1', 'x01')} ${vacc('a1R', 'x1', 'x23')}`);
-  emit(`        ${vacc('a2R', 'x2', 'x23')} ${vacc('a3R', 'x3', 'x23')}`);
+  // One splat register reused row by row (fewer live vectors than registers, also for V8's baseline compiler).
+  emit(`        (local.set $x ${splat('c0')}) ${vacc('a0L', 'x', 'x01')} ${vacc('a0R', 'x', 'x23')}`);
+  emit(`        (local.set $x ${splat('c1')}) ${vacc('a1L', 'x', 'x01')} ${vacc('a1R', 'x', 'x23')}`);
+  emit(`        (local.set $x ${splat('c2')}) ${vacc('a2R', 'x', 'x23')}`);
+  emit(`        (local.set $x ${splat('c3')}) ${vacc('a3R', 'x', 'x23')}`);
   emit(`        ${vacc('g01', 'x01', 'rr')} ${vacc('g23', 'x23', 'rr')}`);
   emit(`        ${acc('s', 'rk', 'rk')}`);
   emit('        (local.set $o (i32.add (local.get $o) (i32.const 8)))');
@@ -396,13 +397,140 @@ function channelSums() {
   emit('    (local.get $s))');
 }
 
+/**
+ * freeRunSens / freeRunBasis with f64x2 lanes: the state pairs (i, ω), (∂i, ∂ω) of each slot and of
+ * the load response each sit in one vector (the block's state layout already pairs them), and
+ * every recursion runs with lane 0 doing the current row's scalar operations and lane 1 the speed
+ * row's, term by term in the JavaScript order (each lane rounds as the scalar operation does; no
+ * fused multiply-add), so the results are the same bits with about half the instructions.
+ */
+function freeRunPassSimd(name, basis) {
+  const mk2 = (a, b) => `(f64x2.replace_lane 1 (f64x2.splat ${a}) ${b})`;
+  const vmul = (a, b) => `(f64x2.mul ${a} ${b})`;
+  const vsum = (...t) => t.reduce((a, b) => `(f64x2.add ${a} ${b})`);
+  const lane = (v, j) => `(f64x2.splat (f64x2.extract_lane ${j} ${v}))`;
+  const what = basis ? 'freeRunBasis with level classes (freeRunSens plus the sensitivities to the class levels)' : 'freeRunSens (rows, Jacobian rows and sensitivities)';
+  emit(`  ;; ${name}: samples [k0, k1) of sweepLinearModel's ${what}, the`);
+  emit('  ;; parameter block at P (doubles: [Φ Γv Γτ, slot derivatives] 56, state 16, sI sW off tau tcW ldW offW n, column');
+  emit('  ;; offsets of the 6 slots, Tc, load and offset 9). Series addresses 0 = absent; the input is levels[cls[k]] when');
+  emit('  ;; cls is given (i32), else input[k]. Row buffers r and jac (columns at jac + 8·column offset); returns the row count.');
+  emit('  ;; Lanes: each (current, speed) pair of the state in one f64x2, lane 0 the current\'s operations, lane 1 the speed\'s.');
+  if (basis) emit('  ;; Block P also holds uScale, m, the address of su (2m) and of colU (m column offsets as doubles); cls must be given.');
+  emit(`  (func (export "${name}") (param $P i32) (param $k0 i32) (param $k1 i32) (param $rows i32) (param $r i32) (param $jac i32)`);
+  emit('    (param $mi i32) (param $mw i32) (param $outI i32) (param $outW i32) (param $input i32) (param $cls i32) (param $levels i32) (result i32)');
+  emit('    (local $k i32) (local $kb i32) (local $rb i32) (local $n i32) (local $v f64) (local $res f64) (local $i f64) (local $w f64)');
+  const f64Locals = [...MATS, ...SCALARS, 'xt1', 'xt2', 'tcI', 'ldI', 'tcW', 'ldW', 'offI'];
+  for (const q of SLOTS) for (let e = 0; e < 8; e++) f64Locals.push(`${q}${e}`);
+  for (const l of f64Locals) emit(`    (local $${l} f64)`);
+  const vLocals = ['P1', 'P2', 'GV', 'TV', 'XTV', 'SC', 'TC', 'LD', 'X', 'T', 'vi', 'vw', 'vv', 'z0', 'z1', 'YT', 'YL'];
+  for (const q of SLOTS) vLocals.push(`S${q}`, `Y${q}`, `Q01${q}`, `Q23${q}`, `Q45${q}`, `QT${q}`);
+  for (const l of vLocals) emit(`    (local $${l} v128)`);
+  for (const c of COLS) emit(`    (local $${c} i32)`);
+  if (basis) {
+    for (const l of ['uScale', 'uI', 'uW', 'ui', 'uw', 'ev']) emit(`    (local $${l} f64)`);
+    emit('    (local $m i32) (local $su i32) (local $colU i32) (local $j i32) (local $q i32) (local $ps i32)');
+  }
+  MATS.forEach((m, e) => emit(blockF64(m, e)));
+  SLOTS.forEach((q, j) => { for (let e = 0; e < 8; e++) emit(blockF64(`${q}${e}`, 8 + 8 * j + e)); });
+  SCALARS.forEach((x, e) => emit(blockF64(x, 72 + e)));
+  emit(`    ${put('n', '(i32.trunc_f64_s (local.get $nf))')}`);
+  COLS.forEach((c, e) => emit(`    ${put(c, `(i32.add (local.get $jac) (i32.shl (i32.trunc_f64_s (f64.load offset=${8 * (80 + e)} (local.get $P))) (i32.const 3)))`)}`));
+  emit(`    ${put('tcI', mul(g('tcWs'), g('sI')))} ${put('ldI', mul(g('ldWs'), g('sI')))} ${put('tcW', mul(g('tcWs'), g('sW')))}`);
+  emit(`    ${put('ldW', mul(g('ldWs'), g('sW')))} ${put('offI', mul(g('offWs'), g('sI')))}`);
+  emit(`    ${put('xt1', mul(g('t1'), g('tau')))} ${put('xt2', mul(g('t2'), g('tau')))}`);
+  emit(`    ${put('P1', mk2(g('p11'), g('p21')))} ${put('P2', mk2(g('p12'), g('p22')))} ${put('GV', mk2(g('g1'), g('g2')))}`);
+  emit(`    ${put('TV', mk2(g('t1'), g('t2')))} ${put('XTV', mk2(g('xt1'), g('xt2')))} ${put('SC', mk2(g('sI'), g('sW')))}`);
+  emit(`    ${put('TC', mk2(g('tcI'), g('tcW')))} ${put('LD', mk2(g('ldI'), g('ldW')))}`);
+  for (const q of SLOTS) {
+    emit(`    ${put(`Q01${q}`, mk2(g(`${q}0`), g(`${q}2`)))} ${put(`Q23${q}`, mk2(g(`${q}1`), g(`${q}3`)))} ${put(`Q45${q}`, mk2(g(`${q}4`), g(`${q}5`)))}`);
+    emit(`    ${put(`QT${q}`, mk2(mul(g(`${q}6`), g('tau')), mul(g(`${q}7`), g('tau'))))}`);
+  }
+  // State pairs at P + 56: (i, ω), then (∂i, ∂ω) of each slot, then the load response.
+  emit(`    ${put('X', `(v128.load offset=${8 * 56} align=8 (local.get $P))`)}`);
+  SLOTS.forEach((q, j) => emit(`    ${put(`S${q}`, `(v128.load offset=${8 * (58 + 2 * j)} align=8 (local.get $P))`)}`));
+  emit(`    ${put('T', `(v128.load offset=${8 * 70} align=8 (local.get $P))`)}`);
+  if (basis) {
+    emit(blockF64('uScale', 89));
+    emit(`    ${put('m', `(i32.trunc_f64_s (f64.load offset=${8 * 90} (local.get $P)))`)}`);
+    emit(`    ${put('su', `(i32.trunc_f64_s (f64.load offset=${8 * 91} (local.get $P)))`)}`);
+    emit(`    ${put('colU', `(i32.trunc_f64_s (f64.load offset=${8 * 92} (local.get $P)))`)}`);
+    emit(`    ${put('uI', mul(g('uScale'), g('sI')))} ${put('uW', mul(g('uScale'), g('sW')))}`);
+  }
+  emit('    (local.set $k (local.get $k0))');
+  emit('    (block $done');
+  emit('      (br_if $done (i32.ge_s (local.get $k) (local.get $k1)))');
+  emit('      (loop $next');
+  emit(`        ${put('kb', '(i32.shl (local.get $k) (i32.const 3))')}`);
+  if (basis) {
+    emit(`        ${put('q', '(i32.load (i32.add (local.get $cls) (i32.shl (local.get $k) (i32.const 2))))')}`);
+    emit(`        ${put('v', '(f64.load (i32.add (local.get $levels) (i32.shl (local.get $q) (i32.const 3))))')}`);
+  } else {
+    emit('        (if (local.get $cls)');
+    emit(`          (then ${put('v', '(f64.load (i32.add (local.get $levels) (i32.shl (i32.load (i32.add (local.get $cls) (i32.shl (local.get $k) (i32.const 2)))) (i32.const 3))))')})`);
+    emit(`          (else ${put('v', `(f64.load ${at('input', 'kb')})`)}))`);
+  }
+  emit(`        ${put('i', '(f64x2.extract_lane 0 (local.get $X))')} ${put('w', '(f64x2.extract_lane 1 (local.get $X))')}`);
+  // Jacobian entries of both rows: (∂i·sI, ∂ω·sW) per slot, (ti·tcI, tw·tcW), (ti·ldI, tw·ldW).
+  for (const q of SLOTS) emit(`        ${put(`Y${q}`, vmul(g(`S${q}`), g('SC')))}`);
+  emit(`        ${put('YT', vmul(g('T'), g('TC')))} ${put('YL', vmul(g('T'), g('LD')))}`);
+  for (const [ch, meas, out, sc, ln] of [['i', 'mi', 'outI', 'sI', 0], ['w', 'mw', 'outW', 'sW', 1]]) {
+    emit(`        (if (local.get $${meas}) (then`);
+    const model = ch === 'i' ? sum(g('i'), g('off')) : g('w');
+    emit(`          ${put('res', `(f64.sub ${model} (f64.load ${at(meas, 'kb')}))`)}`);
+    emit(`          (if (local.get $${out}) (then (f64.store ${at(out, 'kb')} (local.get $res))))`);
+    emit(`          ${put('rb', '(i32.shl (local.get $rows) (i32.const 3))')}`);
+    emit(`          (f64.store ${at('r', 'rb')} ${mul(g('res'), g(sc))})`);
+    SLOTS.forEach((q, j) => emit(`          (v128.store64_lane ${ln} ${at(COLS[j], 'rb')} (local.get $Y${q}))`));
+    emit(`          (v128.store64_lane ${ln} ${at('jT', 'rb')} (local.get $YT))`);
+    emit(`          (v128.store64_lane ${ln} ${at('jLd', 'rb')} (local.get $YL))`);
+    emit(`          (f64.store ${at('jO', 'rb')} ${ch === 'i' ? g('offI') : '(f64.const 0)'})`);
+    if (basis) {
+      emit('          (local.set $j (i32.const 0))');
+      emit('          (block $uDone (loop $uNext');
+      emit('            (br_if $uDone (i32.ge_s (local.get $j) (local.get $m)))');
+      emit('            (f64.store (i32.add (local.get $jac) (i32.shl (i32.add (i32.trunc_f64_s (f64.load (i32.add (local.get $colU) (i32.shl (local.get $j) (i32.const 3))))) (local.get $rows)) (i32.const 3)))');
+      emit(`              ${mul(`(f64.load offset=${ch === 'i' ? 0 : 8} (i32.add (local.get $su) (i32.shl (local.get $j) (i32.const 4))))`, g(ch === 'i' ? 'uI' : 'uW'))})`);
+      emit('            (local.set $j (i32.add (local.get $j) (i32.const 1)))');
+      emit('            (br $uNext)))');
+    }
+    emit('          (local.set $rows (i32.add (local.get $rows) (i32.const 1)))))');
+  }
+  emit('        (br_if $done (i32.ge_s (i32.add (local.get $k) (i32.const 1)) (local.get $n)))');
+  emit(`        ${put('vi', '(f64x2.splat (local.get $i))')} ${put('vw', '(f64x2.splat (local.get $w))')} ${put('vv', '(f64x2.splat (local.get $v))')}`);
+  for (const q of SLOTS) {
+    emit(`        ${put('z0', lane(g(`S${q}`), 0))} ${put('z1', lane(g(`S${q}`), 1))}`);
+    emit(`        ${put(`S${q}`, vsum(vmul(g('P1'), g('z0')), vmul(g('P2'), g('z1')), vmul(g(`Q01${q}`), g('vi')), vmul(g(`Q23${q}`), g('vw')), vmul(g(`Q45${q}`), g('vv')), g(`QT${q}`)))}`);
+  }
+  emit(`        ${put('z0', lane(g('T'), 0))} ${put('z1', lane(g('T'), 1))}`);
+  emit(`        ${put('T', vsum(vmul(g('P1'), g('z0')), vmul(g('P2'), g('z1')), g('TV')))}`);
+  if (basis) {
+    emit('        (local.set $j (i32.const 0))');
+    emit('        (block $sDone (loop $sNext');
+    emit('          (br_if $sDone (i32.ge_s (local.get $j) (local.get $m)))');
+    emit(`          ${put('ps', '(i32.add (local.get $su) (i32.shl (local.get $j) (i32.const 4)))')}`);
+    emit(`          ${put('ui', '(f64.load (local.get $ps))')} ${put('uw', '(f64.load offset=8 (local.get $ps))')}`);
+    emit(`          ${put('ev', '(select (f64.const 1) (f64.const 0) (i32.eq (local.get $j) (local.get $q)))')}`);
+    emit(`          (f64.store (local.get $ps) ${sum(mul(g('p11'), g('ui')), mul(g('p12'), g('uw')), mul(g('g1'), g('ev')))})`);
+    emit(`          (f64.store offset=8 (local.get $ps) ${sum(mul(g('p21'), g('ui')), mul(g('p22'), g('uw')), mul(g('g2'), g('ev')))})`);
+    emit('          (local.set $j (i32.add (local.get $j) (i32.const 1)))');
+    emit('          (br $sNext)))');
+  }
+  emit(`        ${put('X', vsum(vmul(g('P1'), g('vi')), vmul(g('P2'), g('vw')), vmul(g('GV'), g('vv')), g('XTV')))}`);
+  emit('        (local.set $k (i32.add (local.get $k) (i32.const 1)))');
+  emit('        (br_if $next (i32.lt_s (local.get $k) (local.get $k1)))))');
+  emit(`    (v128.store offset=${8 * 56} align=8 (local.get $P) (local.get $X))`);
+  SLOTS.forEach((q, j) => emit(`    (v128.store offset=${8 * (58 + 2 * j)} align=8 (local.get $P) (local.get $S${q}))`));
+  emit(`    (v128.store offset=${8 * 70} align=8 (local.get $P) (local.get $T))`);
+  emit('    (local.get $rows))');
+}
+
 sumSquares();
 for (let p = 1; p <= 8; p++) unrolled(p);
 diagonalTile();
 offDiagonalTile();
-freeRunPass('freeRunSens', true);
+freeRunPassSimd('freeRunSens', false);
 freeRunPass('freeRunValues', false);
-freeRunPass('freeRunBasis', true, true);
+freeRunPassSimd('freeRunBasis', true);
 intervalIndex();
 freeRunEffects();
 channelSums();
