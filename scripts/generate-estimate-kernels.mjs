@@ -2,8 +2,10 @@
 /**
  * Writes packages/estimate/src/estimateKernels.wat: the chunk sums of the normal equations (the
  * WebAssembly forms of solver/sumChunkUnrolled.ts and the 4×4 tiles of solver/sumChunkTiled.ts)
- * and the free-run passes of motor/sweepLinearModel.ts (freeRunSens, freeRunValues). Their text
- * is mechanical (one local per JᵀJ entry, one recursion per sensitivity slot), so it is written by
+ * the free-run passes of motor/sweepLinearModel.ts (freeRunSens, freeRunBasis with level classes,
+ * freeRunValues, the effect columns of freeRunEffects with the table of sample intervals they
+ * need) and the channel sums of fitMotor's summaries. Their text is mechanical (one local per JᵀJ
+ * entry, one recursion per sensitivity slot), so it is written by
  * this script between the markers `;; generated kernels: begin` and `;; generated kernels: end`;
  * the file's header is written by hand. The .wat is the committed source that
  * scripts/assemble-kernels.mjs assembles. `--check` exits 1 when the section differs.
@@ -155,62 +157,29 @@ const SCALARS = ['sI', 'sW', 'off', 'tau', 'tcWs', 'ldWs', 'offWs', 'nf'];
 const COLS = ['jA', 'jB', 'jC', 'jD', 'jE', 'jF', 'jT', 'jLd', 'jO'];
 const SLOTS = ['a', 'b', 'c', 'd', 'e', 'f'];
 const MATS = ['p11', 'p12', 'p21', 'p22', 'g1', 'g2', 't1', 't2'];
-const STATE = ['i', 'w', ...SLOTS.flatMap((q) => [`${q}i`, `${q}w`]), 'ti', 'tw'];
 
-function freeRunPass(name, sens, basis = false) {
-  const what = basis ? 'freeRunBasis with level classes (freeRunSens plus the sensitivities to the class levels)' : sens ? 'freeRunSens (rows, Jacobian rows and sensitivities)' : 'freeRunValues (residual rows only)';
-  emit(`  ;; ${name}: samples [k0, k1) of sweepLinearModel's ${what}, the`);
+function freeRunValues() {
+  emit("  ;; freeRunValues: samples [k0, k1) of sweepLinearModel's freeRunValues (residual rows only), the");
   emit('  ;; parameter block at P (doubles: [Φ Γv Γτ, slot derivatives] 56, state 16, sI sW off tau tcW ldW offW n, column');
   emit('  ;; offsets of the 6 slots, Tc, load and offset 9). Series addresses 0 = absent; the input is levels[cls[k]] when');
   emit('  ;; cls is given (i32), else input[k]. Row buffers r and jac (columns at jac + 8·column offset); returns the row count.');
-  if (basis) emit('  ;; Block P also holds uScale, m, the address of su (2m) and of colU (m column offsets as doubles); cls must be given.');
-  emit(`  (func (export "${name}") (param $P i32) (param $k0 i32) (param $k1 i32) (param $rows i32) (param $r i32) (param $jac i32)`);
+  emit('  (func (export "freeRunValues") (param $P i32) (param $k0 i32) (param $k1 i32) (param $rows i32) (param $r i32) (param $jac i32)');
   emit('    (param $mi i32) (param $mw i32) (param $outI i32) (param $outW i32) (param $input i32) (param $cls i32) (param $levels i32) (result i32)');
   emit('    (local $k i32) (local $kb i32) (local $rb i32) (local $n i32) (local $v f64) (local $res f64) (local $z f64) (local $iNext f64)');
-  const f64Locals = [...MATS, ...(sens ? STATE : ['i', 'w']), ...SCALARS, 'xt1', 'xt2'];
-  if (sens) {
-    for (const q of SLOTS) for (let e = 0; e < 8; e++) f64Locals.push(`${q}${e}`);
-    for (const q of SLOTS) f64Locals.push(`${q}t`, `${q}t2`);
-    f64Locals.push('tcI', 'ldI', 'tcW', 'ldW', 'offI');
-  }
-  if (basis) {
-    f64Locals.push('uScale', 'uI', 'uW', 'ui', 'uw', 'ev');
-    emit('    (local $m i32) (local $su i32) (local $colU i32) (local $j i32) (local $q i32) (local $ps i32)');
-  }
-  for (const l of f64Locals) emit(`    (local $${l} f64)`);
-  if (sens) for (const c of COLS) emit(`    (local $${c} i32)`);
+  for (const l of [...MATS, 'i', 'w', ...SCALARS, 'xt1', 'xt2']) emit(`    (local $${l} f64)`);
   MATS.forEach((m, e) => emit(blockF64(m, e)));
-  if (sens) SLOTS.forEach((q, j) => { for (let e = 0; e < 8; e++) emit(blockF64(`${q}${e}`, 8 + 8 * j + e)); });
-  (sens ? STATE : ['i', 'w']).forEach((x, e) => emit(blockF64(x, 56 + e)));
+  ['i', 'w'].forEach((x, e) => emit(blockF64(x, 56 + e)));
   SCALARS.forEach((x, e) => emit(blockF64(x, 72 + e)));
   emit(`    ${put('n', '(i32.trunc_f64_s (local.get $nf))')}`);
-  if (sens) {
-    COLS.forEach((c, e) => emit(`    ${put(c, `(i32.add (local.get $jac) (i32.shl (i32.trunc_f64_s (f64.load offset=${8 * (80 + e)} (local.get $P))) (i32.const 3)))`)}`));
-    emit(`    ${put('tcI', mul(g('tcWs'), g('sI')))} ${put('ldI', mul(g('ldWs'), g('sI')))} ${put('tcW', mul(g('tcWs'), g('sW')))}`);
-    emit(`    ${put('ldW', mul(g('ldWs'), g('sW')))} ${put('offI', mul(g('offWs'), g('sI')))}`);
-    for (const q of SLOTS) emit(`    ${put(`${q}t`, mul(g(`${q}6`), g('tau')))} ${put(`${q}t2`, mul(g(`${q}7`), g('tau')))}`);
-  }
-  if (basis) {
-    emit(blockF64('uScale', 89));
-    emit(`    ${put('m', `(i32.trunc_f64_s (f64.load offset=${8 * 90} (local.get $P)))`)}`);
-    emit(`    ${put('su', `(i32.trunc_f64_s (f64.load offset=${8 * 91} (local.get $P)))`)}`);
-    emit(`    ${put('colU', `(i32.trunc_f64_s (f64.load offset=${8 * 92} (local.get $P)))`)}`);
-    emit(`    ${put('uI', mul(g('uScale'), g('sI')))} ${put('uW', mul(g('uScale'), g('sW')))}`);
-  }
   emit(`    ${put('xt1', mul(g('t1'), g('tau')))} ${put('xt2', mul(g('t2'), g('tau')))}`);
   emit('    (local.set $k (local.get $k0))');
   emit('    (block $done');
   emit('      (br_if $done (i32.ge_s (local.get $k) (local.get $k1)))');
   emit('      (loop $next');
   emit(`        ${put('kb', '(i32.shl (local.get $k) (i32.const 3))')}`);
-  if (basis) {
-    emit(`        ${put('q', '(i32.load (i32.add (local.get $cls) (i32.shl (local.get $k) (i32.const 2))))')}`);
-    emit(`        ${put('v', '(f64.load (i32.add (local.get $levels) (i32.shl (local.get $q) (i32.const 3))))')}`);
-  } else {
-    emit('        (if (local.get $cls)');
-    emit(`          (then ${put('v', '(f64.load (i32.add (local.get $levels) (i32.shl (i32.load (i32.add (local.get $cls) (i32.shl (local.get $k) (i32.const 2)))) (i32.const 3))))')})`);
-    emit(`          (else ${put('v', `(f64.load ${at('input', 'kb')})`)}))`);
-  }
+  emit('        (if (local.get $cls)');
+  emit(`          (then ${put('v', '(f64.load (i32.add (local.get $levels) (i32.shl (i32.load (i32.add (local.get $cls) (i32.shl (local.get $k) (i32.const 2)))) (i32.const 3))))')})`);
+  emit(`          (else ${put('v', `(f64.load ${at('input', 'kb')})`)}))`);
   for (const [ch, meas, out, sc] of [['i', 'mi', 'outI', 'sI'], ['w', 'mw', 'outW', 'sW']]) {
     emit(`        (if (local.get $${meas}) (then`);
     const model = ch === 'i' ? sum(g('i'), g('off')) : g('w');
@@ -218,54 +187,15 @@ function freeRunPass(name, sens, basis = false) {
     emit(`          (if (local.get $${out}) (then (f64.store ${at(out, 'kb')} (local.get $res))))`);
     emit(`          ${put('rb', '(i32.shl (local.get $rows) (i32.const 3))')}`);
     emit(`          (f64.store ${at('r', 'rb')} ${mul(g('res'), g(sc))})`);
-    if (sens) {
-      SLOTS.forEach((q, j) => emit(`          (f64.store ${at(COLS[j], 'rb')} ${mul(g(`${q}${ch}`), g(sc))})`));
-      emit(`          (f64.store ${at('jT', 'rb')} ${mul(g(`t${ch}`), g(ch === 'i' ? 'tcI' : 'tcW'))})`);
-      emit(`          (f64.store ${at('jLd', 'rb')} ${mul(g(`t${ch}`), g(ch === 'i' ? 'ldI' : 'ldW'))})`);
-      emit(`          (f64.store ${at('jO', 'rb')} ${ch === 'i' ? g('offI') : '(f64.const 0)'})`);
-    }
-    if (basis) {
-      // jac[colU[j] + row] = su[2j + ch]·u, j < m.
-      emit('          (local.set $j (i32.const 0))');
-      emit('          (block $uDone (loop $uNext');
-      emit('            (br_if $uDone (i32.ge_s (local.get $j) (local.get $m)))');
-      emit('            (f64.store (i32.add (local.get $jac) (i32.shl (i32.add (i32.trunc_f64_s (f64.load (i32.add (local.get $colU) (i32.shl (local.get $j) (i32.const 3))))) (local.get $rows)) (i32.const 3)))');
-      emit(`              ${mul(`(f64.load offset=${ch === 'i' ? 0 : 8} (i32.add (local.get $su) (i32.shl (local.get $j) (i32.const 4))))`, g(ch === 'i' ? 'uI' : 'uW'))})`);
-      emit('            (local.set $j (i32.add (local.get $j) (i32.const 1)))');
-      emit('            (br $uNext)))');
-    }
     emit('          (local.set $rows (i32.add (local.get $rows) (i32.const 1)))))');
   }
   emit('        (br_if $done (i32.ge_s (i32.add (local.get $k) (i32.const 1)) (local.get $n)))');
-  if (sens) {
-    for (const q of SLOTS) {
-      emit(`        ${put('z', g(`${q}i`))}`);
-      emit(`        ${put(`${q}i`, sum(mul(g('p11'), g('z')), mul(g('p12'), g(`${q}w`)), mul(g(`${q}0`), g('i')), mul(g(`${q}1`), g('w')), mul(g(`${q}4`), g('v')), g(`${q}t`)))}`);
-      emit(`        ${put(`${q}w`, sum(mul(g('p21'), g('z')), mul(g('p22'), g(`${q}w`)), mul(g(`${q}2`), g('i')), mul(g(`${q}3`), g('w')), mul(g(`${q}5`), g('v')), g(`${q}t2`)))}`);
-    }
-    emit(`        ${put('z', g('ti'))}`);
-    emit(`        ${put('ti', sum(mul(g('p11'), g('z')), mul(g('p12'), g('tw')), g('t1')))}`);
-    emit(`        ${put('tw', sum(mul(g('p21'), g('z')), mul(g('p22'), g('tw')), g('t2')))}`);
-  }
-  if (basis) {
-    // su[2j], su[2j+1] ← Φ·(su[2j], su[2j+1]) + Γv·e, e = 1 for the sample's class, else 0.
-    emit('        (local.set $j (i32.const 0))');
-    emit('        (block $sDone (loop $sNext');
-    emit('          (br_if $sDone (i32.ge_s (local.get $j) (local.get $m)))');
-    emit(`          ${put('ps', '(i32.add (local.get $su) (i32.shl (local.get $j) (i32.const 4)))')}`);
-    emit(`          ${put('ui', '(f64.load (local.get $ps))')} ${put('uw', '(f64.load offset=8 (local.get $ps))')}`);
-    emit(`          ${put('ev', '(select (f64.const 1) (f64.const 0) (i32.eq (local.get $j) (local.get $q)))')}`);
-    emit(`          (f64.store (local.get $ps) ${sum(mul(g('p11'), g('ui')), mul(g('p12'), g('uw')), mul(g('g1'), g('ev')))})`);
-    emit(`          (f64.store offset=8 (local.get $ps) ${sum(mul(g('p21'), g('ui')), mul(g('p22'), g('uw')), mul(g('g2'), g('ev')))})`);
-    emit('          (local.set $j (i32.add (local.get $j) (i32.const 1)))');
-    emit('          (br $sNext)))');
-  }
   emit(`        ${put('iNext', sum(mul(g('p11'), g('i')), mul(g('p12'), g('w')), mul(g('g1'), g('v')), g('xt1')))}`);
   emit(`        ${put('w', sum(mul(g('p21'), g('i')), mul(g('p22'), g('w')), mul(g('g2'), g('v')), g('xt2')))}`);
   emit(`        ${put('i', g('iNext'))}`);
   emit('        (local.set $k (i32.add (local.get $k) (i32.const 1)))');
   emit('        (br_if $next (i32.lt_s (local.get $k) (local.get $k1)))))');
-  (sens ? STATE : ['i', 'w']).forEach((x, e) => emit(`    (f64.store offset=${8 * (56 + e)} (local.get $P) (local.get $${x}))`));
+  ['i', 'w'].forEach((x, e) => emit(`    (f64.store offset=${8 * (56 + e)} (local.get $P) (local.get $${x}))`));
   emit('    (local.get $rows))');
 }
 
@@ -275,10 +205,11 @@ function freeRunPass(name, sens, basis = false) {
  * extends; −1 when more than `cap` distinct values occur (the caller then runs JavaScript).
  */
 function intervalIndex() {
+  const tab = (j) => `(i64.load (i32.add (local.get $table) (i32.shl (local.get $${j}) (i32.const 3))))`;
   emit('  ;; intervalIndex: idx[k] = position of h = time[k+1] − time[k] in the table of distinct intervals (bitwise), k in [k0, k1);');
-  emit('  ;; returns the table size, or −1 past cap entries.');
+  emit('  ;; returns the table size, or −1 past cap entries. The last two intervals seen are tried first (logged times alternate).');
   emit('  (func (export "intervalIndex") (param $time i32) (param $k0 i32) (param $k1 i32) (param $idx i32) (param $table i32) (param $cap i32) (result i32)');
-  emit('    (local $k i32) (local $j i32) (local $count i32) (local $h f64) (local $bits i64) (local $pt i32)');
+  emit('    (local $k i32) (local $j i32) (local $count i32) (local $last i32) (local $prev i32) (local $h f64) (local $bits i64) (local $pt i32)');
   emit('    (local.set $k (local.get $k0))');
   emit('    (block $done');
   emit('      (br_if $done (i32.ge_s (local.get $k) (local.get $k1)))');
@@ -286,17 +217,23 @@ function intervalIndex() {
   emit('        (local.set $pt (i32.add (local.get $time) (i32.shl (local.get $k) (i32.const 3))))');
   emit('        (local.set $h (f64.sub (f64.load offset=8 (local.get $pt)) (f64.load (local.get $pt))))');
   emit('        (local.set $bits (i64.reinterpret_f64 (local.get $h)))');
-  emit('        (local.set $j (i32.const 0))');
   emit('        (block $found');
-  emit('          (loop $search');
-  emit('            (br_if $found (i32.ge_s (local.get $j) (local.get $count)))');
-  emit('            (br_if $found (i64.eq (local.get $bits) (i64.load (i32.add (local.get $table) (i32.shl (local.get $j) (i32.const 3))))))');
-  emit('            (local.set $j (i32.add (local.get $j) (i32.const 1)))');
-  emit('            (br $search)))');
-  emit('        (if (i32.eq (local.get $j) (local.get $count)) (then');
-  emit('          (if (i32.ge_s (local.get $count) (local.get $cap)) (then (return (i32.const -1))))');
-  emit('          (i64.store (i32.add (local.get $table) (i32.shl (local.get $j) (i32.const 3))) (local.get $bits))');
-  emit('          (local.set $count (i32.add (local.get $count) (i32.const 1)))))');
+  emit('          (local.set $j (local.get $last))');
+  emit(`          (br_if $found (i32.and (i32.lt_s (local.get $j) (local.get $count)) (i64.eq (local.get $bits) ${tab('j')})))`);
+  emit('          (local.set $j (local.get $prev))');
+  emit(`          (br_if $found (i32.and (i32.lt_s (local.get $j) (local.get $count)) (i64.eq (local.get $bits) ${tab('j')})))`);
+  emit('          (local.set $j (i32.const 0))');
+  emit('          (block $searched');
+  emit('            (loop $search');
+  emit('              (br_if $searched (i32.ge_s (local.get $j) (local.get $count)))');
+  emit(`              (br_if $searched (i64.eq (local.get $bits) ${tab('j')}))`);
+  emit('              (local.set $j (i32.add (local.get $j) (i32.const 1)))');
+  emit('              (br $search)))');
+  emit('          (if (i32.eq (local.get $j) (local.get $count)) (then');
+  emit('            (if (i32.ge_s (local.get $count) (local.get $cap)) (then (return (i32.const -1))))');
+  emit(`            (i64.store (i32.add (local.get $table) (i32.shl (local.get $j) (i32.const 3))) (local.get $bits))`);
+  emit('            (local.set $count (i32.add (local.get $count) (i32.const 1))))))');
+  emit('        (if (i32.ne (local.get $j) (local.get $last)) (then (local.set $prev (local.get $last)) (local.set $last (local.get $j))))');
   emit('        (i32.store (i32.add (local.get $idx) (i32.shl (local.get $k) (i32.const 2))) (local.get $j))');
   emit('        (local.set $k (i32.add (local.get $k) (i32.const 1)))');
   emit('        (br_if $next (i32.lt_s (local.get $k) (local.get $k1)))))');
@@ -529,7 +466,7 @@ for (let p = 1; p <= 8; p++) unrolled(p);
 diagonalTile();
 offDiagonalTile();
 freeRunPassSimd('freeRunSens', false);
-freeRunPass('freeRunValues', false);
+freeRunValues();
 freeRunPassSimd('freeRunBasis', true);
 intervalIndex();
 freeRunEffects();

@@ -1537,9 +1537,9 @@
     (v128.store offset=560 align=8 (local.get $P) (local.get $T))
     (local.get $rows))
   ;; intervalIndex: idx[k] = position of h = time[k+1] − time[k] in the table of distinct intervals (bitwise), k in [k0, k1);
-  ;; returns the table size, or −1 past cap entries.
+  ;; returns the table size, or −1 past cap entries. The last two intervals seen are tried first (logged times alternate).
   (func (export "intervalIndex") (param $time i32) (param $k0 i32) (param $k1 i32) (param $idx i32) (param $table i32) (param $cap i32) (result i32)
-    (local $k i32) (local $j i32) (local $count i32) (local $h f64) (local $bits i64) (local $pt i32)
+    (local $k i32) (local $j i32) (local $count i32) (local $last i32) (local $prev i32) (local $h f64) (local $bits i64) (local $pt i32)
     (local.set $k (local.get $k0))
     (block $done
       (br_if $done (i32.ge_s (local.get $k) (local.get $k1)))
@@ -1547,17 +1547,23 @@
         (local.set $pt (i32.add (local.get $time) (i32.shl (local.get $k) (i32.const 3))))
         (local.set $h (f64.sub (f64.load offset=8 (local.get $pt)) (f64.load (local.get $pt))))
         (local.set $bits (i64.reinterpret_f64 (local.get $h)))
-        (local.set $j (i32.const 0))
         (block $found
-          (loop $search
-            (br_if $found (i32.ge_s (local.get $j) (local.get $count)))
-            (br_if $found (i64.eq (local.get $bits) (i64.load (i32.add (local.get $table) (i32.shl (local.get $j) (i32.const 3))))))
-            (local.set $j (i32.add (local.get $j) (i32.const 1)))
-            (br $search)))
-        (if (i32.eq (local.get $j) (local.get $count)) (then
-          (if (i32.ge_s (local.get $count) (local.get $cap)) (then (return (i32.const -1))))
-          (i64.store (i32.add (local.get $table) (i32.shl (local.get $j) (i32.const 3))) (local.get $bits))
-          (local.set $count (i32.add (local.get $count) (i32.const 1)))))
+          (local.set $j (local.get $last))
+          (br_if $found (i32.and (i32.lt_s (local.get $j) (local.get $count)) (i64.eq (local.get $bits) (i64.load (i32.add (local.get $table) (i32.shl (local.get $j) (i32.const 3)))))))
+          (local.set $j (local.get $prev))
+          (br_if $found (i32.and (i32.lt_s (local.get $j) (local.get $count)) (i64.eq (local.get $bits) (i64.load (i32.add (local.get $table) (i32.shl (local.get $j) (i32.const 3)))))))
+          (local.set $j (i32.const 0))
+          (block $searched
+            (loop $search
+              (br_if $searched (i32.ge_s (local.get $j) (local.get $count)))
+              (br_if $searched (i64.eq (local.get $bits) (i64.load (i32.add (local.get $table) (i32.shl (local.get $j) (i32.const 3))))))
+              (local.set $j (i32.add (local.get $j) (i32.const 1)))
+              (br $search)))
+          (if (i32.eq (local.get $j) (local.get $count)) (then
+            (if (i32.ge_s (local.get $count) (local.get $cap)) (then (return (i32.const -1))))
+            (i64.store (i32.add (local.get $table) (i32.shl (local.get $j) (i32.const 3))) (local.get $bits))
+            (local.set $count (i32.add (local.get $count) (i32.const 1))))))
+        (if (i32.ne (local.get $j) (local.get $last)) (then (local.set $prev (local.get $last)) (local.set $last (local.get $j))))
         (i32.store (i32.add (local.get $idx) (i32.shl (local.get $k) (i32.const 2))) (local.get $j))
         (local.set $k (i32.add (local.get $k) (i32.const 1)))
         (br_if $next (i32.lt_s (local.get $k) (local.get $k1)))))

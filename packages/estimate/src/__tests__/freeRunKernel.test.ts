@@ -129,6 +129,17 @@ describe('the WebAssembly free-run passes', () => {
     expect(freeRunInKernel(short.b, short.s, 0, short.s.n)).toBe(false);
     useKernels.on = false;
     expect(freeRunInKernel(b, s, 0, s.n)).toBe(false);
+    useKernels.on = true;
+    // Effect columns on a time base with more distinct intervals than the kernel tabulates: declined.
+    const jittery = setUp({ ...c, effects: true });
+    for (let k = 1; k < jittery.s.n; k++) jittery.s.time[k] = jittery.s.time[k - 1]! + 1e-4 * (1 + k / 1e4);
+    const before = Float64Array.from(jittery.b.jac);
+    expect(freeRunInKernel(jittery.b, jittery.s, 0, jittery.s.n)).toBe(false);
+    expect(firstDifference(jittery.b.jac, before)).toBe(-1);
+    expect(jittery.b.rows).toBe(0);
+    // With few distinct intervals it takes the run.
+    const regular = setUp({ ...c, effects: true });
+    expect(freeRunInKernel(regular.b, regular.s, 0, regular.s.n)).toBe(true);
   });
 
   it('give the same fit and score tests, to the bit, as the JavaScript loops (locked rotor, step and prbs of an invented motor)', () => {
