@@ -54,3 +54,20 @@ export const estimateKernel = createKernel<EstimateKernelExports>(wasm);
  * run the JavaScript loops, the reference the kernels are compared with; nothing else changes it.
  */
 export const useKernels = { on: true };
+
+/**
+ * Which part of the kernel's memory holds series kept between calls (by `freeRunInKernel`): from
+ * the double index `keptFrom` up, valid while `keptBy` is the keeper's record (internal).
+ */
+export const kernelMemory: { keptBy: object | null; keptFrom: number } = { keptBy: null, keptFrom: Infinity };
+
+/**
+ * To be called by every writer of the kernel's memory other than the keeper, with the end (double
+ * index, exclusive) of what it is about to write: kept series it would overwrite are given up.
+ */
+export function claimKernelMemory(end: number): void {
+  if (end > kernelMemory.keptFrom) {
+    kernelMemory.keptBy = null;
+    kernelMemory.keptFrom = Infinity;
+  }
+}

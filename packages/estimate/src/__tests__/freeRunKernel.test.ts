@@ -13,6 +13,7 @@ import { KERNEL_MIN_SAMPLES, freeRunInKernel, kernelRuns } from '../motor/freeRu
 import { fitMotor, scoreMotorExtensions } from '../motor/fitMotor.js';
 import { sweepLinearModel } from '../motor/sweepLinearModel.js';
 import type { SweepBuffers, SweepSpec } from '../motor/sweepLinearModel.js';
+import { accumulateNormalEquations } from '../solver/accumulateNormalEquations.js';
 import { createNormalEquations } from '../solver/createNormalEquations.js';
 import { INVENTED_MOTORS, invented } from './motorFixtures.js';
 
@@ -140,6 +141,55 @@ describe('the WebAssembly free-run passes', () => {
     // With few distinct intervals it takes the run.
     const regular = setUp({ ...c, effects: true });
     expect(freeRunInKernel(regular.b, regular.s, 0, regular.s.n)).toBe(true);
+  });
+
+  it('keep the series between the sweeps of one problem only while nothing else wrote over them', () => {
+    fc.assert(fc.property(cases, fc.integer({ min: 0, max: 2 }), (c, between) => {
+      const js = setUp(c), wasm = setUp(c);
+      const sweepTwice = (x: { b: SweepBuffers; s: SweepSpec }, on: boolean): void => {
+        useKernels.on = on;
+        for (let rep = 0; rep < 2; rep++) {
+          if (x.b.wantJ) x.b.jac.fill(0);
+          x.b.rows = 0;
+          if (x.b.acc !== null) x.b.acc.high.fill(0);
+          sweepLinearModel(x.b, x.s);
+          // Between the sweeps: nothing, a small chunk sum (below the kept series) or a large one (over them).
+          if (on && between > 0) accumulateNormalEquations(createNormalEquations(3), new Float64Array(between === 1 ? 100 : 50_000).fill(1), new Float64Array(3 * (between === 1 ? 100 : 50_000)).fill(2), between === 1 ? 100 : 50_000);
+          // The second sweep at other measurements of the same arrays would be a caller's change: not done inside a problem.
+        }
+      };
+      sweepTwice(js, false);
+      sweepTwice(wasm, true);
+      expect(firstDifference(wasm.b.r, js.b.r)).toBe(-1);
+      expect(firstDifference(wasm.b.jac, js.b.jac)).toBe(-1);
+      expect(firstDifference(wasm.b.x, js.b.x)).toBe(-1);
+      expect(firstDifference(wasm.s.outI, js.s.outI)).toBe(-1);
+      expect(firstDifference(wasm.s.outW, js.s.outW)).toBe(-1);
+      if (js.b.acc !== null) expect(firstDifference(wasm.b.acc!.high, js.b.acc.high)).toBe(-1);
+    }), { numRuns: 60 });
+    // A new problem on arrays of the same identity but changed contents copies them again.
+    const c: Case = { n: 700, st: 1100, hasI: true, hasW: true, levels: false, keep: true, wantJ: false, acc: true, stuck: false, tied: false, effects: false, jitter: false, basis: false, odd: 0, seed: 9 };
+    const first = setUp(c);
+    sweepLinearModel(first.b, first.s);
+    const again = setUp(c);
+    again.s.mi = first.s.mi; again.s.mw = first.s.mw; again.s.input = first.s.input;
+    first.s.mi![5] = 123; first.s.input[7] = -4;
+    const reference = setUp(c);
+    reference.s.mi = first.s.mi; reference.s.mw = first.s.mw; reference.s.input = first.s.input;
+    sweepLinearModel(again.b, again.s);
+    useKernels.on = false;
+    sweepLinearModel(reference.b, reference.s);
+    expect(firstDifference(again.s.outI, reference.s.outI)).toBe(-1);
+    expect(firstDifference(again.b.acc!.high, reference.b.acc!.high)).toBe(-1);
+    // One problem's buffers serve all its recordings: a second recording (other arrays, same length) is copied in.
+    const two = (on: boolean): Float64Array => {
+      useKernels.on = on;
+      const rec1 = setUp(c), rec2 = setUp({ ...c, seed: 10 });
+      rec2.s.outI = rec1.s.outI; rec2.s.mw = rec1.s.mw; rec2.s.input = rec1.s.input; // only the current differs
+      for (const x of [rec1.s, rec2.s, rec1.s]) { rec1.b.rows = 0; sweepLinearModel(rec1.b, x); }
+      return Float64Array.from([...rec1.b.acc!.high, ...rec1.s.outI!]);
+    };
+    expect(firstDifference(two(true), two(false))).toBe(-1);
   });
 
   it('give the same fit and score tests, to the bit, as the JavaScript loops (locked rotor, step and prbs of an invented motor)', () => {

@@ -1,4 +1,4 @@
-import { estimateKernel, useKernels } from '../estimateKernels.js';
+import { claimKernelMemory, estimateKernel, useKernels } from '../estimateKernels.js';
 
 /** Sums of one channel's fit summary (internal; see `channelSums`). */
 export interface ChannelSums {
@@ -32,6 +32,7 @@ export function channelSums(meas: Float64Array, res: Float64Array | null, from: 
     const room = estimateKernel.room(8 * (count + nr));
     if (room !== null) {
       const mem = room.f64, ex = room.exports;
+      claimKernelMemory(count + nr);
       mem.set(meas.subarray(from), 0);
       if (nr > 0) mem.set(res!.subarray(from), count);
       const mean = ex.sum(0, count) / Math.max(count, 1);

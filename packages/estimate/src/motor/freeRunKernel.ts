@@ -1,4 +1,4 @@
-import { estimateKernel, useKernels } from '../estimateKernels.js';
+import { estimateKernel, kernelMemory, useKernels } from '../estimateKernels.js';
 import { addChunkSums } from '../solver/accumulateNormalEquations.js';
 import { SUMS_SCRATCH, sumChunkInKernel } from '../solver/sumChunkKernel.js';
 import type { SweepBuffers, SweepSpec } from './sweepLinearModel.js';
@@ -14,6 +14,27 @@ export const kernelRuns = { count: 0 };
 
 /** Largest kernel memory a run asks for (the loader keeps up to this much between calls). */
 const MAX_BYTES = 64 * 2 ** 20;
+
+/**
+ * The measured series and the input of the last run, left in the kernel's memory between the
+ * sweeps of one problem (one `createMotorProblem`, whose sweeps all run inside one library call with
+ * no caller code between them, so the arrays cannot change): valid while `kernelMemory.keptBy` is
+ * this record (any other writer of that part of the memory clears it, `claimKernelMemory`) and the
+ * buffers, the arrays (by identity) and the layout are the same. Weak references only: it keeps
+ * nothing alive.
+ */
+let keptSeries: {
+  exports: object; b: WeakRef<SweepBuffers>; n: number; MI: number; MW: number; IN: number; CL: number; end: number;
+  mi: WeakRef<Float64Array> | null; mw: WeakRef<Float64Array> | null; input: WeakRef<Float64Array> | null; cls: WeakRef<Int32Array> | null;
+} | null = null;
+
+function refOrNull<T extends object>(x: T | null): WeakRef<T> | null {
+  return x === null ? null : new WeakRef(x);
+}
+
+function derefOrNull<T extends object>(x: WeakRef<T> | null): T | null {
+  return x === null ? null : x.deref() ?? null;
+}
 
 /** Most distinct sample intervals of a run with effect columns (more: the JavaScript loops run). */
 const MAX_INTERVALS = 64;
@@ -53,18 +74,20 @@ export function freeRunInKernel(b: SweepBuffers, s: SweepSpec, k0: number, k1: n
   const mi = s.mi, mw = s.mw, outI = s.outI, outW = s.outW;
   if (k1 > n || (mi !== null && mi.length < n) || (mw !== null && mw.length < n) || (outI !== null && outI.length < n) || (outW !== null && outW.length < n)) return false;
   if (cls === null ? s.input.length < n : cls.length < n) return false;
-  // Layout (doubles): sums scratch, parameter block, r, jac, then the series.
+  // Layout (doubles): sums scratch, parameter block, r, jac, the measured series and the input (kept
+  // between the sweeps of one problem, see `keptSeries`), then the rest.
   const P = SUMS_SCRATCH;
   const R0 = P + BLOCK_DOUBLES;
   const J0 = R0 + st;
-  let end = J0 + (sens ? jac.length : 0);
+  let end = J0 + jac.length;
   const MI = mi === null ? 0 : end; end += mi === null ? 0 : n;
   const MW = mw === null ? 0 : end; end += mw === null ? 0 : n;
+  const IN = cls === null ? end : 0; end += cls === null ? n : 0;
+  const CL = cls === null ? 0 : end; end += cls === null ? 0 : (n + 1) >> 1;
+  const keptEnd = end;
+  const LV = cls === null ? 0 : end; end += cls === null ? 0 : s.levels.length;
   const OI = outI === null ? 0 : end; end += outI === null ? 0 : n;
   const OW = outW === null ? 0 : end; end += outW === null ? 0 : n;
-  const IN = cls === null ? end : 0; end += cls === null ? n : 0;
-  const LV = cls === null ? 0 : end; end += cls === null ? 0 : s.levels.length;
-  const CL = cls === null ? 0 : end; end += cls === null ? 0 : (n + 1) >> 1;
   // Effect columns: their block, the time base, each sample's interval index and the distinct intervals with e^{−h/τ}.
   const SU = end; end += basis ? 2 * m : 0;
   const CU = end; end += basis ? m : 0;
@@ -100,13 +123,23 @@ export function freeRunInKernel(b: SweepBuffers, s: SweepSpec, k0: number, k1: n
   }
   mem.set(b.r, R0);
   if (sens) mem.set(jac, J0);
-  if (mi !== null) mem.set(mi.subarray(0, n), MI);
-  if (mw !== null) mem.set(mw.subarray(0, n), MW);
-  if (cls === null) mem.set(s.input.subarray(0, n), IN);
-  else {
-    mem.set(s.levels, LV);
-    new Int32Array(mem.buffer, 8 * CL, n).set(cls.subarray(0, n));
+  const input = cls === null ? s.input : null;
+  const kept = keptSeries;
+  if (!(kernelMemory.keptBy === kept && kept !== null && kept.exports === ex && kept.b.deref() === b && kept.n === n && kept.MI === MI && kept.MW === MW &&
+    kept.IN === IN && kept.CL === CL && kept.end === keptEnd && derefOrNull(kept.mi) === mi && derefOrNull(kept.mw) === mw &&
+    derefOrNull(kept.input) === input && derefOrNull(kept.cls) === cls)) {
+    if (mi !== null) mem.set(mi.subarray(0, n), MI);
+    if (mw !== null) mem.set(mw.subarray(0, n), MW);
+    if (input !== null) mem.set(input.subarray(0, n), IN);
+    if (cls !== null) new Int32Array(mem.buffer, 8 * CL, n).set(cls.subarray(0, n));
+    keptSeries = {
+      exports: ex, b: new WeakRef(b), n, MI, MW, IN, CL, end: keptEnd,
+      mi: refOrNull(mi), mw: refOrNull(mw), input: refOrNull(input), cls: refOrNull(cls),
+    };
+    kernelMemory.keptBy = keptSeries;
+    kernelMemory.keptFrom = J0 + jac.length;
   }
+  if (cls !== null) mem.set(s.levels, LV);
   kernelRuns.count++;
   const acc = b.acc;
   const run = basis ? ex.freeRunBasis : sens ? ex.freeRunSens : ex.freeRunValues;

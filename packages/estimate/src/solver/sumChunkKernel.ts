@@ -1,4 +1,4 @@
-import { estimateKernel, useKernels } from '../estimateKernels.js';
+import { claimKernelMemory, estimateKernel, useKernels } from '../estimateKernels.js';
 import type { EstimateKernelExports } from '../estimateKernels.js';
 
 /** Doubles of scratch the chunk-sum kernels write their sums to (≥ 45, the p = 8 layout). */
@@ -97,6 +97,7 @@ export function sumChunkWasm(p: number, out: Float64Array, r: Float64Array, J: F
   const room = estimateKernel.room(8 * (SUMS_SCRATCH + rows * (p + 1)));
   if (room === null) return false;
   const mem = room.f64;
+  claimKernelMemory(SUMS_SCRATCH + rows * (p + 1));
   const rAt = SUMS_SCRATCH;
   mem.set(r.subarray(0, rows), rAt);
   const jAt = rAt + rows;
@@ -110,6 +111,7 @@ export function sumSquaresWasm(r: Float64Array, rows: number): number | null {
   if (!useKernels.on || !(rows >= 0 && r.length >= rows)) return null;
   const room = estimateKernel.room(8 * rows);
   if (room === null) return null;
+  claimKernelMemory(rows);
   room.f64.set(r.subarray(0, rows), 0);
   return room.exports.sumSquares(0, rows);
 }
