@@ -3,6 +3,7 @@ import { createNormalEquations } from '../solver/createNormalEquations.js';
 import { resetNormalEquations } from '../solver/resetNormalEquations.js';
 import { solveLeastSquares } from '../solver/solveLeastSquares.js';
 import { checkFitMotorOptions } from './checkFitMotorOptions.js';
+import { channelSums } from './channelSums.js';
 import { createMotorProblem } from './createMotorProblem.js';
 import type { Constants, ParameterLayout, RecordingSlots, ResidualSeries } from './createMotorProblem.js';
 import { guessConstants } from './guessConstants.js';
@@ -311,12 +312,7 @@ function fitPrepared(recs: PreparedRecording[], opts: ReturnType<typeof checkFit
       const channels: ChannelFit[] = [];
       const add = (ch: 'current' | 'speed', meas: Float64Array | null, res: Float64Array | null, noise: PreparedRecording['currentNoise']): void => {
         if (meas === null || noise === null) return;
-        let s = 0, m = 0, cnt = 0;
-        for (let k = r.first; k < meas.length; k++) { m += meas[k]!; cnt++; }
-        m /= Math.max(cnt, 1);
-        let v = 0;
-        for (let k = r.first; k < meas.length; k++) v += (meas[k]! - m) * (meas[k]! - m);
-        if (res !== null) for (let k = r.first; k < res.length; k++) s += res[k]! * res[k]!;
+        const { count: cnt, spread: v, squares: s } = channelSums(meas, res, r.first);
         const rms = res === null ? NaN : Math.sqrt(s / Math.max(cnt, 1));
         const sd = Math.sqrt(v / Math.max(cnt, 1));
         channels.push({

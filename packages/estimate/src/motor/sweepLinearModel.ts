@@ -1,6 +1,7 @@
 import { zohInto, zohSensitivitiesInto } from '@motorprint/model';
 import { accumulateNormalEquations } from '../solver/accumulateNormalEquations.js';
 import type { NormalEquations } from '../solver/types.js';
+import { freeRunInKernel, RUN_BLOCK } from './freeRunKernel.js';
 
 /**
  * Buffers of one motor problem, shared by every pass (internal). The Jacobian chunk is
@@ -351,15 +352,20 @@ function freeRunValues(b: SweepBuffers, s: SweepSpec, k0: number, k1: number): v
 }
 
 /** Samples per call of a run kernel (two rows each fit the chunk). */
-const BLOCK = 512;
+const BLOCK = RUN_BLOCK;
 
 /**
  * Dispatches a run to the variant for the wanted outputs, in blocks of `BLOCK` samples: each
  * kernel is then called many times per pass and optimised as a whole function with feedback for
  * every path (one call over 1e6 samples ran in on-stack-replacement code that deoptimised at the
- * loop exit on every pass).
+ * loop exit on every pass). Long runs of `freeRunSens` and `freeRunValues` go to their WebAssembly
+ * forms (`freeRunInKernel`, the same operations in the same order, the chunk accumulated at the
+ * same rows), which are as quick on their first pass as once warm; these loops stay the reference
+ * and the fallback.
  */
 function freeRun(b: SweepBuffers, s: SweepSpec, k0: number, k1: number): void {
+  // Long uniform runs without effect columns or a fitted basis: the same loops in WebAssembly.
+  if (freeRunInKernel(b, s, k0, k1)) return;
   for (let k = k0; k < k1; k += BLOCK) {
     const e = k + BLOCK < k1 ? k + BLOCK : k1;
     if (b.rows + 2 * (e - k) > b.st) flush(b);

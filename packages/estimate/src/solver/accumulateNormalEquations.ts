@@ -1,3 +1,4 @@
+import { KERNEL_MIN_ROWS, sumChunkWasm, sumSquaresWasm } from './sumChunkKernel.js';
 import { sumChunkTiled } from './sumChunkTiled.js';
 import { sumChunkUnrolled, UNROLLED_MAX_P } from './sumChunkUnrolled.js';
 import type { NormalEquations } from './types.js';
@@ -13,7 +14,10 @@ import type { NormalEquations } from './types.js';
  * The chunk sums take one pass over the rows for p ≤ 8 (every entry of JᵀJ, Jᵀr and rᵀr in its own
  * scalar local) and ⌈p/4⌉(⌈p/4⌉+1)/2 passes of 4×4 register tiles above that, instead of one pass
  * per entry. Each entry is still summed over the rows in order, so the results are the same bits
- * as one dot product per entry.
+ * as one dot product per entry. Chunks of at least `KERNEL_MIN_ROWS` rows are summed by the
+ * WebAssembly forms of those loops (solver/sumChunkKernel.ts: the same operations in the same
+ * order, so the same bits, and as quick on their first call as once warm); the JavaScript loops
+ * are the reference and the fallback.
  *
  * Kernel: allocates nothing, never throws; non-finite inputs propagate into the sums.
  *
@@ -46,24 +50,48 @@ export function accumulateNormalEquations(
 ): number {
   const p = acc.p;
   const chunk = acc.chunk;
-  const high = acc.high;
-  const low = acc.low;
-  const tri = (p * (p + 1)) / 2;
-  const last = tri + p;
+  const last = (p * (p + 1)) / 2 + p;
   let chunkSsr: number;
+  const kernel = rows >= KERNEL_MIN_ROWS;
   if (jacobian === null) {
-    let s = 0;
-    for (let k = 0; k < rows; k++) s += residuals[k]! * residuals[k]!;
+    let s = kernel ? sumSquaresWasm(residuals, rows) : null;
+    if (s === null) {
+      s = 0;
+      for (let k = 0; k < rows; k++) s += residuals[k]! * residuals[k]!;
+    }
     chunkSsr = s;
     chunk[last] = s;
+  } else if (kernel && sumChunkWasm(p, chunk, residuals, jacobian, rows, stride)) {
+    chunkSsr = chunk[last]!;
   } else if (p <= UNROLLED_MAX_P) {
     chunkSsr = sumChunkUnrolled(p, chunk, residuals, jacobian, rows, stride);
   } else {
     chunkSsr = sumChunkTiled(p, chunk, residuals, jacobian, rows, stride);
   }
+  addChunkSums(acc, jacobian !== null, rows);
+  return chunkSsr;
+}
+
+/**
+ * Adds the chunk sums in `acc.chunk` (the full layout with a Jacobian, else only rᵀr, its last
+ * entry) to the running sums with Neumaier's compensation, and updates `acc.JtJ`, `acc.Jtr`,
+ * `acc.ssr` and `acc.rows` (the second half of `accumulateNormalEquations`, for callers whose
+ * chunk sums come from a kernel; internal).
+ *
+ * @param acc - accumulator (modified in place)
+ * @param withJacobian - whether `acc.chunk` holds JᵀJ and Jᵀr too
+ * @param rows - number of rows in the chunk
+ */
+export function addChunkSums(acc: NormalEquations, withJacobian: boolean, rows: number): void {
+  const p = acc.p;
+  const chunk = acc.chunk;
+  const high = acc.high;
+  const low = acc.low;
+  const tri = (p * (p + 1)) / 2;
+  const last = tri + p;
   const compensated = acc.compensated;
   // Neumaier addition of the chunk totals (only rᵀr when no Jacobian was given).
-  for (let m = jacobian !== null ? 0 : last; m <= last; m++) {
+  for (let m = withJacobian ? 0 : last; m <= last; m++) {
     const x = chunk[m]!;
     const h = high[m]!;
     const sum = h + x;
@@ -75,7 +103,7 @@ export function accumulateNormalEquations(
   }
   acc.ssr = high[last]! + low[last]!;
   acc.rows += rows;
-  if (jacobian !== null) {
+  if (withJacobian) {
     const JtJ = acc.JtJ;
     const Jtr = acc.Jtr;
     let t = 0;
@@ -92,5 +120,4 @@ export function accumulateNormalEquations(
       t++;
     }
   }
-  return chunkSsr;
 }
