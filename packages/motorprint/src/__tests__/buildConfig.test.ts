@@ -7,6 +7,7 @@
  * check reads that bundle where the build has run (CI builds on install). The WebAssembly kernels'
  * binaries (NAME.wasm.ts) must be what their text (NAME.wat) assembles to.
  */
+import { spawnSync } from 'node:child_process';
 import { createRequire } from 'node:module';
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
@@ -104,5 +105,11 @@ describe('the build configuration', () => {
       expect(existsSync(target), `${target} is missing: run pnpm build`).toBe(true);
       expect(readFileSync(target, 'utf8'), `${target} is out of date: run pnpm build`).toBe(script.assembledText(wabt, wat));
     }
+  });
+  it("has the generated section of estimate's kernel text as its generator writes it", () => {
+    // scripts/generate-estimate-kernels.mjs --check exits 1 (and says so) when the .wat has drifted.
+    const run = spawnSync(process.execPath, [join(repoRoot, 'scripts', 'generate-estimate-kernels.mjs'), '--check'], { encoding: 'utf8' });
+    expect(run.stderr).toBe('');
+    expect(run.status).toBe(0);
   });
 });
