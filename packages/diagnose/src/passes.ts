@@ -14,6 +14,7 @@
  */
 import { createKernel } from '@motorprint/model/kernels';
 import type { KernelRoom } from '@motorprint/model/kernels';
+import { firstNotFinite } from './internal.js';
 import { wasm } from './scanKernels.wasm.js';
 
 interface ScanExports {
@@ -29,6 +30,14 @@ interface ScanExports {
   olsLagOne(px: number, py: number, n: number, intercept: number, slope: number, all: number, out: number): void;
   finiteRange(pt: number, pr: number, n: number, out: number): void;
   meanSquares(pv: number, n: number, out: number): void;
+  signRows(pw: number, pr: number, n: number, dead: number, all: number, ps: number, py: number, prows: number, out: number): number;
+  lagOneSums(py: number, ps: number, prows: number, m: number, c: number, g: number, out: number): void;
+  restRows(pv: number, vLimit: number, po: number, oLimit: number, hasOther: number, n: number, pidx: number): number;
+  delaySteps(pv: number, pr: number, n: number, finite: number, psteps: number, pkept: number, out: number): void;
+  increments(pa: number, pb: number, n: number, pda: number, pdb: number, out: number): void;
+  sumInto(pa: number, pb: number, pout: number, n: number): number;
+  centralDifferences(pw: number, n: number, h2: number, pacc: number, out: number): void;
+  signWithDeadBand(pw: number, n: number, band: number, ps: number): void;
 }
 
 const kernel = createKernel<ScanExports>(wasm);
@@ -383,4 +392,237 @@ export function meanSquares(v: Float64Array, useKernel?: boolean): { mean: numbe
   let ss = 0;
   for (let k = 0; k < n; k++) ss += (v[k]! - mean) * (v[k]! - mean);
   return { mean, ss };
+}
+
+// ---------------------------------------------------------------------------------------------
+// detectResidualCoulomb
+
+/** The rows of `detectResidualCoulomb` (see there) and their lag-one sums. */
+export interface CoulombRows {
+  /** Rows with residual and speed finite, and how many of them are moving forward, backward, or still. */
+  m: number; pos: number; neg: number; rest: number;
+  /** s = sgn(speed) with the dead band, and the residual, on those rows (length m). */
+  s: Float64Array; y: Float64Array;
+  /** The rows' indices, or null when every row is kept. */
+  rows: Int32Array | null;
+  /** Σ e_j² and Σ e_j·e_{j−1} over consecutive rows, e_j = y_j − c − g·s_j. */
+  lagOne(c: number, g: number): [number, number];
+}
+
+/** The rows and signs of `detectResidualCoulomb` (speed and residual of one length). */
+export function coulombRows(speed: Float64Array, residual: Float64Array, dead: number, useKernel?: boolean): CoulombRows {
+  const n = speed.length;
+  if (wanted(n, useKernel)) {
+    const r = resident([speed, residual], n, 2 * n + Math.ceil(n / 2));
+    if (r !== null) {
+      const { exports: k, f64 } = r.room;
+      const [pw, pr] = r.at as [number, number];
+      const all = k.firstNotFinite(pr, n) < 0 && k.firstNotFinite(pw, n) < 0;
+      const sAt = r.free, yAt = r.free + n, rowsAt = 8 * (r.free + 2 * n);
+      const m = k.signRows(pw, pr, n, dead, all ? 1 : 0, 8 * sAt, 8 * yAt, rowsAt, 0);
+      const pos = f64[0]!, neg = f64[1]!, rest = f64[2]!;
+      const py = all ? pr : 8 * yAt;
+      return {
+        m, pos, neg, rest,
+        s: f64.slice(sAt, sAt + m),
+        y: all ? residual.subarray(0, m) : f64.slice(yAt, yAt + m),
+        rows: all ? null : new Int32Array(f64.buffer, rowsAt, m).slice(),
+        lagOne: (c, g) => { k.lagOneSums(py, 8 * sAt, all ? -1 : rowsAt, m, c, g, 0); return [f64[0]!, f64[1]!]; },
+      };
+    }
+  }
+  // (Every row finite, the usual case: the rows are 0…n − 1 and y is the residual itself.)
+  const all = firstNotFinite(residual) < 0 && firstNotFinite(speed) < 0;
+  const rows = all ? null : new Int32Array(n);
+  const sAll = new Float64Array(n);
+  const yAll = all ? residual : new Float64Array(n);
+  let m = 0, pos = 0, neg = 0, rest = 0;
+  for (let k = 0; k < n; k++) {
+    const r = residual[k]!, w = speed[k]!;
+    if (!all) {
+      if (!Number.isFinite(r) || !Number.isFinite(w)) continue;
+      rows![m] = k;
+      yAll[m] = r;
+    }
+    if (w > dead) { pos++; sAll[m] = 1; } else if (w < -dead) { neg++; sAll[m] = -1; } else rest++;
+    m++;
+  }
+  const s = sAll.subarray(0, m);
+  const y = yAll.subarray(0, m);
+  return { m, pos, neg, rest, s, y, rows: rows === null ? null : rows.subarray(0, m), lagOne: (c, g) => lagOneSums(y, s, rows, c, g) };
+}
+
+/**
+ * Σ e_j² and Σ e_j·e_{j−1} over consecutive rows (rows null: all are), e_j = y_j − c − g·s_j (each residual formed once
+ * and reused as the previous one: the same number the formula gives again).
+ */
+function lagOneSums(y: Float64Array, s: Float64Array, rows: Int32Array | null, c: number, g: number): [number, number] {
+  const m = y.length;
+  let ss = 0, s1 = 0, prev = 0;
+  for (let j = 0; j < m; j++) {
+    const e = y[j]! - c - g * s[j]!;
+    ss += e * e;
+    if (j > 0 && (rows === null || rows[j]! === rows[j - 1]! + 1)) s1 += e * prev;
+    prev = e;
+  }
+  return [ss, s1];
+}
+
+// ---------------------------------------------------------------------------------------------
+// detectSensorOffset
+
+/** The samples k < n with |voltage| and |other| (when given) not at or above their limits, in order. */
+export function restRows(voltage: Float64Array, vLimit: number, other: Float64Array | undefined, oLimit: number, n: number, useKernel?: boolean): Int32Array {
+  if (wanted(n, useKernel) && n <= voltage.length && (other === undefined || n <= other.length)) {
+    const r = resident(other ? [voltage, other] : [voltage], n, Math.ceil(n / 2));
+    if (r !== null) {
+      const idxAt = 8 * r.free;
+      const m = r.room.exports.restRows(r.at[0]!, vLimit, other ? r.at[1]! : 0, oLimit, other ? 1 : 0, n, idxAt);
+      return new Int32Array(r.room.f64.buffer, idxAt, m).slice();
+    }
+  }
+  const idx = new Int32Array(n);
+  let m = 0;
+  if (other) {
+    for (let k = 0; k < n; k++) if (!(Math.abs(voltage[k]!) >= vLimit) && !(Math.abs(other[k]!) >= oLimit)) idx[m++] = k;
+  } else {
+    for (let k = 0; k < n; k++) if (!(Math.abs(voltage[k]!) >= vLimit)) idx[m++] = k;
+  }
+  return idx.subarray(0, m);
+}
+
+// ---------------------------------------------------------------------------------------------
+// detectResidualDelay
+
+/**
+ * The voltage steps Δv(k) = v[k] − v[k−1] (0 where not finite, and at k = 0) with ΣΔv², and the
+ * residual with 0 where it is not finite (the residual itself when every one is: `finite`), with
+ * Σe² and the count over k ≥ 1 where e is finite.
+ */
+export function delaySteps(voltage: Float64Array, residual: Float64Array, useKernel?: boolean):
+  { finite: boolean; steps: Float64Array; kept: Float64Array; vv: number; ee: number; rows: number } {
+  const n = residual.length;
+  if (wanted(n, useKernel) && voltage.length === n) {
+    const r = resident([voltage, residual], n, 2 * n);
+    if (r !== null) {
+      const { exports: k, f64 } = r.room;
+      const [pv, pr] = r.at as [number, number];
+      const finite = k.firstNotFinite(pr, n) < 0;
+      const stepsAt = r.free, keptAt = r.free + n;
+      k.delaySteps(pv, pr, n, finite ? 1 : 0, 8 * stepsAt, 8 * keptAt, 0);
+      return {
+        finite, steps: f64.slice(stepsAt, stepsAt + n), kept: finite ? residual : f64.slice(keptAt, keptAt + n),
+        vv: f64[0]!, ee: f64[1]!, rows: f64[2]!,
+      };
+    }
+  }
+  let vv = 0, ee = 0, rows = 0;
+  const finite = firstNotFinite(residual) < 0;
+  const steps = new Float64Array(n);
+  const kept = finite ? residual : new Float64Array(n);
+  for (let k = 0; k < n; k++) {
+    const e = residual[k]!;
+    if (!finite && Number.isFinite(e)) kept[k] = e;
+    if (k === 0) continue;
+    const dv = voltage[k]! - voltage[k - 1]!;
+    if (Number.isFinite(dv)) { steps[k] = dv; vv += dv * dv; }
+    if (Number.isFinite(e)) { ee += e * e; rows++; }
+  }
+  return { finite, steps, kept, vv, ee, rows };
+}
+
+// ---------------------------------------------------------------------------------------------
+// detectInputDelay
+
+/** The increments da[k − 1] = a[k] − a[k − 1], db likewise (length n − 1), with Σda² and Σdb² (a, b of length n ≥ 1). */
+export function increments(a: Float64Array, b: Float64Array, useKernel?: boolean): { da: Float64Array; db: Float64Array; aa: number; bb: number } {
+  const n = a.length;
+  if (wanted(n, useKernel) && n >= 1 && b.length === n) {
+    const r = resident([a, b], n, 2 * n);
+    if (r !== null) {
+      const { exports: k, f64 } = r.room;
+      const daAt = r.free, dbAt = r.free + n;
+      k.increments(r.at[0]!, r.at[1]!, n, 8 * daAt, 8 * dbAt, 0);
+      return { da: f64.slice(daAt, daAt + n - 1), db: f64.slice(dbAt, dbAt + n - 1), aa: f64[0]!, bb: f64[1]! };
+    }
+  }
+  const da = new Float64Array(n - 1), db = new Float64Array(n - 1);
+  let aa = 0, bb = 0;
+  for (let k = 1; k < n; k++) {
+    da[k - 1] = a[k]! - a[k - 1]!;
+    db[k - 1] = b[k]! - b[k - 1]!;
+    aa += da[k - 1]! * da[k - 1]!;
+    bb += db[k - 1]! * db[k - 1]!;
+  }
+  return { da, db, aa, bb };
+}
+
+// ---------------------------------------------------------------------------------------------
+// diagnoseFit
+
+/** The model output ŷ = measured + residual, and how many of its samples are finite. */
+export function modelOutput(measured: Float64Array, res: Float64Array, useKernel?: boolean): { predicted: Float64Array; finiteRows: number } {
+  const n = measured.length;
+  if (wanted(n, useKernel) && res.length === n) {
+    const r = resident([measured, res], n, n);
+    if (r !== null) {
+      const finiteRows = r.room.exports.sumInto(r.at[0]!, r.at[1]!, 8 * r.free, n);
+      return { predicted: r.room.f64.slice(r.free, r.free + n), finiteRows };
+    }
+  }
+  const predicted = new Float64Array(n);
+  let finiteRows = 0;
+  for (let k = 0; k < n; k++) {
+    const v = measured[k]! + res[k]!;
+    predicted[k] = v;
+    if (Number.isFinite(v)) finiteRows++;
+  }
+  return { predicted, finiteRows };
+}
+
+// ---------------------------------------------------------------------------------------------
+// mechanicalRegression
+
+/** The filtered speed's scan: its range, the central differences, and the sign with a dead band. */
+export interface SpeedScan {
+  /** acc[k] = (w[k+1] − w[k−1]) / h2 for 1 ≤ k < n − 1 (acc[0] = acc[n − 1] = 0: the caller sets the ends). */
+  acc: Float64Array;
+  /** Smallest and largest w (read in order of k). */
+  wmin: number; wmax: number;
+  /** s[k] = 1 when w[k] > band, −1 when w[k] < −band, else 0 (a fresh array). */
+  sign(band: number): Float64Array;
+}
+
+/** The passes of `mechanicalRegression` over the filtered speed w (copied into the kernel once for both). */
+export function speedScan(w: Float64Array, h2: number, useKernel?: boolean): SpeedScan {
+  const n = w.length;
+  if (wanted(n, useKernel)) {
+    const r = resident([w], n, n);
+    if (r !== null) {
+      const { exports: k, f64 } = r.room;
+      const at = r.free;
+      k.centralDifferences(r.at[0]!, n, h2, 8 * at, 0);
+      return {
+        acc: f64.slice(at, at + n), wmin: f64[0]!, wmax: f64[1]!,
+        sign: (band) => { k.signWithDeadBand(r.at[0]!, n, band, 8 * at); return f64.slice(at, at + n); },
+      };
+    }
+  }
+  const acc = new Float64Array(n);
+  // The central differences and the speed's range in one pass (the range still read in order of k).
+  let wmin = Infinity, wmax = -Infinity;
+  for (let k = 0; k < n; k++) {
+    const v = w[k]!;
+    if (v < wmin) wmin = v;
+    if (v > wmax) wmax = v;
+    if (k >= 1 && k + 1 < n) acc[k] = (w[k + 1]! - w[k - 1]!) / h2;
+  }
+  return {
+    acc, wmin, wmax,
+    sign: (band) => {
+      const s = new Float64Array(n);
+      for (let k = 0; k < n; k++) s[k] = w[k]! > band ? 1 : w[k]! < -band ? -1 : 0;
+      return s;
+    },
+  };
 }

@@ -293,4 +293,195 @@
         (br $next2)))
     (f64.store offset=0 (local.get $out) (local.get $mean))
     (f64.store offset=8 (local.get $out) (local.get $ss)))
+  ;; signRows (detectResidualCoulomb): over k < n (all rows when $all, else those with the residual
+  ;; r and the speed w finite, their k stored as i32 at prows + 4m and r at py + 8m): s = 1 when
+  ;; w > dead, −1 when w < −dead, else 0, stored at ps + 8m. Stores pos, neg, rest at out; returns m.
+  (func (export "signRows") (param $pw i32) (param $pr i32) (param $n i32) (param $dead f64) (param $all i32)
+      (param $ps i32) (param $py i32) (param $prows i32) (param $out i32) (result i32)
+    (local $k i32) (local $m i32) (local $r f64) (local $w f64) (local $pos i32) (local $neg i32) (local $rest i32)
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_s (local.get $k) (local.get $n)))
+        (local.set $r (f64.load (i32.add (local.get $pr) (i32.shl (local.get $k) (i32.const 3)))))
+        (local.set $w (f64.load (i32.add (local.get $pw) (i32.shl (local.get $k) (i32.const 3)))))
+        (block $skip
+          (if (i32.eqz (local.get $all))
+            (then
+              (br_if $skip (i32.eqz (i32.and (f64.lt (f64.abs (local.get $r)) (f64.const inf)) (f64.lt (f64.abs (local.get $w)) (f64.const inf)))))
+              (i32.store (i32.add (local.get $prows) (i32.shl (local.get $m) (i32.const 2))) (local.get $k))
+              (f64.store (i32.add (local.get $py) (i32.shl (local.get $m) (i32.const 3))) (local.get $r))))
+          (if (f64.gt (local.get $w) (local.get $dead))
+            (then
+              (local.set $pos (i32.add (local.get $pos) (i32.const 1)))
+              (f64.store (i32.add (local.get $ps) (i32.shl (local.get $m) (i32.const 3))) (f64.const 1)))
+            (else
+              (if (f64.lt (local.get $w) (f64.neg (local.get $dead)))
+                (then
+                  (local.set $neg (i32.add (local.get $neg) (i32.const 1)))
+                  (f64.store (i32.add (local.get $ps) (i32.shl (local.get $m) (i32.const 3))) (f64.const -1)))
+                (else
+                  (local.set $rest (i32.add (local.get $rest) (i32.const 1)))
+                  (f64.store (i32.add (local.get $ps) (i32.shl (local.get $m) (i32.const 3))) (f64.const 0))))))
+          (local.set $m (i32.add (local.get $m) (i32.const 1))))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (br $next)))
+    (f64.store offset=0 (local.get $out) (f64.convert_i32_s (local.get $pos)))
+    (f64.store offset=8 (local.get $out) (f64.convert_i32_s (local.get $neg)))
+    (f64.store offset=16 (local.get $out) (f64.convert_i32_s (local.get $rest)))
+    (local.get $m))
+
+  ;; lagOneSums (detectResidualCoulomb): e_j = y_j − c − g·s_j for j < m, Σe² and Σ e_j·e_{j−1} over
+  ;; consecutive rows (all when $prows is −1, else rows (i32) that follow each other); stored at out.
+  (func (export "lagOneSums") (param $py i32) (param $ps i32) (param $prows i32) (param $m i32) (param $c f64) (param $g f64) (param $out i32)
+    (local $j i32) (local $e f64) (local $prev f64) (local $ss f64) (local $s1 f64)
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_s (local.get $j) (local.get $m)))
+        (local.set $e (f64.sub
+          (f64.sub (f64.load (i32.add (local.get $py) (i32.shl (local.get $j) (i32.const 3)))) (local.get $c))
+          (f64.mul (local.get $g) (f64.load (i32.add (local.get $ps) (i32.shl (local.get $j) (i32.const 3)))))))
+        (local.set $ss (f64.add (local.get $ss) (f64.mul (local.get $e) (local.get $e))))
+        (if (i32.gt_s (local.get $j) (i32.const 0))
+          (then
+            (if (if (result i32) (i32.eq (local.get $prows) (i32.const -1))
+                  (then (i32.const 1))
+                  (else
+                    (i32.eq (i32.load (i32.add (local.get $prows) (i32.shl (local.get $j) (i32.const 2))))
+                      (i32.add (i32.load (i32.add (local.get $prows) (i32.shl (i32.sub (local.get $j) (i32.const 1)) (i32.const 2)))) (i32.const 1)))))
+              (then (local.set $s1 (f64.add (local.get $s1) (f64.mul (local.get $e) (local.get $prev))))))))
+        (local.set $prev (local.get $e))
+        (local.set $j (i32.add (local.get $j) (i32.const 1)))
+        (br $next)))
+    (f64.store offset=0 (local.get $out) (local.get $ss))
+    (f64.store offset=8 (local.get $out) (local.get $s1)))
+
+  ;; restRows (detectSensorOffset): the k < n with !(|v| ≥ vLimit) and, when $hasOther,
+  ;; !(|o| ≥ oLimit), stored as i32 at pidx + 4m in order; returns m.
+  (func (export "restRows") (param $pv i32) (param $vLimit f64) (param $po i32) (param $oLimit f64) (param $hasOther i32) (param $n i32) (param $pidx i32) (result i32)
+    (local $k i32) (local $m i32)
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_s (local.get $k) (local.get $n)))
+        (if (i32.eqz (f64.ge (f64.abs (f64.load (i32.add (local.get $pv) (i32.shl (local.get $k) (i32.const 3))))) (local.get $vLimit)))
+          (then
+            (if (i32.or (i32.eqz (local.get $hasOther))
+                  (i32.eqz (f64.ge (f64.abs (f64.load (i32.add (local.get $po) (i32.shl (local.get $k) (i32.const 3))))) (local.get $oLimit))))
+              (then
+                (i32.store (i32.add (local.get $pidx) (i32.shl (local.get $m) (i32.const 2))) (local.get $k))
+                (local.set $m (i32.add (local.get $m) (i32.const 1)))))))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (br $next)))
+    (local.get $m))
+
+  ;; delaySteps (detectResidualDelay): steps[k] = Δv(k) = v[k] − v[k−1] where finite (else 0;
+  ;; steps[0] = 0), with vv = Σ Δv² over those; kept[k] = e[k] where finite (else 0) unless
+  ;; $finite (every e finite: kept is not written); ee = Σ e² and rows over k ≥ 1 with e finite.
+  ;; Stores vv, ee, rows at out.
+  (func (export "delaySteps") (param $pv i32) (param $pr i32) (param $n i32) (param $finite i32) (param $psteps i32) (param $pkept i32) (param $out i32)
+    (local $k i32) (local $e f64) (local $dv f64) (local $vv f64) (local $ee f64) (local $rows i32) (local $fin i32)
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_s (local.get $k) (local.get $n)))
+        (local.set $e (f64.load (i32.add (local.get $pr) (i32.shl (local.get $k) (i32.const 3)))))
+        (local.set $fin (f64.lt (f64.abs (local.get $e)) (f64.const inf)))
+        (if (i32.eqz (local.get $finite))
+          (then (f64.store (i32.add (local.get $pkept) (i32.shl (local.get $k) (i32.const 3)))
+            (select (local.get $e) (f64.const 0) (local.get $fin)))))
+        (if (i32.eqz (local.get $k))
+          (then
+            (f64.store (local.get $psteps) (f64.const 0))
+            (local.set $k (i32.const 1))
+            (br $next)))
+        (local.set $dv (f64.sub
+          (f64.load (i32.add (local.get $pv) (i32.shl (local.get $k) (i32.const 3))))
+          (f64.load (i32.add (local.get $pv) (i32.shl (i32.sub (local.get $k) (i32.const 1)) (i32.const 3))))))
+        (if (f64.lt (f64.abs (local.get $dv)) (f64.const inf))
+          (then
+            (f64.store (i32.add (local.get $psteps) (i32.shl (local.get $k) (i32.const 3))) (local.get $dv))
+            (local.set $vv (f64.add (local.get $vv) (f64.mul (local.get $dv) (local.get $dv)))))
+          (else (f64.store (i32.add (local.get $psteps) (i32.shl (local.get $k) (i32.const 3))) (f64.const 0))))
+        (if (local.get $fin)
+          (then
+            (local.set $ee (f64.add (local.get $ee) (f64.mul (local.get $e) (local.get $e))))
+            (local.set $rows (i32.add (local.get $rows) (i32.const 1)))))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (br $next)))
+    (f64.store offset=0 (local.get $out) (local.get $vv))
+    (f64.store offset=8 (local.get $out) (local.get $ee))
+    (f64.store offset=16 (local.get $out) (f64.convert_i32_s (local.get $rows))))
+
+  ;; increments (detectInputDelay): da[k−1] = a[k] − a[k−1], db[k−1] = b[k] − b[k−1] for 1 ≤ k < n,
+  ;; with Σ da² and Σ db² (each term read back as stored); stored at out.
+  (func (export "increments") (param $pa i32) (param $pb i32) (param $n i32) (param $pda i32) (param $pdb i32) (param $out i32)
+    (local $k i32) (local $d f64) (local $aa f64) (local $bb f64) (local $at i32)
+    (local.set $k (i32.const 1))
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_s (local.get $k) (local.get $n)))
+        (local.set $at (i32.shl (local.get $k) (i32.const 3)))
+        (local.set $d (f64.sub (f64.load (i32.add (local.get $pa) (local.get $at))) (f64.load (i32.add (local.get $pa) (i32.sub (local.get $at) (i32.const 8))))))
+        (f64.store (i32.add (local.get $pda) (i32.sub (local.get $at) (i32.const 8))) (local.get $d))
+        (local.set $aa (f64.add (local.get $aa) (f64.mul (local.get $d) (local.get $d))))
+        (local.set $d (f64.sub (f64.load (i32.add (local.get $pb) (local.get $at))) (f64.load (i32.add (local.get $pb) (i32.sub (local.get $at) (i32.const 8))))))
+        (f64.store (i32.add (local.get $pdb) (i32.sub (local.get $at) (i32.const 8))) (local.get $d))
+        (local.set $bb (f64.add (local.get $bb) (f64.mul (local.get $d) (local.get $d))))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (br $next)))
+    (f64.store offset=0 (local.get $out) (local.get $aa))
+    (f64.store offset=8 (local.get $out) (local.get $bb)))
+
+  ;; sumInto (diagnoseFit's model output): out[k] = a[k] + b[k]; returns how many are finite.
+  (func (export "sumInto") (param $pa i32) (param $pb i32) (param $pout i32) (param $n i32) (result i32)
+    (local $k i32) (local $v f64) (local $finite i32) (local $at i32)
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_s (local.get $k) (local.get $n)))
+        (local.set $at (i32.shl (local.get $k) (i32.const 3)))
+        (local.set $v (f64.add (f64.load (i32.add (local.get $pa) (local.get $at))) (f64.load (i32.add (local.get $pb) (local.get $at)))))
+        (f64.store (i32.add (local.get $pout) (local.get $at)) (local.get $v))
+        (if (f64.lt (f64.abs (local.get $v)) (f64.const inf)) (then (local.set $finite (i32.add (local.get $finite) (i32.const 1)))))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (br $next)))
+    (local.get $finite))
+
+  ;; centralDifferences (mechanicalRegression): the range of w in order of k (v < min, v > max) and
+  ;; acc[k] = (w[k+1] − w[k−1]) / h2 for 1 ≤ k < n − 1 (acc[0] and acc[n−1] = 0); min, max at out.
+  (func (export "centralDifferences") (param $pw i32) (param $n i32) (param $h2 f64) (param $pacc i32) (param $out i32)
+    (local $k i32) (local $v f64) (local $min f64) (local $max f64) (local $at i32)
+    (local.set $min (f64.const inf))
+    (local.set $max (f64.const -inf))
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_s (local.get $k) (local.get $n)))
+        (local.set $at (i32.shl (local.get $k) (i32.const 3)))
+        (local.set $v (f64.load (i32.add (local.get $pw) (local.get $at))))
+        (if (f64.lt (local.get $v) (local.get $min)) (then (local.set $min (local.get $v))))
+        (if (f64.gt (local.get $v) (local.get $max)) (then (local.set $max (local.get $v))))
+        (if (i32.and (i32.ge_s (local.get $k) (i32.const 1)) (i32.lt_s (i32.add (local.get $k) (i32.const 1)) (local.get $n)))
+          (then
+            (f64.store (i32.add (local.get $pacc) (local.get $at))
+              (f64.div
+                (f64.sub (f64.load (i32.add (local.get $pw) (i32.add (local.get $at) (i32.const 8)))) (f64.load (i32.add (local.get $pw) (i32.sub (local.get $at) (i32.const 8)))))
+                (local.get $h2))))
+          (else (f64.store (i32.add (local.get $pacc) (local.get $at)) (f64.const 0))))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (br $next)))
+    (f64.store offset=0 (local.get $out) (local.get $min))
+    (f64.store offset=8 (local.get $out) (local.get $max)))
+
+  ;; signWithDeadBand (mechanicalRegression): s[k] = 1 when w[k] > band, −1 when w[k] < −band, else 0.
+  (func (export "signWithDeadBand") (param $pw i32) (param $n i32) (param $band f64) (param $ps i32)
+    (local $k i32) (local $v f64) (local $at i32)
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_s (local.get $k) (local.get $n)))
+        (local.set $at (i32.shl (local.get $k) (i32.const 3)))
+        (local.set $v (f64.load (i32.add (local.get $pw) (local.get $at))))
+        (f64.store (i32.add (local.get $ps) (local.get $at))
+          (if (result f64) (f64.gt (local.get $v) (local.get $band))
+            (then (f64.const 1))
+            (else (if (result f64) (f64.lt (local.get $v) (f64.neg (local.get $band))) (then (f64.const -1)) (else (f64.const 0))))))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (br $next)))
+  )
 )

@@ -1,7 +1,9 @@
 import fc from 'fast-check';
 import { createRandom } from '@motorprint/model';
 import { describe, expect, it } from 'vitest';
-import { channelScan, KERNEL_MIN, meanSquares, plateauScan, residualPasses, scanKernelRuns, trendSums } from '../passes.js';
+import {
+  channelScan, coulombRows, delaySteps, increments, KERNEL_MIN, meanSquares, modelOutput, plateauScan, residualPasses, restRows, scanKernelRuns, speedScan, trendSums,
+} from '../passes.js';
 
 /** Deep equality with Object.is on every number (NaN equals NaN, −0 differs from +0), typed arrays element by element. */
 function same(a: unknown, b: unknown, path = '$'): string | null {
@@ -104,6 +106,49 @@ describe('the WebAssembly passes give the JavaScript passes\' numbers, bit for b
     }), { numRuns: 300 });
   });
 
+  it('coulombRows (rows, signs with a dead band, lag-one sums)', () => {
+    fc.assert(fc.property(pair, fc.oneof(real, fc.constant(0), fc.constant(1)), real, real, ([w, r], dead, c, g) => {
+      const a = coulombRows(w, r, dead, true), b = coulombRows(w, r, dead, false);
+      expect(same({ ...a, lagOne: null }, { ...b, lagOne: null })).toBeNull();
+      const fit = [0.1, -0.7] as const;
+      for (const [u, v] of [[c, g], fit, [0, 0]] as const) expect(same(a.lagOne(u, v), b.lagOne(u, v))).toBeNull();
+    }), { numRuns: 300 });
+  });
+
+  it('restRows (with and without the second channel)', () => {
+    fc.assert(fc.property(pair, real, real, fc.boolean(), ([v, o], vl, ol, other) => {
+      for (const [p, q] of [[vl, ol], [1, 2], [Math.abs(vl), Infinity]] as const) {
+        expect(same(restRows(v, p, other ? o : undefined, q, v.length, true), restRows(v, p, other ? o : undefined, q, v.length, false))).toBeNull();
+      }
+    }), { numRuns: 300 });
+  });
+
+  it('delaySteps (voltage steps and kept residuals, with gaps or not)', () => {
+    fc.assert(fc.property(fc.oneof(pair, finitePair), ([v, r]) => {
+      expect(same(delaySteps(v, r, true), delaySteps(v, r, false))).toBeNull();
+    }), { numRuns: 300 });
+  });
+
+  it('increments', () => {
+    fc.assert(fc.property(pair.filter(([a]) => a.length >= 1), ([a, b]) => {
+      expect(same(increments(a, b, true), increments(a, b, false))).toBeNull();
+    }), { numRuns: 300 });
+  });
+
+  it('modelOutput', () => {
+    fc.assert(fc.property(pair, ([y, e]) => {
+      expect(same(modelOutput(y, e, true), modelOutput(y, e, false))).toBeNull();
+    }), { numRuns: 300 });
+  });
+
+  it('speedScan (range, central differences, sign with a dead band)', () => {
+    fc.assert(fc.property(series, fc.oneof(real, fc.constant(2e-4)), real, (w, h2, band) => {
+      const a = speedScan(w, h2, true), b = speedScan(w, h2, false);
+      expect(same([a.acc, a.wmin, a.wmax], [b.acc, b.wmin, b.wmax])).toBeNull();
+      for (const d of [band, 0, 0.5, -0]) expect(same(a.sign(d), b.sign(d)), `band ${d}`).toBeNull();
+    }), { numRuns: 300 });
+  });
+
   it('long series (the default route takes the kernels) with and without gaps, odd lengths', () => {
     for (const [n, gaps] of [[KERNEL_MIN, false], [KERNEL_MIN + 1, true], [20011, false], [20011, true]] as const) {
       const x = railed(n, 1, gaps), y = railed(n, 2, gaps);
@@ -120,6 +165,14 @@ describe('the WebAssembly passes give the JavaScript passes\' numbers, bit for b
       const ta = trendSums(t, x), tb = trendSums(t, x, false);
       expect(same([ta.m, ta.sx, ta.sy, ta.moments(1, 2), ta.lagOne(0.5, 3), ta.range()], [tb.m, tb.sx, tb.sy, tb.moments(1, 2), tb.lagOne(0.5, 3), tb.range()])).toBeNull();
       expect(same(meanSquares(y), meanSquares(y, false))).toBeNull();
+      const ca = coulombRows(x, y, 0.5), cb = coulombRows(x, y, 0.5, false);
+      expect(same([{ ...ca, lagOne: null }, ca.lagOne(0.2, -0.3)], [{ ...cb, lagOne: null }, cb.lagOne(0.2, -0.3)])).toBeNull();
+      expect(same(restRows(x, 1, y, 2, n), restRows(x, 1, y, 2, n, false))).toBeNull();
+      expect(same(delaySteps(x, y), delaySteps(x, y, false))).toBeNull();
+      expect(same(increments(x, y), increments(x, y, false))).toBeNull();
+      expect(same(modelOutput(x, y), modelOutput(x, y, false))).toBeNull();
+      const sa = speedScan(x, 2e-4), sb = speedScan(x, 2e-4, false);
+      expect(same([sa.acc, sa.wmin, sa.wmax, sa.sign(1)], [sb.acc, sb.wmin, sb.wmax, sb.sign(1)])).toBeNull();
     }
   });
 });
