@@ -3,7 +3,7 @@
  */
 import { estimateNoiseLevel, medianInterval } from '@motorprint/estimate';
 import type { NoiseLevel } from '@motorprint/estimate';
-import { trendSums } from './passes.js';
+import { firstNotFiniteOf, trendSums } from './passes.js';
 import type { TrendSums } from './passes.js';
 import type { RecordingLike } from './types.js';
 
@@ -83,7 +83,7 @@ export function checkRecording(fn: string, rec: RecordingLike): { n: number; dt:
     if (v === undefined) continue;
     if (!(v instanceof Float64Array)) throw new TypeError(`${fn}: recording.channels.${name} must be a Float64Array`);
     if (v.length !== n) throw new TypeError(`${fn}: recording.channels.${name} has ${v.length} samples, time has ${n}`);
-    const k = firstNotFinite(v);
+    const k = firstNotFiniteOf(v);
     if (k >= 0) throw new RangeError(`${fn}: recording.channels.${name}[${k}] must be finite (got ${v[k]})`);
   }
   const dt = intervalOf(rec.time);

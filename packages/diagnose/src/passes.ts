@@ -83,6 +83,19 @@ function wanted(n: number, useKernel: boolean | undefined): boolean {
 }
 
 // ---------------------------------------------------------------------------------------------
+// checkRecording
+
+/** Index of the first sample of x that is not finite, or −1. */
+export function firstNotFiniteOf(x: Float64Array, useKernel?: boolean): number {
+  const n = x.length;
+  if (wanted(n, useKernel)) {
+    const r = resident([x], n);
+    if (r !== null) return r.room.exports.firstNotFinite(r.at[0]!, n);
+  }
+  return firstNotFinite(x);
+}
+
+// ---------------------------------------------------------------------------------------------
 // residualStats
 
 /** What `residualPasses` returns; the sums are NaN/0 when n < 8 (the caller throws then). */

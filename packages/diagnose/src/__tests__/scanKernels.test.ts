@@ -2,7 +2,7 @@ import fc from 'fast-check';
 import { createRandom } from '@motorprint/model';
 import { describe, expect, it } from 'vitest';
 import {
-  channelScan, coulombRows, delaySteps, increments, KERNEL_MIN, meanSquares, modelOutput, plateauScan, residualPasses, restRows, scanKernelRuns, speedScan, trendSums,
+  channelScan, coulombRows, delaySteps, firstNotFiniteOf, increments, KERNEL_MIN, meanSquares, modelOutput, plateauScan, residualPasses, restRows, scanKernelRuns, speedScan, trendSums,
 } from '../passes.js';
 
 /** Deep equality with Object.is on every number (NaN equals NaN, −0 differs from +0), typed arrays element by element. */
@@ -98,6 +98,16 @@ describe('the WebAssembly passes give the JavaScript passes\' numbers, bit for b
       }
       expect(same(a.range(), b.range())).toBeNull();
     }), { numRuns: 300 });
+  });
+
+  it('firstNotFiniteOf', () => {
+    fc.assert(fc.property(series, (v) => {
+      expect(firstNotFiniteOf(v, true)).toBe(firstNotFiniteOf(v, false));
+    }), { numRuns: 300 });
+    const x = new Float64Array(KERNEL_MIN + 3);
+    expect(firstNotFiniteOf(x)).toBe(-1);
+    x[KERNEL_MIN + 1] = -Infinity;
+    expect(firstNotFiniteOf(x)).toBe(KERNEL_MIN + 1);
   });
 
   it('meanSquares', () => {
