@@ -1,5 +1,6 @@
 import { checkRecording, sig } from './internal.js';
 import { laggedSumsInto } from './laggedSums.js';
+import { increments } from './passes.js';
 import type { Finding, RecordingLike } from './types.js';
 
 /**
@@ -24,14 +25,7 @@ export function detectInputDelay(recording: RecordingLike): Finding | null {
   const { voltage, current } = recording.channels;
   if (!voltage || !current || n < 100) return null;
   const m = 20;
-  const dv = new Float64Array(n - 1), di = new Float64Array(n - 1);
-  let vv = 0, ii = 0;
-  for (let k = 1; k < n; k++) {
-    dv[k - 1] = voltage[k]! - voltage[k - 1]!;
-    di[k - 1] = current[k]! - current[k - 1]!;
-    vv += dv[k - 1]! * dv[k - 1]!;
-    ii += di[k - 1]! * di[k - 1]!;
-  }
+  const { da: dv, db: di, aa: vv, bb: ii } = increments(voltage, current);
   if (!(vv > 0 && ii > 0)) return null;
   const norm = Math.sqrt(vv * ii);
   // c(ℓ) = Σ_k dv[k]·di[k + ℓ] / norm, every lag summed in order of k (in one sweep for eight lags).

@@ -1,4 +1,5 @@
-import { firstNotFinite, sig } from './internal.js';
+import { sig } from './internal.js';
+import { coulombRows } from './passes.js';
 import { fitLinearModel } from './fitLinearModel.js';
 import type { Finding } from './types.js';
 
@@ -30,32 +31,14 @@ export function detectResidualCoulomb(speed: Float64Array, residual: Float64Arra
   }
   const dead = 3 * (speedSigma > 0 ? speedSigma : 0);
   // The fitted rows, with s and the residual on them (typed arrays filled in one pass).
-  // (Every row finite, the usual case: the rows are 0…n − 1 and y is the residual itself.)
-  const n = speed.length;
-  const all = firstNotFinite(residual) < 0 && firstNotFinite(speed) < 0;
-  const rows = all ? null : new Int32Array(n);
-  const sAll = new Float64Array(n);
-  const yAll = all ? residual : new Float64Array(n);
-  let m = 0, pos = 0, neg = 0, rest = 0;
-  for (let k = 0; k < n; k++) {
-    const r = residual[k]!, w = speed[k]!;
-    if (!all) {
-      if (!Number.isFinite(r) || !Number.isFinite(w)) continue;
-      rows![m] = k;
-      yAll[m] = r;
-    }
-    if (w > dead) { pos++; sAll[m] = 1; } else if (w < -dead) { neg++; sAll[m] = -1; } else rest++;
-    m++;
-  }
+  const { m, pos, neg, rest, s, y, lagOne } = coulombRows(speed, residual, dead);
   if (m < 50 || Math.max(pos, neg, rest) > 0.95 * m) return null;
   const one = new Float64Array(m).fill(1);
-  const s = sAll.subarray(0, m);
-  const y = yAll.subarray(0, m);
   const fit = fitLinearModel([one, s], y);
   const g = fit.coefficients[1]!, se = fit.standardErrors[1]!;
   if (!(se > 0)) return null;
   // Lag-1 autocorrelation of the regression residuals over consecutive fitted rows.
-  const [ss, s1] = lagOneSums(y, s, rows, fit.coefficients[0]!, g);
+  const [ss, s1] = lagOne(fit.coefficients[0]!, g);
   const r1 = ss > 0 ? Math.min(0.98, Math.max(0, s1 / ss)) : 0;
   const seAdj = se * Math.sqrt((1 + r1) / (1 - r1));
   const z = (channel === 'current' ? -g : g) / seAdj;
@@ -69,20 +52,4 @@ export function detectResidualCoulomb(speed: Float64Array, residual: Float64Arra
     },
     advice: 'Fit with Coulomb friction in the model and compare the two fits; a constant friction torque otherwise biases b, J and the current offset.',
   };
-}
-
-/**
- * Σ e_j² and Σ e_j·e_{j−1} over consecutive rows (rows null: all are), e_j = y_j − c − g·s_j (each residual formed once
- * and reused as the previous one: the same number the formula gives again).
- */
-function lagOneSums(y: Float64Array, s: Float64Array, rows: Int32Array | null, c: number, g: number): [number, number] {
-  const m = y.length;
-  let ss = 0, s1 = 0, prev = 0;
-  for (let j = 0; j < m; j++) {
-    const e = y[j]! - c - g * s[j]!;
-    ss += e * e;
-    if (j > 0 && (rows === null || rows[j]! === rows[j - 1]! + 1)) s1 += e * prev;
-    prev = e;
-  }
-  return [ss, s1];
 }

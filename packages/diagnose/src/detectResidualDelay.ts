@@ -1,4 +1,5 @@
-import { firstNotFinite, sig } from './internal.js';
+import { sig } from './internal.js';
+import { delaySteps } from './passes.js';
 import { laggedSumsInto } from './laggedSums.js';
 import type { Finding } from './types.js';
 
@@ -36,21 +37,10 @@ export function detectResidualDelay(voltage: Float64Array, residual: Float64Arra
   }
   const M = 20;
   if (n < 10 * M) return null;
-  let vv = 0, ee = 0, rows = 0;
   // The voltage steps once (every lag below reads them), and both series with 0 where a term is
   // left out: a left-out term then adds ±0, which leaves every sum below as it was.
   // (Every residual finite, the usual case: the residual itself is that series.)
-  const finite = firstNotFinite(residual) < 0;
-  const steps = new Float64Array(n);
-  const kept = finite ? residual : new Float64Array(n);
-  for (let k = 0; k < n; k++) {
-    const e = residual[k]!;
-    if (!finite && Number.isFinite(e)) kept[k] = e;
-    if (k === 0) continue;
-    const dv = voltage[k]! - voltage[k - 1]!;
-    if (Number.isFinite(dv)) { steps[k] = dv; vv += dv * dv; }
-    if (Number.isFinite(e)) { ee += e * e; rows++; }
-  }
+  const { finite, steps, kept, vv, ee, rows } = delaySteps(voltage, residual);
   if (!(vv > 0 && ee > 0) || rows < 10 * M) return null;
   const norm = Math.sqrt(vv * ee);
   // s(ℓ) = Σ_{k≥1} Δv(k)·e(k + ℓ) over the terms with both finite, summed in order of k.

@@ -1,4 +1,5 @@
 import { sig, slopeWithSerialCorrection } from './internal.js';
+import { trendSums } from './passes.js';
 import type { Finding, RecordingKind } from './types.js';
 
 /**
@@ -29,11 +30,12 @@ export function detectResidualTrend(time: Float64Array, residual: Float64Array, 
   if (!(time instanceof Float64Array) || !(residual instanceof Float64Array) || time.length !== residual.length) {
     throw new TypeError('detectResidualTrend: time and residual must be Float64Arrays of one length');
   }
-  const f = slopeWithSerialCorrection(time, residual);
+  // The line fit's passes and the time span of the fitted samples, over one copy of the series.
+  const sums = trendSums(time, residual);
+  const f = slopeWithSerialCorrection(time, residual, sums);
   if (!Number.isFinite(f.se) || !(f.se > 0)) return null;
   const z = f.slope / f.se;
-  let t0 = Infinity, t1 = -Infinity;
-  for (let k = 0; k < time.length; k++) if (Number.isFinite(residual[k]!)) { if (time[k]! < t0) t0 = time[k]!; if (time[k]! > t1) t1 = time[k]!; }
+  const { x0: t0, x1: t1 } = sums.range();
   const change = f.slope * (t1 - t0);
   if (!(Math.abs(z) > 5) || !(Math.abs(change) > 0.5 * f.sd)) return null;
   const unit = channel === 'current' ? 'A' : 'rad/s';

@@ -1,5 +1,6 @@
 import { detectEncoderSpeed, selectKth } from '@motorprint/estimate';
 import { checkRecording, noiseLevel, noiseOf, sig } from './internal.js';
+import { channelScan, plateauScan } from './passes.js';
 import type { Finding, RecordingLike } from './types.js';
 
 /**
@@ -37,7 +38,8 @@ export function detectSaturation(recording: RecordingLike, options: { commandedV
     const lvl = noiseLevel(x);
     const sigma = lvl.sigma;
     if (!(sigma > 0)) continue;
-    const [min, max] = extremes(x);
+    const scan = channelScan(x);
+    const { min, max } = scan;
     // An encoder speed repeats its codes by construction (a slow rotor reads 0 between counts):
     // only a rail the speed arrives at while moving counts there, not a long run.
     const encoder = name === 'speed' && detectEncoderSpeed(recording.time, x) !== null;
@@ -47,7 +49,7 @@ export function detectSaturation(recording: RecordingLike, options: { commandedV
     // two codes per sample.
     const step = Math.max(2 * sigma, 2 * (lvl.quantum ?? 0));
     // Exactly zero speed or current is a rotor at rest or an open circuit, not a rail.
-    const railAt = (v: number, side: 1 | -1): number => (v === 0 && (name === 'speed' || name === 'current') ? 0 : pinnedSamples(x, v, side, sigma, longest, step));
+    const railAt = (v: number, side: 1 | -1): number => (v === 0 && (name === 'speed' || name === 'current') ? 0 : scan.pinned(v, side, { sigma, longest, minSlope: step }));
     const pinned = { max: railAt(max, 1), min: railAt(min, -1) };
     const worst = Math.max(pinned.max, pinned.min);
     if (worst >= 5 && worst >= 0.002 * n) {
@@ -65,21 +67,10 @@ export function detectSaturation(recording: RecordingLike, options: { commandedV
     const sW = noiseOf(speed);
     // (By selection: the recording was checked finite, and |i| has no −0, so the value is the
     // sorted array's.)
-    const mag = new Float64Array(n);
-    for (let k = 0; k < n; k++) mag[k] = Math.abs(current[k]!);
-    const top = selectKth(mag, Math.floor(0.98 * (n - 1)));
+    const plateau = plateauScan(current, speed);
+    const top = selectKth(plateau.magnitude, Math.floor(0.98 * (n - 1)));
     // Longest contiguous run on the plateau (a transient peak does not make a long run).
-    let count = 0, wLo = Infinity, wHi = -Infinity, run = 0, lo = Infinity, hi = -Infinity;
-    for (let k = 0; k < n; k++) {
-      if (Math.abs(current[k]!) >= top - 4 * sI) {
-        run++;
-        if (speed[k]! < lo) lo = speed[k]!;
-        if (speed[k]! > hi) hi = speed[k]!;
-        if (run > count) { count = run; wLo = lo; wHi = hi; }
-      } else {
-        run = 0; lo = Infinity; hi = -Infinity;
-      }
-    }
+    const { count, wLo, wHi } = plateau.run(top - 4 * sI);
     if (count >= Math.max(20, 0.03 * n) && wHi - wLo > 20 * Math.max(sW, 1e-12) && top > 20 * sI) {
       out.push({
         code: 'drive-saturation', severity: 'warning', title: 'Current flat-topped while the rotor accelerates: drive current limit',
@@ -106,40 +97,6 @@ export function detectSaturation(recording: RecordingLike, options: { commandedV
 }
 
 /**
- * Samples on runs (of at least 3) at a rail value `rail` that look railed: the signal reaches
- * the rail still moving towards it (a slope of more than 2 noise SDs per sample over the 5 samples
- * before the run, and more than two codes per sample on a quantised channel, that carried on for
- * half the run would pass the rail by more than 4 noise SDs), or the run is longer than noise
- * could hold one value (`longest`). Repeated identical values at the extremes of a quantised
- * signal (an ADC code dithered by noise, or a plateau quieter than one code) are not clipping.
- */
-function pinnedSamples(x: Float64Array, rail: number, side: 1 | -1, sigma: number, longest: number, minSlope: number): number {
-  const n = x.length;
-  let total = 0;
-  for (let k = 0; k < n; ) {
-    if (x[k] !== rail) { k++; continue; }
-    let e = k;
-    while (e < n && x[e] === rail) e++;
-    const len = e - k;
-    if (len >= 3) {
-      let moving = false;
-      if (k >= 6) {
-        // Slope over the 5 samples before the run (its noise SD is √2·σ/5 ≈ 0.28σ): more than 2σ per
-        // sample is movement, not noise.
-        const slope = (x[k - 1]! - x[k - 6]!) / 5;
-        const carried = x[k - 1]! + slope * (len / 2);
-        moving = side * (carried - rail) > 4 * sigma && side * slope > minSlope;
-      }
-      // A long run counts only when the signal arrives at it (not one the record starts on: a
-      // rotor at rest before a step reads exactly 0 on an encoder).
-      if (moving || (len >= longest && k > 0)) total += len;
-    }
-    k = e;
-  }
-  return total;
-}
-
-/**
  * The run of one repeated value that noise makes improbable (below 1e-4/n anywhere in the
  * record): with analog noise σa = √(σ² − q²/12) on a grid of step q, a sample stays on its code
  * with probability at most erf(q/(2√2·σa)); exact repeats need no grid (q = 0: any run of 3). A
@@ -158,16 +115,4 @@ function erf(x: number): number {
   const t = 1 / (1 + 0.3275911 * Math.abs(x));
   const y = 1 - (((((1.061405429 * t - 1.453152027) * t) + 1.421413741) * t - 0.284496736) * t + 0.254829592) * t * Math.exp(-x * x);
   return x >= 0 ? y : -y;
-}
-
-/** [smallest, largest] of x, read in order of k (a kernel of its own, so that it is optimised on its own). */
-function extremes(x: Float64Array): [number, number] {
-  let max = -Infinity, min = Infinity;
-  const n = x.length;
-  for (let k = 0; k < n; k++) {
-    const v = x[k]!;
-    if (v > max) max = v;
-    if (v < min) min = v;
-  }
-  return [min, max];
 }

@@ -1,4 +1,5 @@
 import { checkRecording, noiseOf, sig } from './internal.js';
+import { restRows } from './passes.js';
 import type { Finding, RecordingLike } from './types.js';
 
 /**
@@ -47,16 +48,4 @@ export function detectSensorOffset(recording: RecordingLike): Finding[] {
   if (current) test('current', current, si, speed, sw, 'A');
   if (speed) test('speed', speed, sw, current, si, 'rad/s');
   return out;
-}
-
-/** The samples k < n with |voltage| and |other| (when given) not at or above their limits, in order (a kernel of its own). */
-function restRows(voltage: Float64Array, vLimit: number, other: Float64Array | undefined, oLimit: number, n: number): Int32Array {
-  const idx = new Int32Array(n);
-  let m = 0;
-  if (other) {
-    for (let k = 0; k < n; k++) if (!(Math.abs(voltage[k]!) >= vLimit) && !(Math.abs(other[k]!) >= oLimit)) idx[m++] = k;
-  } else {
-    for (let k = 0; k < n; k++) if (!(Math.abs(voltage[k]!) >= vLimit)) idx[m++] = k;
-  }
-  return idx.subarray(0, m);
 }

@@ -1,4 +1,5 @@
 import { checkRecording, noiseOf, sig } from './internal.js';
+import { meanSquares } from './passes.js';
 import type { CovarianceSummary, Finding, RecordingLike } from './types.js';
 
 /**
@@ -31,11 +32,7 @@ export function detectWeakExcitation(
     const { n } = checkRecording('detectWeakExcitation', recording);
     const v = recording.channels.voltage;
     if (v && n >= 20) {
-      let mean = 0;
-      for (let k = 0; k < n; k++) mean += v[k]!;
-      mean /= n;
-      let ss = 0;
-      for (let k = 0; k < n; k++) ss += (v[k]! - mean) * (v[k]! - mean);
+      const { ss } = meanSquares(v);
       const sd = Math.sqrt(ss / n);
       const noise = noiseOf(v);
       if (sd < 10 * noise || sd === 0) {

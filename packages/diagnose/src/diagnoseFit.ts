@@ -6,6 +6,7 @@ import { detectResidualTrend } from './detectResidualTrend.js';
 import { detectWeakExcitation } from './detectWeakExcitation.js';
 import { diagnoseParameters } from './diagnoseParameters.js';
 import { sampleIntervalOf, withSharedNoise } from './internal.js';
+import { modelOutput } from './passes.js';
 import { residualStats } from './residualStats.js';
 import { scanRecording } from './scanRecording.js';
 import type {
@@ -173,17 +174,4 @@ function diagnoseShared(fit: MotorFit, recordings: MotorRecordingInput[], option
     findings,
     comparisons,
   };
-}
-
-/** The model output ŷ = measured + residual, and how many of its samples are finite (a small kernel of its own, so that it is optimised on its own). */
-function modelOutput(measured: Float64Array, res: Float64Array): { predicted: Float64Array; finiteRows: number } {
-  const n = measured.length;
-  const predicted = new Float64Array(n);
-  let finiteRows = 0;
-  for (let k = 0; k < n; k++) {
-    const v = measured[k]! + res[k]!;
-    predicted[k] = v;
-    if (Number.isFinite(v)) finiteRows++;
-  }
-  return { predicted, finiteRows };
 }

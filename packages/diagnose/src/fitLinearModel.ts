@@ -1,4 +1,6 @@
 import { Matrix, SingularValueDecomposition } from '@motorprint/estimate/matrices';
+import { linearRows } from './linearSums.js';
+import { KERNEL_MIN } from './passes.js';
 import type { LinearFit } from './types.js';
 
 /** Rows per block of the one-sweep sums (a few columns of it stay in the L1/L2 cache). */
@@ -44,7 +46,11 @@ export function fitLinearModel(columns: readonly Float64Array[], y: Float64Array
   const xy = new Float64Array(p);
   const cross = new Float64Array(p * p);
   let check = 0;
-  if (p === 2) check = sumsOfTwo(columns[0]!, columns[1]!, y, sq, xy, cross);
+  // Many rows of two or three columns (the residual and recording detectors' fits): through the
+  // WebAssembly kernel, the same sums (linearSums.ts).
+  const kernel = n >= KERNEL_MIN ? linearRows(columns, y) : null;
+  if (kernel !== null) check = kernel.sums(sq, xy, cross);
+  else if (p === 2) check = sumsOfTwo(columns[0]!, columns[1]!, y, sq, xy, cross);
   else if (p === 3) check = sumsOfThree(columns[0]!, columns[1]!, columns[2]!, y, sq, xy, cross);
   else for (let k0 = 0; k0 < n; k0 += BLOCK) {
     const k1 = Math.min(n, k0 + BLOCK);
@@ -108,7 +114,7 @@ export function fitLinearModel(columns: readonly Float64Array[], y: Float64Array
     for (let j = 0; j < p; j++) s += Ainv[i * p + j]! * b[j]!;
     beta[i] = s / scale[i]!;
   }
-  const ssr = sumOfSquaredResiduals(columns, beta, y);
+  const ssr = kernel !== null ? kernel.ssr(beta) : sumOfSquaredResiduals(columns, beta, y);
   const s2 = ssr / (n - p);
   const covariance = new Float64Array(p * p);
   const standardErrors = new Float64Array(p);
@@ -124,7 +130,7 @@ export function fitLinearModel(columns: readonly Float64Array[], y: Float64Array
  * Σ_k (y_k − Σ_j β_j·x_jk)², each residual formed as y − β₀x₀ − β₁x₁ − … in that order (written
  * out for up to four columns, the loop over columns beyond).
  */
-function sumOfSquaredResiduals(columns: readonly Float64Array[], beta: Float64Array, y: Float64Array): number {
+export function sumOfSquaredResiduals(columns: readonly Float64Array[], beta: Float64Array, y: Float64Array): number {
   const n = y.length;
   const p = columns.length;
   let ssr = 0;
@@ -152,7 +158,7 @@ function sumOfSquaredResiduals(columns: readonly Float64Array[], beta: Float64Ar
  * blocked loop of `fitLinearModel` takes it): Σa², Σb² into sq, Σa·y, Σb·y into xy, Σa·b into
  * cross[1]; returns Σ y·0 (0, or NaN when some y is not finite).
  */
-function sumsOfTwo(a: Float64Array, b: Float64Array, y: Float64Array, sq: Float64Array, xy: Float64Array, cross: Float64Array): number {
+export function sumsOfTwo(a: Float64Array, b: Float64Array, y: Float64Array, sq: Float64Array, xy: Float64Array, cross: Float64Array): number {
   const n = y.length;
   let check = 0, aa = 0, bb = 0, ay = 0, by = 0, ab = 0;
   for (let k = 0; k < n; k++) {
@@ -166,7 +172,7 @@ function sumsOfTwo(a: Float64Array, b: Float64Array, y: Float64Array, sq: Float6
 }
 
 /** `sumsOfTwo` for three columns (cross[p·i + j] for i < j, p = 3). */
-function sumsOfThree(a: Float64Array, b: Float64Array, c: Float64Array, y: Float64Array, sq: Float64Array, xy: Float64Array, cross: Float64Array): number {
+export function sumsOfThree(a: Float64Array, b: Float64Array, c: Float64Array, y: Float64Array, sq: Float64Array, xy: Float64Array, cross: Float64Array): number {
   const n = y.length;
   let check = 0, aa = 0, bb = 0, cc = 0, ay = 0, by = 0, cy = 0, ab = 0, ac = 0, bc = 0;
   for (let k = 0; k < n; k++) {

@@ -3,6 +3,8 @@
  */
 import { estimateNoiseLevel, medianInterval } from '@motorprint/estimate';
 import type { NoiseLevel } from '@motorprint/estimate';
+import { firstNotFiniteOf, trendSums } from './passes.js';
+import type { TrendSums } from './passes.js';
 import type { RecordingLike } from './types.js';
 
 export { medianInterval } from '@motorprint/estimate';
@@ -81,7 +83,7 @@ export function checkRecording(fn: string, rec: RecordingLike): { n: number; dt:
     if (v === undefined) continue;
     if (!(v instanceof Float64Array)) throw new TypeError(`${fn}: recording.channels.${name} must be a Float64Array`);
     if (v.length !== n) throw new TypeError(`${fn}: recording.channels.${name} has ${v.length} samples, time has ${n}`);
-    const k = firstNotFinite(v);
+    const k = firstNotFiniteOf(v);
     if (k >= 0) throw new RangeError(`${fn}: recording.channels.${name}[${k}] must be finite (got ${v[k]})`);
   }
   const dt = intervalOf(rec.time);
@@ -113,37 +115,22 @@ export function sig(x: number): number {
  * standard error inflated for AR(1) residuals by √((1 + r₁)/(1 − r₁)), r₁ the lag-1
  * autocorrelation of the fitted residuals clamped to [0, 0.98] (the usual effective-sample-size
  * correction for serially correlated errors). NaN fields when fewer than 8 rows or x is constant.
+ * The passes over the rows are `sums` (`trendSums` of passes.ts, made here unless the caller
+ * needs them too).
  */
-export function slopeWithSerialCorrection(x: Float64Array, y: Float64Array): { slope: number; intercept: number; se: number; rows: number; lag1: number; sd: number } {
-  const n = y.length;
-  let m = 0, sx = 0, sy = 0;
-  for (let k = 0; k < n; k++) if (Number.isFinite(y[k]!) && Number.isFinite(x[k]!)) { m++; sx += x[k]!; sy += y[k]!; }
+export function slopeWithSerialCorrection(x: Float64Array, y: Float64Array, sums: TrendSums = trendSums(x, y)): { slope: number; intercept: number; se: number; rows: number; lag1: number; sd: number } {
+  const { m, sx, sy } = sums;
   const bad = { slope: NaN, intercept: NaN, se: NaN, rows: m, lag1: NaN, sd: NaN };
   if (m < 8) return bad;
   const xb = sx / m, yb = sy / m;
-  // Every row finite (the usual case): the same sums without the row tests.
-  const all = m === n;
-  let sxx = 0, sxy = 0;
-  if (all) {
-    for (let k = 0; k < n; k++) { const dx = x[k]! - xb; sxx += dx * dx; sxy += dx * (y[k]! - yb); }
-  } else {
-    for (let k = 0; k < n; k++) if (Number.isFinite(y[k]!) && Number.isFinite(x[k]!)) { const dx = x[k]! - xb; sxx += dx * dx; sxy += dx * (y[k]! - yb); }
-  }
+  const { sxx, sxy } = sums.moments(xb, yb);
   if (!(sxx > 0)) return bad;
   const slope = sxy / sxx, intercept = yb - slope * xb;
-  let ss = 0, s1 = 0, prev = NaN;
-  for (let k = 0; k < n; k++) {
-    if (!all && (!Number.isFinite(y[k]!) || !Number.isFinite(x[k]!))) { prev = NaN; continue; }
-    const e = y[k]! - intercept - slope * x[k]!;
-    ss += e * e;
-    if (Number.isFinite(prev)) s1 += e * prev;
-    prev = e;
-  }
+  const { ss, s1 } = sums.lagOne(intercept, slope);
   const r1 = ss > 0 ? Math.min(0.98, Math.max(0, s1 / ss)) : 0;
   const s2 = ss / (m - 2);
   return { slope, intercept, se: Math.sqrt(s2 / sxx) * Math.sqrt((1 + r1) / (1 - r1)), rows: m, lag1: r1, sd: Math.sqrt(s2) };
 }
-
 
 /** Index of the first sample of x that is not finite, or −1 (one small loop for every channel, optimised once). */
 export function firstNotFinite(x: Float64Array): number {

@@ -1,6 +1,7 @@
 import { zeroPhaseLowPass } from '@motorprint/estimate';
 import { compareNestedModels } from './compareNestedModels.js';
 import { noiseLevel } from './internal.js';
+import { speedScan } from './passes.js';
 import { fitLinearModel } from './fitLinearModel.js';
 import type { LinearFit, ModelComparison } from './types.js';
 
@@ -135,23 +136,15 @@ export function mechanicalRegressionOf(input: MechanicalRegressionInput, finiteC
     // Position noise σq becomes speed noise ≈ σq/h (difference of two samples, divided by 2h).
     rawSigma = noiseLevel(position!).sigma / h;
   }
-  const acc = new Float64Array(n);
   // The central differences and the speed's range in one pass (the range still read in order of k).
-  let wmin = Infinity, wmax = -Infinity;
-  const h2 = 2 * h;
-  for (let k = 0; k < n; k++) {
-    const v = w[k]!;
-    if (v < wmin) wmin = v;
-    if (v > wmax) wmax = v;
-    if (k >= 1 && k + 1 < n) acc[k] = (w[k + 1]! - w[k - 1]!) / h2;
-  }
+  const scan = speedScan(w, 2 * h);
+  const { acc, wmin, wmax } = scan;
   acc[0] = acc[1]!;
   acc[n - 1] = acc[n - 2]!;
   // Filtered white noise keeps the fraction ≈ √(2·fc·h·(π/4)) of its SD (4th-order response, squared by the two passes);
   // √(2·fc·h) is used as a slightly generous bound.
   const deadBand = 4 * rawSigma * Math.sqrt(Math.min(1, 2 * fc * h)) + 1e-3 * (wmax - wmin);
-  const sgnRaw = new Float64Array(n);
-  for (let k = 0; k < n; k++) sgnRaw[k] = w[k]! > deadBand ? 1 : w[k]! < -deadBand ? -1 : 0;
+  const sgnRaw = scan.sign(deadBand);
   const sgn = lp(sgnRaw);
   const rows: number[] = [];
   for (let k = 0; k < n; k += dec) rows.push(k);

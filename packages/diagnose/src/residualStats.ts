@@ -1,6 +1,7 @@
 import { autocorrelationOfDeviations } from './autocorrelationInto.js';
 import { ljungBoxTest } from './ljungBoxTest.js';
 import { runsFromCounts } from './runsTest.js';
+import { residualPasses } from './passes.js';
 import type { ResidualStats } from './types.js';
 
 /** z_{0.975} of the standard normal (the ±1.96/√n whiteness band; common practice). */
@@ -38,21 +39,14 @@ export function residualStats(measured: Float64Array, predicted: Float64Array, m
   if (!(predicted instanceof Float64Array) || predicted.length !== measured.length) {
     throw new TypeError(`${fn}: predicted must be a Float64Array of length ${measured.length}`);
   }
-  const N = measured.length;
-  const e = new Float64Array(N);
-  const { n, sy, se } = finiteResiduals(measured, predicted, e);
+  const passes = residualPasses(measured, predicted);
+  const n = passes.n;
   if (n < 8) throw new RangeError(`${fn}: need at least 8 finite sample pairs (got ${n})`);
-  const res = e.subarray(0, n);
   const m = maxLag ?? Math.min(50, Math.floor(n / 4));
   if (!Number.isInteger(m) || m < 1 || m >= n) throw new RangeError(`${fn}: maxLag must be an integer in [1, ${n - 1}] (got ${maxLag})`);
-  const ybar = sy / n;
-  // The residuals' mean and deviations for the autocorrelation, in the same pass as the sums of
-  // squares (the numbers `autocorrelationInto` would compute: the same plain sum for the mean).
-  const mean = se / n;
-  // The deviations overwrite the residuals in place (each residual is read just before its slot is
-  // written, and nothing reads the residuals after this pass): one array of n fewer.
-  const dev = res;
-  const { c0, see, cee, syy, cyy, above, below, runs } = residualSums(measured, predicted, res, dev, mean, ybar, n === N);
+  // The residuals' deviations from their mean for the autocorrelation, from the same pass as the
+  // sums of squares (the numbers `autocorrelationInto` would compute: the same plain sum for the mean).
+  const { se, dev, c0, see, cee, syy, cyy, above, below, runs } = passes;
   const sse = see + cee;
   const sst = syy + cyy;
   const rms = Math.sqrt(sse / n);
@@ -72,61 +66,4 @@ export function residualStats(measured: Float64Array, predicted: Float64Array, m
     ljungBox: ljungBoxTest(acf, n),
     runs: runsFromCounts(runs, above, below),
   };
-}
-
-/** e[0…n) = ŷ − y over the rows where both are finite, with n, Σy and Σe (in order of k; a kernel of its own). */
-function finiteResiduals(measured: Float64Array, predicted: Float64Array, e: Float64Array): { n: number; sy: number; se: number } {
-  const N = measured.length;
-  let n = 0;
-  let sy = 0, se = 0;
-  for (let k = 0; k < N; k++) {
-    const y = measured[k]!;
-    const yh = predicted[k]!;
-    if (!Number.isFinite(y) || !Number.isFinite(yh)) continue;
-    const r = yh - y;
-    e[n++] = r;
-    sy += y;
-    se += r;
-  }
-  return { n, sy, se };
-}
-
-/**
- * The pass over the kept rows (all of them when `all`): the deviations from `mean` into dev (which
- * may be res itself: res[j] is read before dev[j] is written) with
- * c0 = Σ dev², the compensated Σe² and Σ(y − ȳ)², and the runs test's counts (a kernel of its own).
- */
-function residualSums(measured: Float64Array, predicted: Float64Array, res: Float64Array, dev: Float64Array, mean: number, ybar: number, all: boolean):
-  { c0: number; see: number; cee: number; syy: number; cyy: number; above: number; below: number; runs: number } {
-  const N = measured.length;
-  let c0 = 0;
-  // Compensated (Neumaier) sums: the squares of 1e6 residuals lose digits in a plain sum.
-  let see = 0, cee = 0, syy = 0, cyy = 0;
-  // The runs test's counts on the signs of e about 0 (as runsTest counts them), in the same pass.
-  let above = 0, below = 0, runs = 0, last = 0;
-  let j = 0;
-  for (let k = 0; k < N; k++) {
-    const y = measured[k]!;
-    if (!all && (!Number.isFinite(y) || !Number.isFinite(predicted[k]!))) continue;
-    const r = res[j]!;
-    const v = r - mean;
-    dev[j++] = v;
-    c0 += v * v;
-    const a = r * r;
-    const t1 = see + a;
-    cee += Math.abs(see) >= a ? see - t1 + a : a - t1 + see;
-    see = t1;
-    const d = (y - ybar) * (y - ybar);
-    const t2 = syy + d;
-    cyy += Math.abs(syy) >= d ? syy - t2 + d : d - t2 + syy;
-    syy = t2;
-    if (r !== 0) {
-      const sign = r > 0 ? 1 : -1;
-      if (sign > 0) above++;
-      else below++;
-      if (sign !== last) runs++;
-      last = sign;
-    }
-  }
-  return { c0, see, cee, syy, cyy, above, below, runs };
 }
