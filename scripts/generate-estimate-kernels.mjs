@@ -145,6 +145,13 @@ function sumSquares() {
 
 // ---- free-run passes (motor/sweepLinearModel.ts) ----
 const g = (n) => `(local.get $${n})`;
+/** The head of every row loop: k from k0 while k < k1 (the block $done / loop $next the body closes). */
+function rowLoopHead() {
+  emit('    (local.set $k (local.get $k0))');
+  emit('    (block $done');
+  emit('      (br_if $done (i32.ge_s (local.get $k) (local.get $k1)))');
+  emit('      (loop $next');
+}
 const put = (n, e) => `(local.set $${n} ${e})`;
 const mul = (a, b) => `(f64.mul ${a} ${b})`;
 /** a + b + c + … added left to right, as JavaScript does. */
@@ -172,10 +179,7 @@ function freeRunValues() {
   SCALARS.forEach((x, e) => emit(blockF64(x, 72 + e)));
   emit(`    ${put('n', '(i32.trunc_f64_s (local.get $nf))')}`);
   emit(`    ${put('xt1', mul(g('t1'), g('tau')))} ${put('xt2', mul(g('t2'), g('tau')))}`);
-  emit('    (local.set $k (local.get $k0))');
-  emit('    (block $done');
-  emit('      (br_if $done (i32.ge_s (local.get $k) (local.get $k1)))');
-  emit('      (loop $next');
+  rowLoopHead();
   emit(`        ${put('kb', '(i32.shl (local.get $k) (i32.const 3))')}`);
   emit('        (if (local.get $cls)');
   emit(`          (then ${put('v', '(f64.load (i32.add (local.get $levels) (i32.shl (i32.load (i32.add (local.get $cls) (i32.shl (local.get $k) (i32.const 2)))) (i32.const 3))))')})`);
@@ -210,10 +214,7 @@ function intervalIndex() {
   emit('  ;; returns the table size, or −1 past cap entries. The last two intervals seen are tried first (logged times alternate).');
   emit('  (func (export "intervalIndex") (param $time i32) (param $k0 i32) (param $k1 i32) (param $idx i32) (param $table i32) (param $cap i32) (result i32)');
   emit('    (local $k i32) (local $j i32) (local $count i32) (local $last i32) (local $prev i32) (local $h f64) (local $bits i64) (local $pt i32)');
-  emit('    (local.set $k (local.get $k0))');
-  emit('    (block $done');
-  emit('      (br_if $done (i32.ge_s (local.get $k) (local.get $k1)))');
-  emit('      (loop $next');
+  rowLoopHead();
   emit('        (local.set $pt (i32.add (local.get $time) (i32.shl (local.get $k) (i32.const 3))))');
   emit('        (local.set $h (f64.sub (f64.load offset=8 (local.get $pt)) (f64.load (local.get $pt))))');
   emit('        (local.set $bits (i64.reinterpret_f64 (local.get $h)))');
@@ -268,10 +269,7 @@ function freeRunEffects() {
   emit(`    ${put('kappa', `(f64.load offset=${8 * 11} (local.get $E))`)}`);
   emit(`    ${put('R', `(f64.load offset=${8 * 12} (local.get $E))`)}`);
   for (let c = 0; c < 4; c++) emit(`    ${put(`c${c}`, `(i32.add (local.get $jac) (i32.shl (i32.trunc_f64_s (f64.load offset=${8 * (13 + c)} (local.get $E))) (i32.const 3)))`)}`);
-  emit('    (local.set $k (local.get $k0))');
-  emit('    (block $done');
-  emit('      (br_if $done (i32.ge_s (local.get $k) (local.get $k1)))');
-  emit('      (loop $next');
+  rowLoopHead();
   for (const [ch, sc] of [['i', 'sI'], ['w', 'sW']]) {
     emit(`        ${put('rb', '(i32.shl (local.get $row) (i32.const 3))')}`);
     ['eT', 'eC', 'eF', 'eG'].forEach((x, c) => emit(`        (f64.store ${at(`c${c}`, 'rb')} ${mul(g(`${x}${ch}`), g(sc))})`));
@@ -393,10 +391,7 @@ function freeRunPassSimd(name, basis) {
     emit(`    ${put('colU', `(i32.trunc_f64_s (f64.load offset=${8 * 92} (local.get $P)))`)}`);
     emit(`    ${put('uI', mul(g('uScale'), g('sI')))} ${put('uW', mul(g('uScale'), g('sW')))}`);
   }
-  emit('    (local.set $k (local.get $k0))');
-  emit('    (block $done');
-  emit('      (br_if $done (i32.ge_s (local.get $k) (local.get $k1)))');
-  emit('      (loop $next');
+  rowLoopHead();
   emit(`        ${put('kb', '(i32.shl (local.get $k) (i32.const 3))')}`);
   if (basis) {
     emit(`        ${put('q', '(i32.load (i32.add (local.get $cls) (i32.shl (local.get $k) (i32.const 2))))')}`);

@@ -3,3 +3,4 @@
  * @packageDocumentation
  */
 export { expectClose } from './expectClose.js';
+export { firstDifference } from './firstDifference.js';

@@ -1,3 +1,4 @@
+import { firstDifference } from '@motorprint/testkit';
 import fc from 'fast-check';
 import { afterEach, describe, expect, it } from 'vitest';
 import { estimateKernel, useKernels } from '../estimateKernels.js';
@@ -7,6 +8,7 @@ import { createNormalEquations } from '../solver/createNormalEquations.js';
 import { sumChunkWasm, sumSquaresWasm } from '../solver/sumChunkKernel.js';
 import { sumChunkTiled } from '../solver/sumChunkTiled.js';
 import { sumChunkUnrolled } from '../solver/sumChunkUnrolled.js';
+import { expectSameNormalEquations } from './sameNormalEquations.js';
 
 afterEach(() => { useKernels.on = true; });
 
@@ -27,12 +29,6 @@ const chunkCase = fc
       J: fc.array(value, { minLength: p * (rows + pad), maxLength: p * (rows + pad) }).map((a) => Float64Array.from(a)),
     }));
 
-/** Index of the first entry that differs (Object.is), or −1. */
-function firstDifference(a: Float64Array, b: Float64Array): number {
-  if (a.length !== b.length) return 0;
-  for (let i = 0; i < a.length; i++) if (!Object.is(a[i], b[i])) return i;
-  return -1;
-}
 
 describe('the WebAssembly chunk sums', () => {
   it('run here (so the comparisons below test the kernel, not the fallback)', () => {
@@ -93,12 +89,7 @@ describe('the WebAssembly chunk sums', () => {
           addChunkSums(viaLoops, withJ, rows);
           expect(Object.is(s1, s2)).toBe(true);
         }
-        expect(firstDifference(viaKernel.JtJ, viaLoops.JtJ)).toBe(-1);
-        expect(firstDifference(viaKernel.Jtr, viaLoops.Jtr)).toBe(-1);
-        expect(firstDifference(viaKernel.high, viaLoops.high)).toBe(-1);
-        expect(firstDifference(viaKernel.low, viaLoops.low)).toBe(-1);
-        expect(Object.is(viaKernel.ssr, viaLoops.ssr)).toBe(true);
-        expect(viaKernel.rows).toBe(viaLoops.rows);
+        expectSameNormalEquations(viaKernel, viaLoops);
       }), { numRuns: 100 });
   });
 });

@@ -6,6 +6,7 @@
  * the residual series and the accumulated normal equations must be the same bits; and whole fits
  * must give the same result to the bit with the kernels on and off.
  */
+import { firstDifference } from '@motorprint/testkit';
 import fc from 'fast-check';
 import { afterEach, describe, expect, it } from 'vitest';
 import { useKernels } from '../estimateKernels.js';
@@ -16,16 +17,10 @@ import type { SweepBuffers, SweepSpec } from '../motor/sweepLinearModel.js';
 import { accumulateNormalEquations } from '../solver/accumulateNormalEquations.js';
 import { createNormalEquations } from '../solver/createNormalEquations.js';
 import { INVENTED_MOTORS, invented } from './motorFixtures.js';
+import { expectSameNormalEquations } from './sameNormalEquations.js';
 
 afterEach(() => { useKernels.on = true; });
 
-/** Index of the first entry that differs (Object.is), or −1. */
-function firstDifference(a: ArrayLike<number> | null, b: ArrayLike<number> | null): number {
-  if (a === null || b === null) return a === b ? -1 : 0;
-  if (a.length !== b.length) return 0;
-  for (let i = 0; i < a.length; i++) if (!Object.is(a[i], b[i])) return i;
-  return -1;
-}
 
 /** A small deterministic generator (the property gives the seed). */
 function generator(seed: number): () => number {
@@ -108,13 +103,7 @@ describe('the WebAssembly free-run passes', () => {
       expect(firstDifference(wasm.s.outI, js.s.outI)).toBe(-1);
       expect(firstDifference(wasm.s.outW, js.s.outW)).toBe(-1);
       if (js.b.acc !== null) {
-        const a = wasm.b.acc!, e = js.b.acc;
-        expect(firstDifference(a.high, e.high)).toBe(-1);
-        expect(firstDifference(a.low, e.low)).toBe(-1);
-        expect(firstDifference(a.JtJ, e.JtJ)).toBe(-1);
-        expect(firstDifference(a.Jtr, e.Jtr)).toBe(-1);
-        expect(Object.is(a.ssr, e.ssr)).toBe(true);
-        expect(a.rows).toBe(e.rows);
+        expectSameNormalEquations(wasm.b.acc!, js.b.acc);
       }
     }), { numRuns: 200 });
     expect(taken).toBeGreaterThanOrEqual(free);

@@ -3,6 +3,7 @@
  * the same bits (Object.is on every element), on random series with the things logs have —
  * repeats and grids, NaN and infinite gaps, signed zeros, odd lengths.
  */
+import { firstDifference } from '@motorprint/testkit';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { differenceStats, differenceStatsKernel, gridStepKernel, gridStepPlain, sameSamples } from '../motor/estimateNoiseLevel.js';
@@ -31,11 +32,7 @@ const gappySeries = fc
   .map((a) => Float64Array.from(a));
 
 /** Element-by-element Object.is (tells −0 from +0 and compares NaN with itself). */
-function sameBits(a: Float64Array, b: Float64Array): boolean {
-  if (a.length !== b.length) return false;
-  for (let k = 0; k < a.length; k++) if (!Object.is(a[k], b[k])) return false;
-  return true;
-}
+const sameBits = (a: Float64Array, b: Float64Array): boolean => firstDifference(a, b) === -1;
 
 describe('the sample kernels', () => {
   it('compile here (WebAssembly is part of every Node the package supports)', () => {
