@@ -145,6 +145,18 @@ function sumSquares() {
 
 // ---- free-run passes (motor/sweepLinearModel.ts) ----
 const g = (n) => `(local.get $${n})`;
+/**
+ * A measured channel's residual row: res = model − measured (the model i + offset or ω), kept in the
+ * output series when asked, and res·scale appended to r at the row counter (which the caller steps).
+ */
+function residualRow(ch, meas, out, sc) {
+  emit(`        (if (local.get $${meas}) (then`);
+  const model = ch === 'i' ? sum(g('i'), g('off')) : g('w');
+  emit(`          ${put('res', `(f64.sub ${model} (f64.load ${at(meas, 'kb')}))`)}`);
+  emit(`          (if (local.get $${out}) (then (f64.store ${at(out, 'kb')} (local.get $res))))`);
+  emit(`          ${put('rb', '(i32.shl (local.get $rows) (i32.const 3))')}`);
+  emit(`          (f64.store ${at('r', 'rb')} ${mul(g('res'), g(sc))})`);
+}
 /** The head of every row loop: k from k0 while k < k1 (the block $done / loop $next the body closes). */
 function rowLoopHead() {
   emit('    (local.set $k (local.get $k0))');
@@ -185,12 +197,7 @@ function freeRunValues() {
   emit(`          (then ${put('v', '(f64.load (i32.add (local.get $levels) (i32.shl (i32.load (i32.add (local.get $cls) (i32.shl (local.get $k) (i32.const 2)))) (i32.const 3))))')})`);
   emit(`          (else ${put('v', `(f64.load ${at('input', 'kb')})`)}))`);
   for (const [ch, meas, out, sc] of [['i', 'mi', 'outI', 'sI'], ['w', 'mw', 'outW', 'sW']]) {
-    emit(`        (if (local.get $${meas}) (then`);
-    const model = ch === 'i' ? sum(g('i'), g('off')) : g('w');
-    emit(`          ${put('res', `(f64.sub ${model} (f64.load ${at(meas, 'kb')}))`)}`);
-    emit(`          (if (local.get $${out}) (then (f64.store ${at(out, 'kb')} (local.get $res))))`);
-    emit(`          ${put('rb', '(i32.shl (local.get $rows) (i32.const 3))')}`);
-    emit(`          (f64.store ${at('r', 'rb')} ${mul(g('res'), g(sc))})`);
+    residualRow(ch, meas, out, sc);
     emit('          (local.set $rows (i32.add (local.get $rows) (i32.const 1)))))');
   }
   emit('        (br_if $done (i32.ge_s (i32.add (local.get $k) (i32.const 1)) (local.get $n)))');
@@ -406,12 +413,7 @@ function freeRunPassSimd(name, basis) {
   for (const q of SLOTS) emit(`        ${put(`Y${q}`, vmul(g(`S${q}`), g('SC')))}`);
   emit(`        ${put('YT', vmul(g('T'), g('TC')))} ${put('YL', vmul(g('T'), g('LD')))}`);
   for (const [ch, meas, out, sc, ln] of [['i', 'mi', 'outI', 'sI', 0], ['w', 'mw', 'outW', 'sW', 1]]) {
-    emit(`        (if (local.get $${meas}) (then`);
-    const model = ch === 'i' ? sum(g('i'), g('off')) : g('w');
-    emit(`          ${put('res', `(f64.sub ${model} (f64.load ${at(meas, 'kb')}))`)}`);
-    emit(`          (if (local.get $${out}) (then (f64.store ${at(out, 'kb')} (local.get $res))))`);
-    emit(`          ${put('rb', '(i32.shl (local.get $rows) (i32.const 3))')}`);
-    emit(`          (f64.store ${at('r', 'rb')} ${mul(g('res'), g(sc))})`);
+    residualRow(ch, meas, out, sc);
     SLOTS.forEach((q, j) => emit(`          (v128.store64_lane ${ln} ${at(COLS[j], 'rb')} (local.get $Y${q}))`));
     emit(`          (v128.store64_lane ${ln} ${at('jT', 'rb')} (local.get $YT))`);
     emit(`          (v128.store64_lane ${ln} ${at('jLd', 'rb')} (local.get $YL))`);
