@@ -46,6 +46,13 @@ export type FreeRunKernel = (
   mi: number, mw: number, outI: number, outW: number, input: number, cls: number, levels: number,
 ) => number;
 
+/**
+ * Series shorter than this take the JavaScript loops, in every kernel of the package: their cold
+ * cost is small and the copy into a kernel's memory would cost as much (common practice, no source:
+ * a few hundred elements).
+ */
+export const KERNEL_MIN_LENGTH = 256;
+
 /** The kernel module (compiled on first use; `room` is null where WebAssembly is missing). */
 export const estimateKernel = createKernel<EstimateKernelExports>(wasm);
 

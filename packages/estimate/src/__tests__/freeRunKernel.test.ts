@@ -10,7 +10,8 @@ import { firstDifference } from '@motorprint/testkit';
 import fc from 'fast-check';
 import { afterEach, describe, expect, it } from 'vitest';
 import { useKernels } from '../estimateKernels.js';
-import { KERNEL_MIN_SAMPLES, freeRunInKernel, kernelRuns } from '../motor/freeRunKernel.js';
+import { KERNEL_MIN_LENGTH } from '../estimateKernels.js';
+import { freeRunInKernel, kernelRuns } from '../motor/freeRunKernel.js';
 import { fitMotor, scoreMotorExtensions } from '../motor/fitMotor.js';
 import { sweepLinearModel } from '../motor/sweepLinearModel.js';
 import type { SweepBuffers, SweepSpec } from '../motor/sweepLinearModel.js';
@@ -31,7 +32,7 @@ function generator(seed: number): () => number {
 interface Case { n: number; st: number; hasI: boolean; hasW: boolean; levels: boolean; keep: boolean; wantJ: boolean; acc: boolean; stuck: boolean; tied: boolean; effects: boolean; jitter: boolean; basis: boolean; odd: number; seed: number }
 
 const cases = fc.record({
-  n: fc.integer({ min: KERNEL_MIN_SAMPLES, max: 5000 }),
+  n: fc.integer({ min: KERNEL_MIN_LENGTH, max: 5000 }),
   st: fc.integer({ min: 1030, max: 3000 }),
   hasI: fc.boolean(), hasW: fc.boolean(), levels: fc.boolean(), keep: fc.boolean(), wantJ: fc.boolean(), acc: fc.boolean(),
   stuck: fc.boolean(), tied: fc.boolean(), effects: fc.boolean(), jitter: fc.boolean(), basis: fc.boolean(), odd: fc.integer({ min: 0, max: 3 }), seed: fc.integer(),
@@ -115,7 +116,7 @@ describe('the WebAssembly free-run passes', () => {
     const { b, s } = setUp(c);
     expect(freeRunInKernel(b, s, 0, s.n)).toBe(true);
     expect(b.rows).toBeGreaterThan(0);
-    const short = setUp({ ...c, n: KERNEL_MIN_SAMPLES - 1 });
+    const short = setUp({ ...c, n: KERNEL_MIN_LENGTH - 1 });
     expect(freeRunInKernel(short.b, short.s, 0, short.s.n)).toBe(false);
     useKernels.on = false;
     expect(freeRunInKernel(b, s, 0, s.n)).toBe(false);

@@ -1,4 +1,4 @@
-import { claimKernelMemory, estimateKernel, useKernels } from '../estimateKernels.js';
+import { claimKernelMemory, estimateKernel, KERNEL_MIN_LENGTH, useKernels } from '../estimateKernels.js';
 
 /** Sums of one channel's fit summary (internal; see `channelSums`). */
 export interface ChannelSums {
@@ -9,9 +9,6 @@ export interface ChannelSums {
   /** Σ r[k]² of the residuals (0 without residuals). */
   squares: number;
 }
-
-/** Fewest samples worth copying into the kernel's memory. */
-const KERNEL_MIN = 256;
 
 /**
  * The sums of a channel's fit summary in `fitMotor`: the measurements' spread about their mean
@@ -28,7 +25,7 @@ const KERNEL_MIN = 256;
 export function channelSums(meas: Float64Array, res: Float64Array | null, from: number): ChannelSums {
   const count = meas.length > from ? meas.length - from : 0;
   const nr = res === null || res.length <= from ? 0 : res.length - from;
-  if (useKernels.on && count >= KERNEL_MIN && from >= 0) {
+  if (useKernels.on && count >= KERNEL_MIN_LENGTH && from >= 0) {
     const room = estimateKernel.room(8 * (count + nr));
     if (room !== null) {
       const mem = room.f64, ex = room.exports;

@@ -1,13 +1,10 @@
-import { estimateKernel, kernelMemory, useKernels } from '../estimateKernels.js';
+import { estimateKernel, KERNEL_MIN_LENGTH, kernelMemory, useKernels } from '../estimateKernels.js';
 import { addChunkSums } from '../solver/accumulateNormalEquations.js';
 import { SUMS_SCRATCH, sumChunkInKernel } from '../solver/sumChunkKernel.js';
 import type { SweepBuffers, SweepSpec } from './sweepLinearModel.js';
 
 /** Samples per call of a run kernel (two rows each fit the chunk). */
 export const RUN_BLOCK = 512;
-
-/** Fewest samples of a run worth the copies into the kernel's memory. */
-export const KERNEL_MIN_SAMPLES = 256;
 
 /** Runs taken by the kernels so far (read by the tests, which check that their comparisons reach the kernels). */
 export const kernelRuns = { count: 0 };
@@ -61,7 +58,7 @@ const BLOCK_DOUBLES = 96;
  *   intervals with effect columns) or cannot run; the caller then runs the JavaScript loops
  */
 export function freeRunInKernel(b: SweepBuffers, s: SweepSpec, k0: number, k1: number): boolean {
-  if (!useKernels.on || k1 - k0 < KERNEL_MIN_SAMPLES || b.r.length !== b.st) return false;
+  if (!useKernels.on || k1 - k0 < KERNEL_MIN_LENGTH || b.r.length !== b.st) return false;
   const sens = b.wantJ;
   // The kernels read the input as levels[cls[k]] or input[k]; a fitted sine basis stays in JavaScript.
   const m = s.m;

@@ -37,11 +37,8 @@ export interface SampleKernels {
 /** The kernel module, compiled on first use. */
 export const sampleKernels = createKernel<SampleKernels>(wasm);
 
-/**
- * Series shorter than this take the JavaScript loops: their cold cost is small and copying into the
- * kernel's memory would cost as much (common practice, no source: a few hundred elements).
- */
-export const KERNEL_MIN_LENGTH = 256;
+/** Series shorter than this take the JavaScript loops (the package's one threshold). */
+export { KERNEL_MIN_LENGTH } from '../estimateKernels.js';
 
 /**
  * A channel's largest magnitude and sum (prepareRecording's one pass) through the kernel; null when
