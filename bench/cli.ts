@@ -10,7 +10,8 @@
  *    recordings (current + speed, exact command, noise σ 12 mA and 0.48 rad/s) of 1e5 and 1e6 samples,
  *    next to bench/peer_zoh_fit.py (numpy loadtxt + scipy least_squares on the exact ZOH model, one
  *    BLAS thread, started 50 % off) on the same file, taking turns, best of BENCH_REPEATS (default 3).
- *    "motorprint work" is the fit process minus a process that only loads fit's modules; the issue's
+ *    "motorprint work" is the fit process minus `motorprint fit --help` (the same executable loading
+ *    everything fit needs, from the bundle with its code cache where the build made one); the issue's
  *    ratio is that over the peer's load + fit. Goal ≤ 0.5× (stretch 0.2×), with the estimates right
  *    (every constant within 1 % of the truth, and for motorprint within 3 of its standard errors).
  *    The peer is skipped, with the reason printed, where python3 with numpy and scipy is absent.
@@ -137,7 +138,6 @@ function relErrors(e: Estimates): Record<keyof Estimates, number> {
 
 function endToEnd(): void {
   const peerMissing = peerAvailable();
-  const fitModule = join(root, 'packages', 'cli', 'dist', 'commands', 'fit.js');
   const rows: string[][] = [[
     'samples', 'who', 'process [s]', 'load-only [s]', 'work [s]', 'peer load+fit [s]', 'work / peer', 'process / peer',
     'R err', 'L err', 'K err', 'J err', 'b err', 'max |z|', 'right?',
@@ -148,7 +148,7 @@ function endToEnd(): void {
     const runs: { mp: Timed[]; load: Timed[]; peer: Timed[] } = { mp: [], load: [], peer: [] };
     for (let k = 0; k < REPEATS; k++) {
       runs.mp.push(timed(process.execPath, [cliMain, 'fit', file, '--json']));
-      runs.load.push(timed(process.execPath, ['--input-type=module', '-e', `await import(${JSON.stringify(fitModule)})`]));
+      runs.load.push(timed(process.execPath, [cliMain, 'fit', '--help']));
       if (peerMissing === null) {
         runs.peer.push(timed('python3', [join(root, 'bench', 'peer_zoh_fit.py'), file, JSON.stringify(START)], {
           env: childEnv({ OPENBLAS_NUM_THREADS: '1', OMP_NUM_THREADS: '1', MKL_NUM_THREADS: '1' }),
@@ -197,7 +197,8 @@ function endToEnd(): void {
   }
   console.log(`\n### End to end: fit FILE --json vs the numpy/scipy peer (best of ${REPEATS}, taking turns; goal work / peer ≤ 0.5, stretch 0.2)\n`);
   printTable(rows);
-  console.log('\nwork = process − load-only (a process that only imports the fit command\'s modules); errors are relative to the');
+  console.log('\nwork = process − load-only (`fit --help`: the same executable loading everything fit needs, as the fit does,');
+  console.log('and printing the help instead of fitting); errors are relative to the');
   console.log('true constants; right? = every error < 1 % (and for motorprint every |estimate − truth| < 3 standard errors).');
   for (const note of notes) console.log(note);
   if (peerMissing !== null) console.log(`peer skipped: ${peerMissing}`);

@@ -17,9 +17,9 @@
  * stay: they work, they only load more slowly.
  */
 import { execFileSync } from 'node:child_process';
-import { existsSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
-import { dirname, join, resolve } from 'node:path';
+import { dirname, join, relative, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '..');
@@ -68,4 +68,50 @@ if (esbuild !== null) {
     const text = `${MARK} from src/${name}.ts and the libraries it imports (see scripts/build.mjs)\n${out.outputFiles[0].text}`;
     if (!existsSync(file) || readFileSync(file, 'utf8') !== text) writeFileSync(file, text);
   }
+}
+
+// The command line's bundle and its V8 code cache (packages/cli/src/bundledCli.ts says why and how
+// they are used). Without esbuild there is no bundle and the command line runs from the modules.
+const cliDist = join(root, 'packages', 'cli', 'dist');
+const bundleFile = join(cliDist, 'motorprint.cjs');
+const cacheFile = `${bundleFile}.v8cache`;
+if (esbuild === null) {
+  rmSync(bundleFile, { force: true });
+  rmSync(cacheFile, { force: true });
+} else {
+  const lotCommand = join(cliDist, 'commands', 'lot.js');
+  const out = await esbuild.build({
+    entryPoints: [join(cliDist, 'runCli.js')],
+    absWorkingDir: root,
+    bundle: true,
+    format: 'cjs',
+    platform: 'node',
+    target: 'node20',
+    write: false,
+    metafile: true,
+    logLevel: 'warning',
+    // mathjs is large and loaded only for unusual units (ingest's units.ts, through require): the cli
+    // package depends on it so that it resolves from the bundle's folder.
+    external: ['mathjs'],
+    // import.meta.url serves createRequire (mathjs, Node built-ins): the bundle's own URL does.
+    define: { 'import.meta.url': '__motorprintBundleUrl' },
+    plugins: [{
+      // `lot` runs from the modules (its worker threads load them anyway): the bundle does not hold it.
+      name: 'lot-runs-from-the-modules',
+      setup(build) {
+        build.onResolve({ filter: /lot\.js$/ }, (args) =>
+          resolve(args.resolveDir, args.path) === lotCommand ? { path: './commands/lot.js', external: true } : undefined);
+      },
+    }],
+  });
+  // The packages' tsc build-info files: a bundle older than any of them is stale and not used.
+  const buildInfo = [...new Set(Object.keys(out.metafile.inputs).map((f) => f.match(/^(packages\/[^/]+)\/dist\//)?.[1]).filter(Boolean))]
+    .map((pkg) => relative(cliDist, join(root, pkg, 'dist', 'tsconfig.build.tsbuildinfo')))
+    .sort();
+  const head = `// motorprint: bundled by scripts/build.mjs from the tsc output of ${buildInfo.join(' ')}`;
+  const text = `${head}\nvar __motorprintBundleUrl = require('node:url').pathToFileURL(__filename).href;\n${out.outputFiles[0].text}`;
+  const changed = !existsSync(bundleFile) || readFileSync(bundleFile, 'utf8') !== text;
+  writeFileSync(bundleFile, text); // also when unchanged: it must be newer than tsc's output
+  if (changed) rmSync(cacheFile, { force: true });
+  execFileSync(process.execPath, [join(root, 'scripts', 'make-code-cache.mjs')], { cwd: root, stdio: 'inherit' });
 }

@@ -28,8 +28,8 @@ function cleanEnv(): NodeJS.ProcessEnv {
   return env;
 }
 
-function run(cmd: string, args: string[], cwd: string, timeout = 5 * MINUTE) {
-  const r = spawnSync(cmd, args, { cwd, env: cleanEnv(), encoding: 'utf8', timeout, maxBuffer: 64 << 20 });
+function run(cmd: string, args: string[], cwd: string, timeout = 5 * MINUTE, env: NodeJS.ProcessEnv = {}) {
+  const r = spawnSync(cmd, args, { cwd, env: { ...cleanEnv(), ...env }, encoding: 'utf8', timeout, maxBuffer: 64 << 20 });
   return { status: r.status, stdout: r.stdout ?? '', stderr: `${r.stderr ?? ''}${r.error ? String(r.error) : ''}` };
 }
 
@@ -101,6 +101,13 @@ describe('the packed packages installed with npm', () => {
     // in-repo CLI test of the same runs finds 1.9005 Ω).
     expectClose(doc.parameters.R.value, truthR, { rel: 0.01 }, 'R');
     expect(r.stderr).not.toContain('\u001b'); // stderr is a pipe here: no progress line
+    // Installed, fit runs from the CLI package's bundle with the code cache the packing build made
+    // (the same Node packed and runs it here), and gives the same set as the modules.
+    const shown = run(join(app, 'node_modules', '.bin', 'motorprint'), ['fit', ...RUNS, '--json'], app, 5 * MINUTE, { MOTORPRINT_SHOW_LOADING: '1' });
+    expect(shown.stderr.split('\n')[0]).toBe('motorprint: the bundle, code cache accepted');
+    const plain = run(join(app, 'node_modules', '.bin', 'motorprint'), ['fit', ...RUNS, '--json'], app, 5 * MINUTE, { MOTORPRINT_PLAIN_MODULES: '1' });
+    const undated = (t: string) => t.replace(/"date": "[^"]+"/, '"date": …');
+    expect(undated(plain.stdout)).toBe(undated(r.stdout));
   });
   it('serve a plain Node ESM lab script that imports readRecording and fitMotor from motorprint', (ctx) => {
     if (skipReason !== null) ctx.skip(skipReason);
