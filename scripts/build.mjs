@@ -96,11 +96,16 @@ if (esbuild === null) {
     // import.meta.url serves createRequire (mathjs, Node built-ins): the bundle's own URL does.
     define: { 'import.meta.url': '__motorprintBundleUrl' },
     plugins: [{
-      // `lot` runs from the modules (its worker threads load them anyway): the bundle does not hold it.
+      // `lot` runs from the modules (its worker threads load them anyway) and main.js never hands it to
+      // the bundle: the bundle holds, in its place, a module that says so if it is ever reached.
       name: 'lot-runs-from-the-modules',
       setup(build) {
         build.onResolve({ filter: /lot\.js$/ }, (args) =>
-          resolve(args.resolveDir, args.path) === lotCommand ? { path: './commands/lot.js', external: true } : undefined);
+          resolve(args.resolveDir, args.path) === lotCommand ? { path: 'lot', namespace: 'not-in-the-bundle' } : undefined);
+        build.onLoad({ filter: /.*/, namespace: 'not-in-the-bundle' }, () => ({
+          contents: "throw new Error('motorprint: the lot subcommand is not in the bundle; main.js runs it from the modules');",
+          loader: 'js',
+        }));
       },
     }],
   });
@@ -110,6 +115,10 @@ if (esbuild === null) {
     .sort();
   const head = `// motorprint: bundled by scripts/build.mjs from the tsc output of ${buildInfo.join(' ')}`;
   const text = `${head}\nvar __motorprintBundleUrl = require('node:url').pathToFileURL(__filename).href;\n${out.outputFiles[0].text}`;
+  // A script compiled from a code cache cannot import() (Node 20 loses its import callback), and the
+  // bundle's only dynamic imports were the subcommands, which esbuild inlines.
+  const dynamicImport = text.match(/.{0,60}[^\w$.]import\(.{0,60}/);
+  if (dynamicImport) throw new Error(`build: the command line's bundle would contain a dynamic import(): ${dynamicImport[0]}`);
   const changed = !existsSync(bundleFile) || readFileSync(bundleFile, 'utf8') !== text;
   writeFileSync(bundleFile, text); // also when unchanged: it must be newer than tsc's output
   if (changed) rmSync(cacheFile, { force: true });

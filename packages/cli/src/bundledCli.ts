@@ -15,9 +15,10 @@
  * The results are the same either way: the cache holds bytecode, never results.
  *
  * The plain ES modules stay, and are used for everything else: `--help`, `--version`, `lot` (its
- * worker threads load the packages' modules anyway), Node before 20.12 (no
- * `vm.constants.USE_MAIN_CONTEXT_DEFAULT_LOADER` for the script's dynamic imports), a build without
- * esbuild, a bundle older than the packages' tsc output, and whenever MOTORPRINT_PLAIN_MODULES is set.
+ * worker threads load the packages' modules anyway), a build without esbuild, a bundle older than the
+ * packages' tsc output, and whenever MOTORPRINT_PLAIN_MODULES is set. The bundle holds no dynamic
+ * `import()` (the build checks): Node 20 runs a script compiled from a code cache without its import
+ * callback.
  * MOTORPRINT_SHOW_LOADING=1 makes the executable say on stderr which it used and what V8 made of the
  * cache.
  */
@@ -46,7 +47,7 @@ export interface BundledCli {
 
 /**
  * Loads `dist/motorprint.cjs` from `distDir` with its code cache. Returns why not instead when there is
- * no bundle, when this Node cannot run it, or when it is stale: older than a package's last tsc output
+ * no bundle, when it does not load, or when it is stale: older than a package's last tsc output
  * (someone ran tsc without `pnpm build`). The caller then imports `runCli.js` as usual.
  *
  * @param distDir - the folder holding the bundle (the compiled `main.js`'s own folder)
@@ -54,8 +55,6 @@ export interface BundledCli {
  */
 export function loadBundledCli(distDir: string, options: { useCodeCache?: boolean } = {}): BundledCli | { unused: string } {
   const file = join(distDir, BUNDLE_FILE);
-  const importer = vm.constants?.USE_MAIN_CONTEXT_DEFAULT_LOADER;
-  if (importer === undefined) return { unused: `Node ${process.version} has no vm.constants.USE_MAIN_CONTEXT_DEFAULT_LOADER (Node 20.12 or later has)` };
   if (!existsSync(file)) return { unused: `there is no ${file} (pnpm build writes it where esbuild is installed)` };
   const source = readFileSync(file, 'utf8');
   const stale = staleBecause(source, file);
@@ -75,7 +74,6 @@ export function loadBundledCli(distDir: string, options: { useCodeCache?: boolea
     script = new vm.Script(`(function (exports, require, module, __filename, __dirname) {${source}\n})`, {
       filename: file,
       ...(cachedData ? { cachedData } : {}),
-      importModuleDynamically: importer,
     });
     (script.runInThisContext() as (...args: unknown[]) => void)(module.exports, createRequire(file), module, file, dirname(file));
   } catch (error) {

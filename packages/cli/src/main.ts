@@ -1,7 +1,7 @@
 #!/usr/bin/env node
 /**
  * The `motorprint` executable: wires the process (argv, stdout, stderr, env, exit code) to runCli.
- * This is the only module that touches `process` (bundledCli.ts reads its version for a message).
+ * This is the only module that touches `process`.
  */
 import { dirname } from 'node:path';
 import { fileURLToPath } from 'node:url';
