@@ -12,7 +12,7 @@ import { medianInPlace, selectKth, selectKthPlain } from '../motor/selectKth.js'
 import { timeLine, timeLineKernel } from '../motor/nominalTimeGrid.js';
 import { rmsDiff, rmsDiffPlain, segmentDifferences, segmentDifferencesKernel } from '../motor/rebuildCommand.js';
 import { countSteps, countStepsKernel } from '../motor/detectEncoderSpeed.js';
-import { largestMagnitude } from '../motor/classifyRecording.js';
+import { headAndEndSums, largestMagnitude, segmentMisfit } from '../motor/classifyRecording.js';
 import { fitMotor } from '../motor/fitMotor.js';
 import { crossSums, crossSumsKernel, derivativeKernel, derivativePlain } from '../motor/guessConstants.js';
 import { lowPassKernel, lowPassPlain, zeroPhaseLowPass } from '../motor/zeroPhaseLowPass.js';
@@ -298,6 +298,32 @@ describe('the sample kernels', () => {
       }),
       { seed: SEED, numRuns: 200 },
     );
+  });
+  it("the classification's sums: the same misfit over the voltage segments and the same head and end sums", () => {
+    const segmentsOf = fc.array(fc.nat({ max: 400 }), { minLength: 0, maxLength: 12 });
+    fc.assert(
+      fc.property(fc.oneof(finiteSeries, gappySeries), gappySeries, segmentsOf, fc.double({ noNaN: true, min: -50, max: 50 }), (v, w0, cuts, level) => {
+        const n = v.length;
+        // Segments in order over [0, n), the last cut at n, with levels that are and are not the data's.
+        const ends = [...new Set(cuts.map((c) => Math.min(n, c * 3)))].sort((a, b) => a - b).filter((e) => e > 0);
+        if (ends[ends.length - 1] !== n) ends.push(n);
+        const segs = ends.map((end, j) => ({ start: j === 0 ? 0 : ends[j - 1]!, end, level: j % 2 ? level : v[ends[j - 1] ?? 0]! }));
+        expect(Object.is(segmentMisfit(v, segs), segmentMisfit(v, segs, false))).toBe(true);
+        const w = Float64Array.from({ length: n }, (_, k) => w0[k % w0.length]!);
+        const tail = Math.max(KERNEL_MIN_LENGTH, Math.floor(n / 2));
+        const a = headAndEndSums(v, w, n, tail);
+        const b = headAndEndSums(v, w, n, tail, false);
+        for (const key of ['head', 'end', 'endSq', 'endSpeed'] as const) expect(Object.is(a[key], b[key]), key).toBe(true);
+      }),
+      { seed: SEED, numRuns: 300 },
+    );
+    // The comparison sees a change: one sample off by an ulp changes the misfit of its segment.
+    const v = Float64Array.from({ length: 1000 }, (_, k) => (k < 500 ? 1 : 3) + 1e-3 * Math.sin(k));
+    const segs = [{ start: 0, end: 500, level: 1 }, { start: 500, end: 1000, level: 3 }];
+    const before = segmentMisfit(v, segs);
+    v[700] = v[700]! * (1 + 2 ** -52);
+    expect(Object.is(segmentMisfit(v, segs), before)).toBe(false);
+    expect(Object.is(segmentMisfit(v, segs), segmentMisfit(v, segs, false))).toBe(true);
   });
   it('dot (the trimmed RMS sum) and the memo\'s bit-for-bit comparison', () => {
     fc.assert(

@@ -80,9 +80,7 @@ function classifyTurning(recording: RecordingData, voltage: Float64Array, speed:
   }
   if (current instanceof Float64Array) {
     const si = estimateNoiseLevel(current).sigma;
-    let head = 0, end = 0, endSq = 0, endSpeed = 0;
-    for (let k = 0; k < tail; k++) head += current[k]!;
-    for (let k = n - tail; k < n; k++) { end += current[k]!; endSq += current[k]! * current[k]!; endSpeed += Math.abs(speed[k]!); }
+    let { head, end, endSq, endSpeed } = headAndEndSums(current, speed, n, tail);
     head /= tail; end /= tail; endSpeed /= tail;
     // After the cut the current stays off: not only its mean but its swing is small (a rich
     // excitation's current keeps swinging about a small mean).
@@ -94,8 +92,7 @@ function classifyTurning(recording: RecordingData, voltage: Float64Array, speed:
   const sv = estimateNoiseLevel(voltage).sigma;
   if (opensCircuit(voltage, speed, sv, wmax)) return { kind: 'coast-down', reason: 'the voltage leaves its level and then follows the speed down (open-circuit voltage Ke·ω): a coast-down' };
   const segs = detectVoltageSegments(voltage, sv);
-  let q = 0;
-  for (const s of segs) for (let k = s.start; k < s.end; k++) q += (voltage[k]! - s.level) * (voltage[k]! - s.level);
+  const q = segmentMisfit(voltage, segs);
   // (`<=`: an exact command has no noise at all, q = σ = 0.)
   const piecewise = segs.length <= n / 8 && Math.sqrt(q / n) <= 1.5 * sv;
   if (!piecewise) return { kind: 'multisine', reason: 'smooth, varying voltage (rich excitation)' };
@@ -107,6 +104,56 @@ function classifyTurning(recording: RecordingData, voltage: Float64Array, speed:
     return { kind: 'prbs', reason: `piecewise-constant voltage switching ${segs.length - 1} times` };
   }
   return { kind: 'steady-state', reason: 'constant voltage throughout (one operating point)' };
+}
+
+/**
+ * Σ over the segments in order of Σ (v_k − level)² over each segment's samples; through the
+ * WebAssembly kernel for long series (the same operations in the same order, so the same bits).
+ * Exported for the tests.
+ */
+export function segmentMisfit(voltage: Float64Array, segs: readonly { start: number; end: number; level: number }[], useKernel = true): number {
+  const n = voltage.length;
+  const inside = segs.every((s) => Number.isInteger(s.start) && Number.isInteger(s.end) && s.start >= 0 && s.end <= n);
+  if (useKernel && n >= KERNEL_MIN_LENGTH && inside) {
+    const room = sampleKernels.room(8 * (n + 3 * segs.length));
+    if (room !== null) {
+      room.f64.set(voltage, 0);
+      segs.forEach((s, j) => {
+        room.f64[n + 3 * j] = s.start;
+        room.f64[n + 3 * j + 1] = s.end;
+        room.f64[n + 3 * j + 2] = s.level;
+      });
+      return room.exports.segmentSquares(0, 8 * n, segs.length);
+    }
+  }
+  let q = 0;
+  for (const s of segs) for (let k = s.start; k < s.end; k++) q += (voltage[k]! - s.level) * (voltage[k]! - s.level);
+  return q;
+}
+
+/**
+ * The current's sum over its first `tail` samples, and over its last `tail` samples the current's
+ * sum and sum of squares and the speed's sum of magnitudes (samples before n; missing ones read
+ * NaN); through the kernel for long series (the same bits). Exported for the tests.
+ */
+export function headAndEndSums(current: Float64Array, speed: Float64Array, n: number, tail: number, useKernel = true): { head: number; end: number; endSq: number; endSpeed: number } {
+  if (useKernel && tail >= KERNEL_MIN_LENGTH && Number.isInteger(tail) && tail <= n && current.length >= n && speed.length >= n) {
+    const room = sampleKernels.room(8 * (3 * tail + 3));
+    if (room !== null) {
+      const { f64, exports: k } = room;
+      f64.set(current.subarray(0, tail), 0);
+      k.endSums(0, 0, tail, 8 * 3 * tail);
+      const head = f64[3 * tail]!;
+      f64.set(current.subarray(n - tail, n), 0);
+      f64.set(speed.subarray(n - tail, n), tail);
+      k.endSums(0, 8 * tail, tail, 8 * 3 * tail);
+      return { head, end: f64[3 * tail]!, endSq: f64[3 * tail + 1]!, endSpeed: f64[3 * tail + 2]! };
+    }
+  }
+  let head = 0, end = 0, endSq = 0, endSpeed = 0;
+  for (let k = 0; k < tail; k++) head += current[k]!;
+  for (let k = n - tail; k < n; k++) { end += current[k]!; endSq += current[k]! * current[k]!; endSpeed += Math.abs(speed[k]!); }
+  return { head, end, endSq, endSpeed };
 }
 
 /**

@@ -32,6 +32,8 @@ export interface SampleKernels {
   derivative(x: number, n: number, h: number, out: number): void;
   sameWords(a: number, b: number, n: number): number;
   squaredDistance(a: number, b: number, n: number): number;
+  segmentSquares(p: number, segs: number, m: number): number;
+  endSums(pi: number, pw: number, m: number, out: number): void;
 }
 
 /** The kernel module, compiled on first use. */

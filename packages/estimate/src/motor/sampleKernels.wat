@@ -585,4 +585,46 @@
         (local.set $b (i32.add (local.get $b) (i32.const 8)))
         (br $next)))
     (local.get $s))
+
+  ;; segmentSquares(p, segs, m): classifyTurning's misfit of the piecewise-constant voltage, in the
+  ;; same order: over the m segments (start, end, level: three doubles each at segs) in turn, over
+  ;; start ≤ k < end, q += (x_k − level)·(x_k − level) for the doubles at p.
+  (func (export "segmentSquares") (param $p i32) (param $segs i32) (param $m i32) (result f64)
+    (local $stop i32) (local $k i32) (local $end i32) (local $level f64) (local $d f64) (local $q f64)
+    (local.set $stop (i32.add (local.get $segs) (i32.mul (local.get $m) (i32.const 24))))
+    (block $done
+      (loop $segment
+        (br_if $done (i32.ge_u (local.get $segs) (local.get $stop)))
+        (local.set $k (i32.trunc_f64_s (f64.load (local.get $segs))))
+        (local.set $end (i32.trunc_f64_s (f64.load offset=8 (local.get $segs))))
+        (local.set $level (f64.load offset=16 (local.get $segs)))
+        (block $segmentDone
+          (loop $next
+            (br_if $segmentDone (i32.ge_s (local.get $k) (local.get $end)))
+            (local.set $d (f64.sub (f64.load (i32.add (local.get $p) (i32.shl (local.get $k) (i32.const 3)))) (local.get $level)))
+            (local.set $q (f64.add (local.get $q) (f64.mul (local.get $d) (local.get $d))))
+            (local.set $k (i32.add (local.get $k) (i32.const 1)))
+            (br $next)))
+        (local.set $segs (i32.add (local.get $segs) (i32.const 24)))
+        (br $segment)))
+    (local.get $q))
+
+  ;; endSums(pi, pw, m, out): classifyTurning's sums over the last m samples of the current at pi and
+  ;; the speed at pw, in order: Σi, Σi·i and Σ|ω| to out, out + 8, out + 16.
+  (func (export "endSums") (param $pi i32) (param $pw i32) (param $m i32) (param $out i32)
+    (local $stop i32) (local $i f64) (local $end f64) (local $endSq f64) (local $endSpeed f64)
+    (local.set $stop (i32.add (local.get $pi) (i32.shl (local.get $m) (i32.const 3))))
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_u (local.get $pi) (local.get $stop)))
+        (local.set $i (f64.load (local.get $pi)))
+        (local.set $end (f64.add (local.get $end) (local.get $i)))
+        (local.set $endSq (f64.add (local.get $endSq) (f64.mul (local.get $i) (local.get $i))))
+        (local.set $endSpeed (f64.add (local.get $endSpeed) (f64.abs (f64.load (local.get $pw)))))
+        (local.set $pi (i32.add (local.get $pi) (i32.const 8)))
+        (local.set $pw (i32.add (local.get $pw) (i32.const 8)))
+        (br $next)))
+    (f64.store (local.get $out) (local.get $end))
+    (f64.store offset=8 (local.get $out) (local.get $endSq))
+    (f64.store offset=16 (local.get $out) (local.get $endSpeed)))
 )
