@@ -2,7 +2,9 @@
 /**
  * `pnpm build`: assembles the WebAssembly kernels (scripts/assemble-kernels.mjs), compiles every package with `tsc --build tsconfig.build.json` (dependency order, only
  * what changed; extra arguments such as `--force` go to tsc), then bundles the few modules that
- * import third-party CommonJS libraries (VENDOR below) into one ES module each, with esbuild.
+ * import third-party CommonJS libraries (VENDOR below) into one ES module each, with esbuild, and
+ * last the command line into one script with its V8 code cache (scripts/make-code-cache.mjs; see
+ * packages/cli/src/bundledCli.ts).
  *
  * Why: Node loads CommonJS from an ES module through its loader and an export scan of every file.
  * stdlib spreads each distribution function over a few hundred small files (~430 for the four we use:
@@ -20,7 +22,7 @@ import { execFileSync } from 'node:child_process';
 import { existsSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { dirname, join, relative, resolve } from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 const require = createRequire(join(root, 'package.json'));
@@ -73,8 +75,9 @@ if (esbuild !== null) {
 // The command line's bundle and its V8 code cache (packages/cli/src/bundledCli.ts says why and how
 // they are used). Without esbuild there is no bundle and the command line runs from the modules.
 const cliDist = join(root, 'packages', 'cli', 'dist');
-const bundleFile = join(cliDist, 'motorprint.cjs');
-const cacheFile = `${bundleFile}.v8cache`;
+const { BUNDLE_FILE, BUNDLE_HEAD, CODE_CACHE_SUFFIX } = await import(pathToFileURL(join(cliDist, 'bundledCli.js')).href);
+const bundleFile = join(cliDist, BUNDLE_FILE);
+const cacheFile = bundleFile + CODE_CACHE_SUFFIX;
 if (esbuild === null) {
   rmSync(bundleFile, { force: true });
   rmSync(cacheFile, { force: true });
@@ -113,7 +116,7 @@ if (esbuild === null) {
   const buildInfo = [...new Set(Object.keys(out.metafile.inputs).map((f) => f.match(/^(packages\/[^/]+)\/dist\//)?.[1]).filter(Boolean))]
     .map((pkg) => relative(cliDist, join(root, pkg, 'dist', 'tsconfig.build.tsbuildinfo')))
     .sort();
-  const head = `// motorprint: bundled by scripts/build.mjs from the tsc output of ${buildInfo.join(' ')}`;
+  const head = `${BUNDLE_HEAD} ${buildInfo.join(' ')}`;
   const text = `${head}\nvar __motorprintBundleUrl = require('node:url').pathToFileURL(__filename).href;\n${out.outputFiles[0].text}`;
   // A script compiled from a code cache cannot import() (Node 20 loses its import callback), and the
   // bundle's only dynamic imports were the subcommands, which esbuild inlines.

@@ -7,17 +7,18 @@
  * V8 caches the bytecode of the functions compiled when the cache is taken, so the cache is taken
  * after training runs: the bundled command line inspects and fits the invented demo recordings in
  * fixtures/demo (as `pnpm demo` does), simulates an invented PRBS run of the demo motor and fits it,
- * writing its files to a temporary folder and throwing its output away. A cache this Node already accepts is kept. Without the demo recordings the cache is
- * taken without training (it then holds only what loading compiles).
+ * writing its files to a temporary folder and throwing its output away. A cache this Node already
+ * accepts is kept. Without the demo recordings the cache is taken without training (it then holds
+ * only what loading compiles).
  */
 import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 const cliDist = join(root, 'packages', 'cli', 'dist');
-const { BUNDLE_FILE, CODE_CACHE_SUFFIX, loadBundledCli } = await import(join(cliDist, 'bundledCli.js'));
+const { BUNDLE_FILE, CODE_CACHE_SUFFIX, loadBundledCli } = await import(pathToFileURL(join(cliDist, 'bundledCli.js')).href);
 const cacheFile = join(cliDist, BUNDLE_FILE + CODE_CACHE_SUFFIX);
 
 if (existsSync(cacheFile)) {

@@ -10,9 +10,11 @@ import { BUNDLED_SUBCOMMANDS, loadBundledCli } from './bundledCli.js';
 const argv = process.argv.slice(2);
 // A subcommand that does work runs from the bundle with its code cache where the build made one
 // (bundledCli.ts says why and when not); everything else, and any failure to load it, from the modules.
-const bundled = BUNDLED_SUBCOMMANDS.includes(argv[0] ?? '') && !process.env.MOTORPRINT_PLAIN_MODULES
-  ? loadBundledCli(dirname(fileURLToPath(import.meta.url)))
-  : { unused: argv[0] === undefined || !BUNDLED_SUBCOMMANDS.includes(argv[0]) ? 'not a bundled subcommand' : 'MOTORPRINT_PLAIN_MODULES is set' };
+const bundled = !BUNDLED_SUBCOMMANDS.includes(argv[0] ?? '')
+  ? { unused: 'not a bundled subcommand' }
+  : process.env.MOTORPRINT_PLAIN_MODULES
+    ? { unused: 'MOTORPRINT_PLAIN_MODULES is set' }
+    : loadBundledCli(dirname(fileURLToPath(import.meta.url)));
 if (process.env.MOTORPRINT_SHOW_LOADING) {
   process.stderr.write(`motorprint: ${'runCli' in bundled ? `the bundle, code cache ${bundled.codeCache}` : `the modules: ${bundled.unused}`}\n`);
 }
