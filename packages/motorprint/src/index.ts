@@ -26,6 +26,7 @@ export {
 export type {
   MotorParams, DetailedParams, RecordingOptions, GeneratedRecording, LockedRotorHold, LockedRotorHoldOptions, LinearModelForms, TransferFunction,
 } from '@motorprint/model';
+export { releaseKernelMemory } from '@motorprint/model/kernels';
 export { fitMotor, solveLeastSquares, fitCurve, planExperiments, simulatePlannedRun, checkLockedRotorHold } from '@motorprint/estimate';
 export type {
   MotorFit, FitMotorOptions, MotorRecordingInput, ParameterEstimate, ExperimentPlan, PlannedRun, PlanOptions, PlannedConstant,

@@ -9,6 +9,7 @@
 import { firstDifference } from '@motorprint/testkit';
 import fc from 'fast-check';
 import { afterEach, describe, expect, it } from 'vitest';
+import { releaseKernelMemory } from '@motorprint/model/kernels';
 import { useKernels } from '../estimateKernels.js';
 import { KERNEL_MIN_LENGTH } from '../estimateKernels.js';
 import { freeRunInKernel, kernelRuns } from '../motor/freeRunKernel.js';
@@ -171,6 +172,18 @@ describe('the WebAssembly free-run passes', () => {
     sweepLinearModel(reference.b, reference.s);
     expect(firstDifference(again.s.outI, reference.s.outI)).toBe(-1);
     expect(firstDifference(again.b.acc!.high, reference.b.acc!.high)).toBe(-1);
+    // The kernels let go of their memories between two sweeps of one problem (the same arrays): the
+    // kept series went with the memory and are copied in again.
+    const released = setUp(c), plain = setUp(c);
+    useKernels.on = true;
+    sweepLinearModel(released.b, released.s);
+    releaseKernelMemory();
+    released.b.rows = 0; released.b.acc!.high.fill(0);
+    sweepLinearModel(released.b, released.s);
+    useKernels.on = false;
+    for (let rep = 0; rep < 2; rep++) { plain.b.rows = 0; plain.b.acc!.high.fill(0); sweepLinearModel(plain.b, plain.s); }
+    expect(firstDifference(released.s.outI, plain.s.outI)).toBe(-1);
+    expect(firstDifference(released.b.acc!.high, plain.b.acc!.high)).toBe(-1);
     // One problem's buffers serve all its recordings: a second recording (other arrays, same length) is copied in.
     const two = (on: boolean): Float64Array => {
       useKernels.on = on;
@@ -201,5 +214,9 @@ describe('the WebAssembly free-run passes', () => {
     const viaKernels = fitWith(true);
     expect(viaKernels.length).toBeGreaterThan(1000);
     expect(viaKernels === viaLoops).toBe(true);
+    // The same recordings (the same arrays) again after the kernels let go of their memories: the
+    // series kept from the last problem are gone, and must be copied in afresh.
+    releaseKernelMemory();
+    expect(fitWith(true) === viaLoops).toBe(true);
   });
 });

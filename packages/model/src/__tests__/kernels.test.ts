@@ -3,7 +3,7 @@
  * and null (for the caller's JavaScript loop) where the binary is not WebAssembly.
  */
 import { describe, expect, it } from 'vitest';
-import { createKernel } from '../kernels.js';
+import { createKernel, releaseKernelMemory } from '../kernels.js';
 
 /**
  * A tiny module assembled by hand (so this test needs no assembler):
@@ -33,6 +33,24 @@ describe('createKernel', () => {
     big.f64[3 * 8192] = 1.5;
     big.exports.twice(3 * 65536);
     expect(big.f64[3 * 8192]).toBe(3);
+  });
+  it('lets go of the kept memories on releaseKernelMemory, and works on a fresh one after', () => {
+    const kernel = createKernel<{ twice(at: number): void }>(base64);
+    const other = createKernel<{ twice(at: number): void }>(base64);
+    const big = kernel.room(4 * 65536)!;
+    const small = other.room(8)!;
+    big.f64[1] = 0.25;
+    releaseKernelMemory();
+    for (const [k, before] of [[kernel, big], [other, small]] as const) {
+      const fresh = k.room(8)!;
+      expect(fresh).not.toBe(before);
+      expect(fresh.exports).not.toBe(before.exports); // a new instance: callers that keep data there see it
+      expect(fresh.u8.byteLength).toBe(65536);
+      expect(fresh.f64[1]).toBe(0);
+      fresh.f64[1] = 0.75;
+      fresh.exports.twice(8);
+      expect(fresh.f64[1]).toBe(1.5);
+    }
   });
   it('gives null rooms for a binary that is not WebAssembly, and for a size it cannot address', () => {
     expect(createKernel(Buffer.from('not a module').toString('base64')).room(8)).toBeNull();

@@ -2,7 +2,7 @@ import { dirname, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
-import { buildParameterSet, diagnoseFit, fitMotor, readParameterSet, readRecording, renderHtmlReport, formatParameterSetJson } from 'motorprint';
+import { buildParameterSet, diagnoseFit, fitMotor, readParameterSet, readRecording, releaseKernelMemory, renderHtmlReport, formatParameterSetJson } from 'motorprint';
 
 const demo = resolve(dirname(fileURLToPath(import.meta.url)), '../../../../fixtures/demo');
 
@@ -33,5 +33,12 @@ describe('the one import for lab scripts (README "From a lab script")', () => {
     const html = renderHtmlReport({ parameterSet: set, fit, recordings: runs.map((r) => r.recording), diagnosis: report });
     expect(html.startsWith('<!DOCTYPE html>') || html.startsWith('<!doctype html>')).toBe(true);
     expect(html).toMatch(/Locked-rotor/i);
+    // A long script gives the kernels' memory back between jobs; the next fit is the same to the bit.
+    releaseKernelMemory();
+    const again = diagnoseFit(fitMotor(runs), runs);
+    for (const name of ['R', 'L', 'Kt', 'J', 'b']) {
+      expect(Object.is(again.parameters[name]?.value, report.parameters[name]?.value), name).toBe(true);
+      expect(Object.is(again.parameters[name]?.standardError, report.parameters[name]?.standardError), name).toBe(true);
+    }
   });
 });
