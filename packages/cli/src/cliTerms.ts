@@ -42,6 +42,9 @@ export const CLI_REWRITES: readonly (readonly [RegExp, string | ((...groups: str
   [/\bfixed by the caller\b/g, 'pinned with --fix'],
 ];
 
+/** The union of the {@link CLI_REWRITES} patterns (each is global only, so the union matches where any one would). */
+const ANY_REWRITE = new RegExp(CLI_REWRITES.map(([pattern]) => `(?:${pattern.source})`).join('|'));
+
 /** The command-line spelling of an ingest role (`supplyVoltage` → `supply`). */
 function cliRoleName(role: string): string {
   if (role === 'supplyVoltage') return 'supply';
@@ -59,6 +62,9 @@ function cliRoleName(role: string): string {
  * inCliTerms('a coast-down, or J pinned to a known value'); // => 'a coast-down, or J pinned to a known value (--fix J=VALUE)'
  */
 export function inCliTerms(text: string): string {
+  // Most texts hold none of the patterns: one test of their union says so (none of them can then
+  // match after another, as no rewrite has run), instead of 25 passes over every string printed.
+  if (!ANY_REWRITE.test(text)) return text;
   let out = text;
   for (const [pattern, replacement] of CLI_REWRITES) {
     out = typeof replacement === 'string' ? out.replace(pattern, replacement) : out.replace(pattern, replacement as (...groups: string[]) => string);

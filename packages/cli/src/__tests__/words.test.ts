@@ -5,7 +5,7 @@ import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { runCli, EXIT, type CliIo } from '@motorprint/cli';
 import { SUBCOMMANDS } from '../commands/index.js';
-import { inCliTerms } from '../cliTerms.js';
+import { CLI_REWRITES, inCliTerms } from '../cliTerms.js';
 
 const repoRoot = resolve(dirname(fileURLToPath(import.meta.url)), '../../../..');
 
@@ -134,6 +134,21 @@ describe('command-line words', () => {
     expect(inCliTerms('the raw measured voltage, as asked (no rebuilt command)')).toBe('the raw measured voltage, as --measured-voltage asks (no rebuilt command)');
     expect(inCliTerms('R, J and b scale together (log current, or pin one of them)')).toBe('R, J and b scale together (log current, or pin one of them with --fix)');
     expect(inCliTerms('"coulomb": true')).toBe('"coulomb": true');
+  });
+
+  it('are rewritten the same with or without the quick test of the patterns\' union', () => {
+    // The quick test may skip a text only where no pattern matches it: each pattern is global and
+    // nothing else, so their union matches where one of them does.
+    for (const [pattern] of CLI_REWRITES) expect(pattern.flags).toBe('g');
+    const chain = (text: string): string => CLI_REWRITES.reduce((out, [p, r]) => out.replace(p, r as string), text);
+    const texts = [
+      'pass options.map.current', 'options.units', 'see meta.rowsDropped', 'kept unconverted in recording.extra', 'fix options.fix and options.initial',
+      'pin Kt to a known value', 'Vmax pinned to a known value', 'fitMotor option coulomb: true', 'no windingTemperature option', 'fixed by the caller',
+      'a plain sentence with nothing to rewrite', 'options.pwmMax and options.driveGain; given by the caller', '', 'R 1.9 Ω ± 0.01',
+    ];
+    for (const t of texts) expect(inCliTerms(t)).toBe(chain(t));
+    // Mutation check of the test itself: a text the chain changes is among them.
+    expect(texts.filter((t) => chain(t) !== t).length).toBeGreaterThan(8);
   });
 
   it('are not needed in the libraries: no library message names a command-line option', async () => {
