@@ -7,7 +7,7 @@ import { firstDifference } from '@motorprint/testkit';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { differenceStats, differenceStatsKernel, gridStepKernel, gridStepPlain, sameSamples } from '../motor/estimateNoiseLevel.js';
-import { channelStatsKernel, KERNEL_MIN_LENGTH, sampleKernels, timeStatsKernel } from '../motor/sampleKernels.js';
+import { channelStatsKernel, KERNEL_MIN_LENGTH, sampleKernels, sortInKernel, sortSpare, timeStatsKernel } from '../motor/sampleKernels.js';
 import { medianInPlace, selectKth, selectKthPlain } from '../motor/selectKth.js';
 import { timeLine, timeLineKernel } from '../motor/nominalTimeGrid.js';
 import { rmsDiff, rmsDiffPlain, segmentDifferences, segmentDifferencesKernel } from '../motor/rebuildCommand.js';
@@ -49,6 +49,34 @@ describe('the sample kernels', () => {
       }),
       { seed: SEED, numRuns: 300 },
     );
+  });
+  it("the radix sort: the typed array's own order to the bit (−0 before +0, infinities, subnormals, repeats), and NaN left to it", () => {
+    const wide = fc.oneof(sample, fc.double({ noNaN: true }), fc.constantFrom(Infinity, -Infinity, 5e-324, -5e-324, Number.MAX_VALUE));
+    fc.assert(
+      fc.property(fc.array(wide, { minLength: 0, maxLength: 1500 }), fc.nat({ max: 64 }), (a, offset) => {
+        const x = Float64Array.from(a);
+        const n = x.length;
+        const room = sampleKernels.room(8 * (offset + n + sortSpare(n)))!;
+        room.f64.set(x, offset);
+        sortInKernel(room, offset, n, offset + n);
+        expect(sameBits(room.f64.slice(offset, offset + n), Float64Array.from(x).sort())).toBe(true);
+      }),
+      { seed: SEED, numRuns: 300 },
+    );
+    // A series with NaN: the kernel declines and leaves it as it was; sortInKernel then sorts it as the typed array does.
+    const withNaN = Float64Array.from([3, NaN, -1, -0, 0, NaN, 2]);
+    const room = sampleKernels.room(8 * (withNaN.length + sortSpare(withNaN.length)))!;
+    room.f64.set(withNaN, 0);
+    expect(room.exports.sortDoubles(0, withNaN.length, 8 * withNaN.length, 16 * withNaN.length)).toBe(1);
+    expect(sameBits(room.f64.slice(0, withNaN.length), withNaN)).toBe(true);
+    sortInKernel(room, 0, withNaN.length, withNaN.length);
+    expect(sameBits(room.f64.slice(0, withNaN.length), Float64Array.from(withNaN).sort())).toBe(true);
+    // Values that differ only in their lowest byte, and only in their highest: every pass is needed.
+    const low = Float64Array.from({ length: 3000 }, (_, k) => 1 + ((k * 7919) % 3000) * Number.EPSILON);
+    const r2 = sampleKernels.room(8 * (low.length + sortSpare(low.length)))!;
+    r2.f64.set(low, 0);
+    sortInKernel(r2, 0, low.length, low.length);
+    expect(sameBits(r2.f64.slice(0, low.length), Float64Array.from(low).sort())).toBe(true);
   });
   it('the noise level passes: the same finite count, quantum, deviations and MAD as the JavaScript', () => {
     fc.assert(

@@ -1,4 +1,4 @@
-import { KERNEL_MIN_LENGTH, sampleKernels } from './sampleKernels.js';
+import { KERNEL_MIN_LENGTH, sampleKernels, sortInKernel, sortSpare } from './sampleKernels.js';
 import { medianInPlace } from './selectKth.js';
 import type { NoiseLevel } from './types.js';
 
@@ -200,12 +200,11 @@ function trimmedRms(absDev: Float64Array): number {
   if (m < 8) return 0;
   const keep = Math.max(1, Math.floor(0.96 * m));
   let q = 0;
-  const room = m >= KERNEL_MIN_LENGTH ? sampleKernels.room(8 * m) : null;
+  const room = m >= KERNEL_MIN_LENGTH ? sampleKernels.room(8 * (m + sortSpare(m))) : null;
   if (room !== null) {
-    // The same sort, then the same sum of squares in order, in the kernel's memory.
-    const s = room.f64.subarray(0, m);
-    s.set(absDev);
-    s.sort();
+    // The same order (the kernel's sort), then the same sum of squares in order, in the kernel's memory.
+    room.f64.set(absDev, 0);
+    sortInKernel(room, 0, m, m);
     q = room.exports.dot(0, 0, keep);
   } else {
     const s = Float64Array.from(absDev).sort();
@@ -250,19 +249,19 @@ export function gridStepPlain(values: Float64Array, quantum: number, stride: num
 }
 
 /**
- * {@link gridStepPlain} through the WebAssembly kernel (sampleKernels.wat), the sort left to the
- * typed array's own (which orders the same values the same way); null where the kernel cannot run.
+ * {@link gridStepPlain} through the WebAssembly kernel (sampleKernels.wat), sorted by the kernel's
+ * radix sort (the typed array's order, {@link sortInKernel}); null where the kernel cannot run.
  */
 export function gridStepKernel(values: Float64Array, quantum: number, stride: number): number | null {
   const n = values.length;
   const pickAt = n;
   const outAt = pickAt + Math.ceil(n / stride);
-  const room = sampleKernels.room(8 * (outAt + 1));
+  const room = sampleKernels.room(8 * (outAt + 1 + sortSpare(outAt - pickAt)));
   if (room === null) return null;
   const { f64, exports: k } = room;
   f64.set(values, 0);
   const m = k.pickFinite(0, n, stride, 8 * pickAt);
-  f64.subarray(pickAt, pickAt + m).sort();
+  sortInKernel(room, pickAt, m, outAt + 1);
   const u = k.distinctInPlace(8 * pickAt, m);
   const single = k.singleGaps(8 * pickAt, u, quantum, 8 * outAt);
   if (single < 3) return 0;

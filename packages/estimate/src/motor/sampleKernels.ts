@@ -1,4 +1,4 @@
-import { createKernel } from '@motorprint/model/kernels';
+import { createKernel, type KernelRoom } from '@motorprint/model/kernels';
 import { wasm } from './sampleKernels.wasm.js';
 
 /**
@@ -34,6 +34,7 @@ export interface SampleKernels {
   squaredDistance(a: number, b: number, n: number): number;
   segmentSquares(p: number, segs: number, m: number): number;
   endSums(pi: number, pw: number, m: number, out: number): void;
+  sortDoubles(p: number, n: number, tmp: number, counts: number): number;
 }
 
 /** The kernel module, compiled on first use. */
@@ -41,6 +42,20 @@ export const sampleKernels = createKernel<SampleKernels>(wasm);
 
 /** Series shorter than this take the JavaScript loops (the package's one threshold). */
 export { KERNEL_MIN_LENGTH } from '../estimateKernels.js';
+
+/** Doubles of kernel memory that {@link sortInKernel} needs after the n it sorts: n for the passes, 1024 for the counters. */
+export function sortSpare(n: number): number {
+  return n + 1024;
+}
+
+/**
+ * Sorts the n doubles at double index `at` of the room's memory in place, into the order the typed
+ * array's own sort gives (the kernel's radix sort; a series holding NaN goes to the typed array's
+ * sort). Uses {@link sortSpare}(n) doubles from index `spare`.
+ */
+export function sortInKernel(room: KernelRoom<SampleKernels>, at: number, n: number, spare: number): void {
+  if (room.exports.sortDoubles(8 * at, n, 8 * spare, 8 * (spare + n)) !== 0) room.f64.subarray(at, at + n).sort();
+}
 
 /**
  * A channel's largest magnitude and sum (prepareRecording's one pass) through the kernel; null when

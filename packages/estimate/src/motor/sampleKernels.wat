@@ -627,4 +627,112 @@
     (f64.store (local.get $out) (local.get $end))
     (f64.store offset=8 (local.get $out) (local.get $endSq))
     (f64.store offset=16 (local.get $out) (local.get $endSpeed)))
+
+  ;; sortDoubles(p, n, tmp, counts): sorts the n doubles at p into the order the typed array's own
+  ;; sort gives (ascending, −0 before +0), by a least-significant-digit radix sort of their bits made
+  ;; order-preserving (a positive double's bits with the sign bit set, a negative one's bits all
+  ;; flipped), one byte per pass, skipping the bytes every value shares. The sort is stable and
+  ;; equal doubles have the same bits, so the result is the same array. Uses n doubles at tmp and
+  ;; 8 · 256 i32 counters at counts. Returns 1 and leaves the doubles as they were when one is NaN
+  ;; (the caller then sorts them as before), else 0.
+  (func (export "sortDoubles") (param $p i32) (param $n i32) (param $tmp i32) (param $counts i32) (result i32)
+    (local $k i32) (local $a i32) (local $x i64) (local $key i64) (local $byte i32) (local $shift i64)
+    (local $src i32) (local $dst i32) (local $c i32) (local $sum i32) (local $count i32) (local $t i32)
+    (local $stop i32)
+    (local.set $stop (i32.add (local.get $p) (i32.shl (local.get $n) (i32.const 3))))
+    ;; A NaN has no place in the order: leave it to the caller.
+    (local.set $a (local.get $p))
+    (block $checked
+      (loop $check
+        (br_if $checked (i32.ge_u (local.get $a) (local.get $stop)))
+        (if (f64.ne (f64.load (local.get $a)) (f64.load (local.get $a))) (then (return (i32.const 1))))
+        (local.set $a (i32.add (local.get $a) (i32.const 8)))
+        (br $check)))
+    ;; Counters to zero.
+    (local.set $k (i32.const 0))
+    (block $zeroed
+      (loop $zero
+        (br_if $zeroed (i32.ge_u (local.get $k) (i32.const 2048)))
+        (i32.store (i32.add (local.get $counts) (i32.shl (local.get $k) (i32.const 2))) (i32.const 0))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (br $zero)))
+    ;; Keys in place, and the count of each value of each byte.
+    (local.set $a (local.get $p))
+    (block $keyed
+      (loop $keys
+        (br_if $keyed (i32.ge_u (local.get $a) (local.get $stop)))
+        (local.set $x (i64.load (local.get $a)))
+        (local.set $key (i64.xor (local.get $x)
+          (i64.or (i64.shr_s (local.get $x) (i64.const 63)) (i64.const 0x8000000000000000))))
+        (i64.store (local.get $a) (local.get $key))
+        (local.set $byte (i32.const 0))
+        (block $counted
+          (loop $bytes
+            (br_if $counted (i32.ge_u (local.get $byte) (i32.const 8)))
+            (local.set $c (i32.add (local.get $counts)
+              (i32.shl
+                (i32.add (i32.shl (local.get $byte) (i32.const 8))
+                  (i32.wrap_i64 (i64.and (i64.shr_u (local.get $key) (i64.extend_i32_u (i32.shl (local.get $byte) (i32.const 3)))) (i64.const 255))))
+                (i32.const 2))))
+            (i32.store (local.get $c) (i32.add (i32.load (local.get $c)) (i32.const 1)))
+            (local.set $byte (i32.add (local.get $byte) (i32.const 1)))
+            (br $bytes)))
+        (local.set $a (i32.add (local.get $a) (i32.const 8)))
+        (br $keys)))
+    ;; One pass per byte, least significant first, from src to dst.
+    (local.set $src (local.get $p))
+    (local.set $dst (local.get $tmp))
+    (local.set $byte (i32.const 0))
+    (block $sorted
+      (loop $pass
+        (br_if $sorted (i32.ge_u (local.get $byte) (i32.const 8)))
+        (local.set $shift (i64.extend_i32_u (i32.shl (local.get $byte) (i32.const 3))))
+        (local.set $c (i32.add (local.get $counts) (i32.shl (local.get $byte) (i32.const 10))))
+        ;; (Every value shares this byte when its count is n: nothing to move.)
+        (if (i32.ne (local.get $n)
+              (i32.load (i32.add (local.get $c)
+                (i32.shl (i32.wrap_i64 (i64.and (i64.shr_u (i64.load (local.get $src)) (local.get $shift)) (i64.const 255))) (i32.const 2)))))
+          (then
+            ;; Counts to first positions.
+            (local.set $sum (i32.const 0))
+            (local.set $k (i32.const 0))
+            (block $summed
+              (loop $prefix
+                (br_if $summed (i32.ge_u (local.get $k) (i32.const 256)))
+                (local.set $t (i32.add (local.get $c) (i32.shl (local.get $k) (i32.const 2))))
+                (local.set $count (i32.load (local.get $t)))
+                (i32.store (local.get $t) (local.get $sum))
+                (local.set $sum (i32.add (local.get $sum) (local.get $count)))
+                (local.set $k (i32.add (local.get $k) (i32.const 1)))
+                (br $prefix)))
+            (local.set $a (local.get $src))
+            (local.set $stop (i32.add (local.get $src) (i32.shl (local.get $n) (i32.const 3))))
+            (block $moved
+              (loop $move
+                (br_if $moved (i32.ge_u (local.get $a) (local.get $stop)))
+                (local.set $key (i64.load (local.get $a)))
+                (local.set $t (i32.add (local.get $c)
+                  (i32.shl (i32.wrap_i64 (i64.and (i64.shr_u (local.get $key) (local.get $shift)) (i64.const 255))) (i32.const 2))))
+                (local.set $k (i32.load (local.get $t)))
+                (i64.store (i32.add (local.get $dst) (i32.shl (local.get $k) (i32.const 3))) (local.get $key))
+                (i32.store (local.get $t) (i32.add (local.get $k) (i32.const 1)))
+                (local.set $a (i32.add (local.get $a) (i32.const 8)))
+                (br $move)))
+            (local.set $t (local.get $src))
+            (local.set $src (local.get $dst))
+            (local.set $dst (local.get $t))))
+        (local.set $byte (i32.add (local.get $byte) (i32.const 1)))
+        (br $pass)))
+    ;; Back to doubles, at p.
+    (local.set $k (i32.const 0))
+    (block $done
+      (loop $back
+        (br_if $done (i32.ge_u (local.get $k) (local.get $n)))
+        (local.set $key (i64.load (i32.add (local.get $src) (i32.shl (local.get $k) (i32.const 3)))))
+        (i64.store (i32.add (local.get $p) (i32.shl (local.get $k) (i32.const 3)))
+          (i64.xor (local.get $key)
+            (i64.or (i64.shr_s (i64.xor (local.get $key) (i64.const -1)) (i64.const 63)) (i64.const 0x8000000000000000))))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (br $back)))
+    (i32.const 0))
 )
