@@ -948,7 +948,10 @@ class BodyReader {
       );
     }
     const n = this.kept;
-    const trim = (b: Float64Array): Float64Array => (b.length === n ? b : b.slice(0, n));
+    // A column whose buffer is at most a quarter longer than its rows is handed over as a view of
+    // its first n values (the buffer was sized from the file; its unused tail was never written, so
+    // it holds no memory pages); a longer one is copied to its length.
+    const trim = (b: Float64Array): Float64Array => (b.length === n ? b : b.length <= n + (n >> 2) ? b.subarray(0, n) : b.slice(0, n));
     const roleBuffers = this.roleBuffers.map(trim);
     this.roleBuffers = [];
     const extraBuffers = this.extraBuffers.map(trim);

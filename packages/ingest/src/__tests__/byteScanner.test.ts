@@ -384,6 +384,25 @@ describe('reading bytes gives what reading text gives', () => {
     }
     expect(summary(ing.finish())).toEqual(want);
   });
+
+  it('hands each column over at its length, without a copy when its buffer was sized close to it', () => {
+    const bytes = Buffer.from(loggerFile(6000, '\n'), 'latin1');
+    const want = summary(pushInPieces(bytes, [bytes.length], 'r.csv'));
+    // Sized from the file (a buffer at most a quarter too long: a view of it), and from a hint four
+    // times the file (a copy at the column's length: the long buffer is not kept alive).
+    for (const [hint, view] of [[bytes.length, true], [4 * bytes.length, false]] as const) {
+      const ing = createIngestor({ fileName: 'r.csv', sizeHint: hint });
+      ing.push(bytes);
+      const got = ing.finish();
+      expect(summary(got)).toEqual(want);
+      for (const column of [got.recording.time, ...Object.values(got.recording.channels)]) {
+        const n = got.recording.time.length;
+        expect(column!.length).toBe(n);
+        expect(column!.buffer.byteLength > 8 * n).toBe(view);
+        expect(column!.buffer.byteLength).toBeLessThanOrEqual(8 * (n + (n >> 2)));
+      }
+    }
+  });
 });
 
 describe('readRecording', () => {
