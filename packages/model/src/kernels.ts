@@ -20,7 +20,6 @@
 
 /** The part of the WebAssembly API used here (the project's TypeScript libraries do not declare it). */
 interface Wasm {
-  validate(bytes: Uint8Array): boolean;
   Module: new (bytes: Uint8Array) => object;
   Instance: new (module: object, imports: object) => { exports: Record<string, unknown> };
   Memory: new (descriptor: { initial: number }) => { buffer: ArrayBuffer; grow(pages: number): number };
@@ -96,7 +95,8 @@ export function createKernel<E>(base64: string): Kernel<E> {
       try {
         wasm = (globalThis as { WebAssembly?: Wasm }).WebAssembly;
         const bytes = decodeBase64(base64);
-        if (wasm !== undefined && wasm.validate(bytes)) module = new wasm.Module(bytes);
+        // (The constructor validates the binary, and throws where it or a feature it uses is missing.)
+        if (wasm !== undefined) module = new wasm.Module(bytes);
       } catch {
         module = null;
       }
