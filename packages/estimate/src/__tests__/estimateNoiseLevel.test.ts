@@ -1,5 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { estimateNoiseLevel } from '../motor/estimateNoiseLevel.js';
+import { fitMotor } from '../motor/fitMotor.js';
+import { sharePreparation } from '../motor/prepareRecording.js';
 
 /** Deterministic standard normal draws (a small linear congruential generator and Box–Muller). */
 function normals(n: number, start: number): Float64Array {
@@ -72,6 +74,37 @@ describe('estimateNoiseLevel', () => {
     // One changed sample is enough to be seen.
     x[x.length >> 1] = 1e6;
     expect(estimateNoiseLevel(x)).toEqual(estimateNoiseLevel(Float64Array.from(x)));
+  });
+
+  it('inside sharePreparation shares the level of a prepared recording\'s channel by identity, and checks every other array as before', () => {
+    const current = channel(40_000, 0.02, 0, 11);
+    const time = Float64Array.from({ length: current.length }, (_, k) => 1e-4 * k);
+    const voltage = Float64Array.from({ length: current.length }, (_, k) => (Math.floor(k / 4000) % 2 === 0 ? 6 : -6));
+    const other = channel(40_000, 0.02, 0, 12);
+    const alone = estimateNoiseLevel(Float64Array.from(current));
+    sharePreparation(() => {
+      fitMotor([{ recording: { time, channels: { voltage, current } }, kind: 'locked-rotor' }]);
+      const first = estimateNoiseLevel(current);
+      expect(first).toEqual(alone);
+      // The contract is broken on purpose to show which arrays are trusted: the prepared channel's
+      // level is the one estimated (by identity), while any other array is still compared sample by sample.
+      const saved = Float64Array.from(current);
+      for (let k = 0; k < current.length; k++) current[k] = 4 * current[k]!;
+      expect(estimateNoiseLevel(Float64Array.from(current)).sigma).toBeGreaterThan(3.5 * alone.sigma);
+      expect(estimateNoiseLevel(current)).toEqual(alone);
+      current.set(saved);
+      const o1 = estimateNoiseLevel(other);
+      for (let k = 0; k < other.length; k++) other[k] = 4 * other[k]!;
+      const o2 = estimateNoiseLevel(other);
+      expect(o2).toEqual(estimateNoiseLevel(Float64Array.from(other)));
+      expect(o2.sigma).toBeGreaterThan(3.5 * o1.sigma);
+      // A caller changing the returned object does not change the next one.
+      first.sigma = -1;
+      expect(estimateNoiseLevel(current)).toEqual(alone);
+    });
+    // Outside it the prepared channel is checked again.
+    for (let k = 0; k < current.length; k++) current[k] = 4 * current[k]!;
+    expect(estimateNoiseLevel(current).sigma).toBeGreaterThan(3.5 * alone.sigma);
   });
 
   it('gives the same answer on a repeated call, and a caller changing the returned object does not change the next one', () => {

@@ -54,6 +54,16 @@ const SQRT12 = Math.sqrt(12);
  */
 export function estimateNoiseLevel(values: Float64Array): NoiseLevel {
   if (!(values instanceof Float64Array)) throw new TypeError('estimateNoiseLevel: values must be a Float64Array');
+  const scope = unchanged;
+  if (scope !== null && scope.arrays.has(values)) {
+    // An array its caller keeps unchanged for now: by identity alone, with no copy to compare.
+    let level = scope.levels.get(values);
+    if (level === undefined) {
+      level = estimateAfresh(values);
+      scope.levels.set(values, level);
+    }
+    return { ...level };
+  }
   const seen = estimated.get(values);
   if (seen !== undefined && sameSamples(seen.samples, values)) return { ...seen.level };
   const level = estimateAfresh(values);
@@ -68,6 +78,36 @@ export function estimateNoiseLevel(values: Float64Array): NoiseLevel {
  * estimated again, so the answer is always that of the samples as they are now.
  */
 const estimated = new WeakMap<Float64Array, { samples: Float64Array; level: NoiseLevel }>();
+
+/**
+ * Inside {@link shareUnchangedNoise}: the arrays its caller keeps unchanged until it returns (the
+ * recordings of a `sharePreparation` call), and their noise levels. Null outside it.
+ */
+let unchanged: { arrays: WeakSet<Float64Array>; levels: WeakMap<Float64Array, NoiseLevel> } | null = null;
+
+/**
+ * Runs `work` with the noise level of each array named by {@link keepsUnchanged} estimated once and
+ * reused by identity, without the copy and the comparison that `estimated` needs (`sharePreparation`
+ * opens it: its caller keeps the recordings unchanged while it runs). Nested calls share the outer one.
+ *
+ * @param work - what runs inside
+ * @returns what `work` returns
+ */
+export function shareUnchangedNoise<T>(work: () => T): T {
+  if (unchanged !== null) return work();
+  unchanged = { arrays: new WeakSet(), levels: new WeakMap() };
+  try {
+    return work();
+  } finally {
+    unchanged = null;
+  }
+}
+
+/** Names arrays that stay unchanged until the current {@link shareUnchangedNoise} call returns (nothing outside one). */
+export function keepsUnchanged(arrays: readonly unknown[]): void {
+  if (unchanged === null) return;
+  for (const a of arrays) if (a instanceof Float64Array) unchanged.arrays.add(a);
+}
 
 /** True when `a` and `b` hold bit for bit the same samples (compared in the sample kernel for long series). */
 export function sameSamples(a: Float64Array, b: Float64Array): boolean {

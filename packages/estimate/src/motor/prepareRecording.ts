@@ -4,7 +4,7 @@ import { detectEncoderSpeed } from './detectEncoderSpeed.js';
 import { nominalTimeGrid } from './nominalTimeGrid.js';
 import type { NominalGrid } from './nominalTimeGrid.js';
 import { detectVoltageSegments } from './detectVoltageSegments.js';
-import { estimateNoiseLevel } from './estimateNoiseLevel.js';
+import { estimateNoiseLevel, keepsUnchanged, shareUnchangedNoise } from './estimateNoiseLevel.js';
 import { rebuildCommand } from './rebuildCommand.js';
 import { channelStatsKernel, KERNEL_MIN_LENGTH, timeStatsKernel } from './sampleKernels.js';
 import type { SineBasis } from './rebuildCommand.js';
@@ -115,9 +115,13 @@ const FLOOR = 1e-12;
  */
 export function prepareRecording(item: MotorRecordingInput, index: number, voltageMode: 'auto' | 'measured'): PreparedRecording {
   if (shared === null || item === null || typeof item !== 'object' || item.recording === null || typeof item.recording !== 'object') return prepareOnce(item, index, voltageMode);
+  // The caller keeps the recording unchanged until sharePreparation returns: its channels' noise
+  // levels are shared by identity.
+  const rec = item.recording;
+  if (rec.channels !== null && typeof rec.channels === 'object') keepsUnchanged([rec.time, ...Object.values(rec.channels)]);
   const key = `${index}\u0000${voltageMode}\u0000${item.kind ?? ''}\u0000${item.name ?? ''}`;
-  let byKey = shared.get(item.recording);
-  if (byKey === undefined) { byKey = new Map(); shared.set(item.recording, byKey); }
+  let byKey = shared.get(rec);
+  if (byKey === undefined) { byKey = new Map(); shared.set(rec, byKey); }
   let prep = byKey.get(key);
   if (prep === undefined) { prep = prepareOnce(item, index, voltageMode); byKey.set(key, prep); }
   // A shallow copy: a fit replaces the noise levels of its copy (the arrays are only read).
@@ -130,8 +134,9 @@ let shared: WeakMap<object, Map<string, PreparedRecording>> | null = null;
 /**
  * Runs `work` with the recordings' preparation (checks, kind, noise levels, rebuilt command)
  * done once per recording object and reused by every fit inside it — for a caller that fits the
- * same recordings several times (model choice, score tests). The recordings must not change
- * while `work` runs. Nested calls share the outer scope.
+ * same recordings several times (model choice, score tests), and the noise level of each of their
+ * channels estimated once (`estimateNoiseLevel`, by identity). The recordings must not change while
+ * `work` runs. Nested calls share the outer scope.
  *
  * @param work - the fits
  * @returns what `work` returns
@@ -141,7 +146,7 @@ let shared: WeakMap<object, Map<string, PreparedRecording>> | null = null;
 export function sharePreparation<T>(work: () => T): T {
   if (shared !== null) return work();
   shared = new WeakMap();
-  try { return work(); } finally { shared = null; }
+  try { return shareUnchangedNoise(work); } finally { shared = null; }
 }
 
 function prepareOnce(item: MotorRecordingInput, index: number, voltageMode: 'auto' | 'measured'): PreparedRecording {
