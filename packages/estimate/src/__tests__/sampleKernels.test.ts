@@ -9,6 +9,7 @@ import { describe, expect, it } from 'vitest';
 import { differenceStats, differenceStatsKernel, gridStepKernel, gridStepPlain, sameSamples } from '../motor/estimateNoiseLevel.js';
 import { channelStatsKernel, KERNEL_MIN_LENGTH, sampleKernels, sortInKernel, sortSpare, timeStatsKernel } from '../motor/sampleKernels.js';
 import { medianInPlace, selectKth, selectKthPlain } from '../motor/selectKth.js';
+import { medianInterval, medianIntervalPlain } from '../motor/medianInterval.js';
 import { timeLine, timeLineKernel } from '../motor/nominalTimeGrid.js';
 import { rmsDiff, rmsDiffPlain, segmentDifferences, segmentDifferencesKernel } from '../motor/rebuildCommand.js';
 import { countSteps, countStepsKernel } from '../motor/detectEncoderSpeed.js';
@@ -77,6 +78,20 @@ describe('the sample kernels', () => {
     r2.f64.set(low, 0);
     sortInKernel(r2, 0, low.length, low.length);
     expect(sameBits(r2.f64.slice(0, low.length), Float64Array.from(low).sort())).toBe(true);
+  });
+  it('the median interval: the same value as the JavaScript, on jittered, repeated, stalled and gappy clocks', () => {
+    const clock = fc.tuple(fc.array(fc.oneof({ weight: 20, arbitrary: fc.double({ min: 1e-5, max: 2e-4, noNaN: true }) },
+      { weight: 1, arbitrary: fc.constantFrom(0, -0, NaN, -1e-4, Infinity) }), { minLength: KERNEL_MIN_LENGTH, maxLength: 1500 }), fc.double({ min: -10, max: 10, noNaN: true }))
+      .map(([steps, t0]) => { const t = new Float64Array(steps.length + 1); t[0] = t0; steps.forEach((h, k) => { t[k + 1] = t[k]! + h; }); return t; });
+    fc.assert(
+      fc.property(clock, (t) => {
+        expect(Object.is(medianInterval(t), medianIntervalPlain(t))).toBe(true);
+      }),
+      { seed: SEED, numRuns: 300 },
+    );
+    // A uniform clock goes through the kernel's selection (no zero or NaN step) and agrees too.
+    const uniform = Float64Array.from({ length: 5000 }, (_, k) => k * 1e-4);
+    expect(medianInterval(uniform)).toBe(medianIntervalPlain(uniform));
   });
   it('the noise level passes: the same finite count, quantum, deviations and MAD as the JavaScript', () => {
     fc.assert(

@@ -35,6 +35,7 @@ export interface SampleKernels {
   segmentSquares(p: number, segs: number, m: number): number;
   endSums(pi: number, pw: number, m: number, out: number): void;
   sortDoubles(p: number, n: number, tmp: number, counts: number): number;
+  intervals(p: number, n: number, out: number): number;
 }
 
 /** The kernel module, compiled on first use. */

@@ -735,4 +735,24 @@
         (local.set $k (i32.add (local.get $k) (i32.const 1)))
         (br $back)))
     (i32.const 0))
+
+  ;; intervals(p, n, out): medianInterval's pass: stores time[k] − time[k−1] for k = 1 … n − 1 at out
+  ;; and returns 1 when none of them is NaN or zero (the selection then gives the sorted middle), else 0.
+  (func (export "intervals") (param $p i32) (param $n i32) (param $out i32) (result i32)
+    (local $k i32) (local $x f64) (local $prev f64) (local $t f64) (local $plain i32)
+    (local.set $plain (i32.const 1))
+    (local.set $prev (f64.load (local.get $p)))
+    (local.set $k (i32.const 1))
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_s (local.get $k) (local.get $n)))
+        (local.set $t (f64.load (i32.add (local.get $p) (i32.shl (local.get $k) (i32.const 3)))))
+        (local.set $x (f64.sub (local.get $t) (local.get $prev)))
+        (f64.store (i32.add (local.get $out) (i32.shl (i32.sub (local.get $k) (i32.const 1)) (i32.const 3))) (local.get $x))
+        (if (i32.or (f64.ne (local.get $x) (local.get $x)) (f64.eq (local.get $x) (f64.const 0)))
+          (then (local.set $plain (i32.const 0))))
+        (local.set $prev (local.get $t))
+        (local.set $k (i32.add (local.get $k) (i32.const 1)))
+        (br $next)))
+    (local.get $plain))
 )
