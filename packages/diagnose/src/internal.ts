@@ -1,7 +1,7 @@
 /**
  * Small shared helpers of the detectors (not exported from the package).
  */
-import { estimateNoiseLevel, medianInterval } from '@motorprint/estimate';
+import { estimateNoiseLevel, keepsUnchanged, medianInterval, shareUnchangedNoise } from '@motorprint/estimate';
 import type { NoiseLevel } from '@motorprint/estimate';
 import { firstNotFiniteOf, trendSums } from './passes.js';
 import type { TrendSums } from './passes.js';
@@ -10,35 +10,35 @@ import type { RecordingLike } from './types.js';
 export { medianInterval } from '@motorprint/estimate';
 
 /**
- * What was already computed inside the current `withSharedNoise` call, by array: the noise levels
- * (the detectors of one diagnosis ask for the same channels' levels again and again, and
- * `estimateNoiseLevel`'s own memo compares every sample to its copy on each of those asks) and
- * the median sample intervals of the time arrays. Inside one synchronous call no array changes
- * (the detectors only read them), so the values are kept by identity; the maps are dropped when
- * the outermost call returns or throws.
+ * What was already computed inside the current `withSharedNoise` call, by array: the median sample
+ * intervals of the time arrays. (The noise levels are shared by estimate's `shareUnchangedNoise`,
+ * which the call opens: see `noiseLevel`.) Inside one synchronous call no array changes (the
+ * detectors only read them), so the values are kept by identity; the map is dropped when the
+ * outermost call returns or throws.
  */
-let shared: { noise: Map<Float64Array, NoiseLevel>; intervals: Map<Float64Array, number> } | null = null;
+let shared: { intervals: Map<Float64Array, number> } | null = null;
 
 /** Runs `work` with the noise levels and sample intervals of its arrays computed once each (see `noiseLevel`). */
 export function withSharedNoise<T>(work: () => T): T {
   if (shared !== null) return work();
-  shared = { noise: new Map(), intervals: new Map() };
+  shared = { intervals: new Map() };
   try {
-    return work();
+    return shareUnchangedNoise(work);
   } finally {
     shared = null;
   }
 }
 
-/** `estimateNoiseLevel(x)`, once per array inside a `withSharedNoise` call (a failure is not kept: it is raised again). */
+/**
+ * `estimateNoiseLevel(x)`, once per array inside a `withSharedNoise` call: the detectors of one
+ * diagnosis ask for the same channels' levels again and again, and outside such a call
+ * `estimateNoiseLevel`'s memo compares every sample to its copy on each ask. Inside it the array is
+ * named unchanged (the detectors only read it), so its level is kept by identity. A failure is not
+ * kept: it is raised again.
+ */
 export function noiseLevel(x: Float64Array): NoiseLevel {
-  if (shared === null) return estimateNoiseLevel(x);
-  let level = shared.noise.get(x);
-  if (level === undefined) {
-    level = estimateNoiseLevel(x);
-    shared.noise.set(x, level);
-  }
-  return { ...level };
+  if (shared !== null) keepsUnchanged([x]);
+  return estimateNoiseLevel(x);
 }
 
 /** `medianInterval(time)`, once per array inside a `withSharedNoise` call. */

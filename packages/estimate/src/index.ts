@@ -42,7 +42,7 @@ export { measuredChannel } from './motor/measuredChannel.js';
 export { checkFitMotorOptions } from './motor/checkFitMotorOptions.js';
 export { classifyRecording } from './motor/classifyRecording.js';
 export { detectVoltageSegments } from './motor/detectVoltageSegments.js';
-export { estimateNoiseLevel } from './motor/estimateNoiseLevel.js';
+export { estimateNoiseLevel, keepsUnchanged, shareUnchangedNoise } from './motor/estimateNoiseLevel.js';
 export { detectEncoderSpeed } from './motor/detectEncoderSpeed.js';
 export { medianInterval } from './motor/medianInterval.js';
 export { selectKth } from './motor/selectKth.js';

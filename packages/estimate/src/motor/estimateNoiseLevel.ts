@@ -92,6 +92,8 @@ let unchanged: { arrays: WeakSet<Float64Array>; levels: WeakMap<Float64Array, No
  *
  * @param work - what runs inside
  * @returns what `work` returns
+ * @example
+ * shareUnchangedNoise(() => { keepsUnchanged([current]); return [estimateNoiseLevel(current), estimateNoiseLevel(current)]; }); // the second is the first, not estimated again
  */
 export function shareUnchangedNoise<T>(work: () => T): T {
   if (unchanged !== null) return work();
@@ -103,7 +105,14 @@ export function shareUnchangedNoise<T>(work: () => T): T {
   }
 }
 
-/** Names arrays that stay unchanged until the current {@link shareUnchangedNoise} call returns (nothing outside one). */
+/**
+ * Names arrays that stay unchanged until the current {@link shareUnchangedNoise} call returns (nothing
+ * outside one): their noise levels are then shared by identity.
+ *
+ * @param arrays - the arrays (anything else in the list is passed over)
+ * @example
+ * keepsUnchanged([recording.time, ...Object.values(recording.channels)]);
+ */
 export function keepsUnchanged(arrays: readonly unknown[]): void {
   if (unchanged === null) return;
   for (const a of arrays) if (a instanceof Float64Array) unchanged.arrays.add(a);
