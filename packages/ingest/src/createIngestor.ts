@@ -949,8 +949,8 @@ class BodyReader {
     }
     const n = this.kept;
     // A column whose buffer is at most a quarter longer than its rows is handed over as a view of
-    // its first n values (the buffer was sized from the file; its unused tail was never written, so
-    // it holds no memory pages); a longer one is copied to its length.
+    // its first n values, without the copy (the buffer was sized from the file; the view keeps at
+    // most a quarter more alive); a longer one is copied to its length.
     const trim = (b: Float64Array): Float64Array => (b.length === n ? b : b.length <= n + (n >> 2) ? b.subarray(0, n) : b.slice(0, n));
     const roleBuffers = this.roleBuffers.map(trim);
     this.roleBuffers = [];
