@@ -1,5 +1,6 @@
 import { KERNEL_MIN_LENGTH, sampleKernels } from './sampleKernels.js';
 import { selectKth } from './selectKth.js';
+import { onceForUnchanged } from './estimateNoiseLevel.js';
 
 /**
  * Recognises a speed channel computed from encoder counts, ω_k = Δcount_k·q/(t_k − t_{k−1}) (the
@@ -24,6 +25,12 @@ import { selectKth } from './selectKth.js';
  * detectEncoderSpeed(t, Float64Array.from(t, (_, k) => (k === 0 ? 0 : ((k % 9) * q) / 1e-3))); // ≈ 0.006136
  */
 export function detectEncoderSpeed(time: Float64Array, speed: Float64Array): number | null {
+  // The fit and the diagnosis both ask about the same speed channel: answered once while it is kept unchanged.
+  return onceForUnchanged('encoder speed', [speed, time], [], () => encoderQuantum(time, speed), (q) => q);
+}
+
+/** {@link detectEncoderSpeed}, computed. */
+function encoderQuantum(time: Float64Array, speed: Float64Array): number | null {
   const n = speed.length;
   if (n < 16) return null;
   const { d, smallest, nan } = (n >= KERNEL_MIN_LENGTH && time.length >= n ? countStepsKernel(time, speed) : null) ?? countSteps(time, speed);

@@ -1,5 +1,6 @@
 import { KERNEL_MIN_LENGTH, sampleKernels } from './sampleKernels.js';
 import type { VoltageSegment } from './types.js';
+import { onceForUnchanged } from './estimateNoiseLevel.js';
 
 /**
  * Splits a voltage record into constant-level segments by change-point detection against the
@@ -21,6 +22,14 @@ import type { VoltageSegment } from './types.js';
  * detectVoltageSegments(Float64Array.of(0, 0, 0, 5, 5, 5), 0.01).length; // => 2
  */
 export function detectVoltageSegments(voltage: Float64Array, sigma: number, threshold = 6): VoltageSegment[] {
+  // Classifying the recording and rebuilding its command both ask for the same voltage's segments:
+  // found once while the voltage is kept unchanged (each caller gets its own copy).
+  return onceForUnchanged('voltage segments', [voltage], [sigma, threshold], () => segmentsOf(voltage, sigma, threshold),
+    (segs) => segs.map((s) => ({ ...s })));
+}
+
+/** {@link detectVoltageSegments}, computed. */
+function segmentsOf(voltage: Float64Array, sigma: number, threshold: number): VoltageSegment[] {
   const n = voltage.length;
   const jump = threshold * Math.SQRT2 * Math.max(sigma, 1e-15);
   const sd = Math.max(sigma, 1e-15);

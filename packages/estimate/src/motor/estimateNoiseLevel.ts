@@ -83,7 +83,12 @@ const estimated = new WeakMap<Float64Array, { samples: Float64Array; level: Nois
  * Inside {@link shareUnchangedNoise}: the arrays its caller keeps unchanged until it returns (the
  * recordings of a `sharePreparation` call), and their noise levels. Null outside it.
  */
-let unchanged: { arrays: WeakSet<Float64Array>; levels: WeakMap<Float64Array, NoiseLevel> } | null = null;
+let unchanged: {
+  arrays: WeakSet<Float64Array>;
+  levels: WeakMap<Float64Array, NoiseLevel>;
+  /** What {@link onceForUnchanged} has computed, by the first array, then by what and the numbers. */
+  results: WeakMap<Float64Array, Map<string, { others: readonly Float64Array[]; value: unknown }[]>>;
+} | null = null;
 
 /**
  * Runs `work` with the noise level of each array named by {@link keepsUnchanged} estimated once and
@@ -97,7 +102,7 @@ let unchanged: { arrays: WeakSet<Float64Array>; levels: WeakMap<Float64Array, No
  */
 export function shareUnchangedNoise<T>(work: () => T): T {
   if (unchanged !== null) return work();
-  unchanged = { arrays: new WeakSet(), levels: new WeakMap() };
+  unchanged = { arrays: new WeakSet(), levels: new WeakMap(), results: new WeakMap() };
   try {
     return work();
   } finally {
@@ -116,6 +121,40 @@ export function shareUnchangedNoise<T>(work: () => T): T {
 export function keepsUnchanged(arrays: readonly unknown[]): void {
   if (unchanged === null) return;
   for (const a of arrays) if (a instanceof Float64Array) unchanged.arrays.add(a);
+}
+
+/**
+ * Inside {@link shareUnchangedNoise}, when every one of `arrays` is kept unchanged
+ * ({@link keepsUnchanged}): `compute()` once per `what`, arrays (by identity) and numbers, its value
+ * handed out again to later calls through `copy` (so that a caller that changes what it got
+ * changes nothing for the next one). Anywhere else: `compute()`. A detector the fit and the
+ * diagnosis both run on the same channels (the encoder test on the speed, the voltage's segments)
+ * is then run once per recording.
+ *
+ * @param what - the computation's name (with `numbers`, the key)
+ * @param arrays - the arrays it reads (at least one)
+ * @param numbers - the other arguments it depends on
+ * @param compute - the computation
+ * @param copy - a copy of a value for a later caller
+ * @returns the value
+ * @example
+ * onceForUnchanged('encoder', [time, speed], [], () => detectEncoderSpeedAfresh(time, speed), (q) => q);
+ */
+export function onceForUnchanged<T>(what: string, arrays: readonly Float64Array[], numbers: readonly number[], compute: () => T, copy: (value: T) => T): T {
+  const scope = unchanged;
+  if (scope === null || arrays.length === 0 || !arrays.every((a) => scope.arrays.has(a))) return compute();
+  const [first, ...others] = arrays as [Float64Array, ...Float64Array[]];
+  // Numbers by their bits (String keeps −0 apart from 0 only through Object.is, so both are written out).
+  const key = `${what}|${numbers.map((x) => (Object.is(x, -0) ? '-0' : String(x))).join(',')}`;
+  let byKey = scope.results.get(first);
+  if (byKey === undefined) scope.results.set(first, (byKey = new Map()));
+  let entries = byKey.get(key);
+  if (entries === undefined) byKey.set(key, (entries = []));
+  const seen = entries.find((e) => e.others.length === others.length && e.others.every((a, i) => a === others[i]));
+  if (seen !== undefined) return copy(seen.value as T);
+  const value = compute();
+  entries.push({ others, value: copy(value) });
+  return value;
 }
 
 /** True when `a` and `b` hold bit for bit the same samples (compared in the sample kernel for long series). */
