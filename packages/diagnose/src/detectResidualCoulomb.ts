@@ -33,8 +33,7 @@ export function detectResidualCoulomb(speed: Float64Array, residual: Float64Arra
   // The fitted rows, with s and the residual on them (typed arrays filled in one pass).
   const { m, pos, neg, rest, s, y, lagOne } = coulombRows(speed, residual, dead);
   if (m < 50 || Math.max(pos, neg, rest) > 0.95 * m) return null;
-  const one = new Float64Array(m).fill(1);
-  const fit = fitLinearModel([one, s], y);
+  const fit = fitLinearModel([onesOf(m), s], y);
   const g = fit.coefficients[1]!, se = fit.standardErrors[1]!;
   if (!(se > 0)) return null;
   // Lag-1 autocorrelation of the regression residuals over consecutive fitted rows.
@@ -52,4 +51,13 @@ export function detectResidualCoulomb(speed: Float64Array, residual: Float64Arra
     },
     advice: 'Fit with Coulomb friction in the model and compare the two fits; a constant friction torque otherwise biases b, J and the current offset.',
   };
+}
+
+/** The column of ones, kept for the next call (fitLinearModel only reads its columns). */
+let ones = new Float64Array(0);
+
+/** A column of m ones (a view of the kept one, grown when too short). */
+function onesOf(m: number): Float64Array {
+  if (ones.length < m) ones = new Float64Array(m).fill(1);
+  return ones.subarray(0, m);
 }

@@ -11,6 +11,12 @@
  *
  * Series are copied into the kernel's memory (≈ 0.1 ms per 1e5 doubles) once per caller and read
  * by every kernel that caller runs; below `KERNEL_MIN` samples the JavaScript runs.
+ *
+ * A series a caller only reads on the spot (to hand it to another kernel, e.g. `laggedSumsInto`, or
+ * to `fitLinearModel`) is returned as a view of this kernel's memory, not copied out: such results
+ * say "valid until the next call of a function of this file". A fresh array of 1e5 doubles costs
+ * ≈ 0.5 ms in a fresh process, nearly all of it the first touch of its pages (measured:
+ * DEVELOPERS.md, "Speed of a fresh process").
  */
 import { createKernel } from '@motorprint/model/kernels';
 import type { KernelRoom } from '@motorprint/model/kernels';
@@ -98,7 +104,7 @@ export function firstNotFiniteOf(x: Float64Array, useKernel?: boolean): number {
 // ---------------------------------------------------------------------------------------------
 // residualStats
 
-/** What `residualPasses` returns; the sums are NaN/0 when n < 8 (the caller throws then). */
+/** What `residualPasses` returns; the sums are NaN/0 when n < 8 (the caller throws then); `dev` is valid until the next call of a function of this file. */
 export interface ResidualPasses {
   n: number; sy: number; se: number; dev: Float64Array;
   c0: number; see: number; cee: number; syy: number; cyy: number; above: number; below: number; runs: number;
@@ -181,10 +187,10 @@ function residualPassesKernel(measured: Float64Array, predicted: Float64Array): 
   const eAt = r.free;
   const n = x.finiteResiduals(r.at[0]!, r.at[1]!, 8 * eAt, N, 0);
   const sy = f64[0]!, se = f64[1]!;
-  if (n < 8) return { n, sy, se, dev: f64.slice(eAt, eAt + n), c0: NaN, see: NaN, cee: NaN, syy: NaN, cyy: NaN, above: 0, below: 0, runs: 0 };
+  if (n < 8) return { n, sy, se, dev: f64.subarray(eAt, eAt + n), c0: NaN, see: NaN, cee: NaN, syy: NaN, cyy: NaN, above: 0, below: 0, runs: 0 };
   x.residualSums(r.at[0]!, r.at[1]!, 8 * eAt, 8 * eAt, N, se / n, sy / n, n === N ? 1 : 0, 0);
   return {
-    n, sy, se, dev: f64.slice(eAt, eAt + n),
+    n, sy, se, dev: f64.subarray(eAt, eAt + n),
     c0: f64[0]!, see: f64[1]!, cee: f64[2]!, syy: f64[3]!, cyy: f64[4]!, above: f64[5]!, below: f64[6]!, runs: f64[7]!,
   };
 }
@@ -422,7 +428,7 @@ export interface CoulombRows {
   lagOne(c: number, g: number): [number, number];
 }
 
-/** The rows and signs of `detectResidualCoulomb` (speed and residual of one length). */
+/** The rows and signs of `detectResidualCoulomb` (speed and residual of one length); `s` and `y` are valid until the next call of a function of this file. */
 export function coulombRows(speed: Float64Array, residual: Float64Array, dead: number, useKernel?: boolean): CoulombRows {
   const n = speed.length;
   if (wanted(n, useKernel)) {
@@ -437,8 +443,8 @@ export function coulombRows(speed: Float64Array, residual: Float64Array, dead: n
       const py = all ? pr : 8 * yAt;
       return {
         m, pos, neg, rest,
-        s: f64.slice(sAt, sAt + m),
-        y: all ? residual.subarray(0, m) : f64.slice(yAt, yAt + m),
+        s: f64.subarray(sAt, sAt + m),
+        y: all ? residual.subarray(0, m) : f64.subarray(yAt, yAt + m),
         rows: all ? null : new Int32Array(f64.buffer, rowsAt, m).slice(),
         lagOne: (c, g) => { k.lagOneSums(py, 8 * sAt, all ? -1 : rowsAt, m, c, g, 0); return [f64[0]!, f64[1]!]; },
       };
@@ -510,7 +516,8 @@ export function restRows(voltage: Float64Array, vLimit: number, other: Float64Ar
 /**
  * The voltage steps Δv(k) = v[k] − v[k−1] (0 where not finite, and at k = 0) with ΣΔv², and the
  * residual with 0 where it is not finite (the residual itself when every one is: `finite`), with
- * Σe² and the count over k ≥ 1 where e is finite.
+ * Σe² and the count over k ≥ 1 where e is finite. `steps` and `kept` are valid until the next call
+ * of a function of this file.
  */
 export function delaySteps(voltage: Float64Array, residual: Float64Array, useKernel?: boolean):
   { finite: boolean; steps: Float64Array; kept: Float64Array; vv: number; ee: number; rows: number } {
@@ -524,7 +531,7 @@ export function delaySteps(voltage: Float64Array, residual: Float64Array, useKer
       const stepsAt = r.free, keptAt = r.free + n;
       k.delaySteps(pv, pr, n, finite ? 1 : 0, 8 * stepsAt, 8 * keptAt, 0);
       return {
-        finite, steps: f64.slice(stepsAt, stepsAt + n), kept: finite ? residual : f64.slice(keptAt, keptAt + n),
+        finite, steps: f64.subarray(stepsAt, stepsAt + n), kept: finite ? residual : f64.subarray(keptAt, keptAt + n),
         vv: f64[0]!, ee: f64[1]!, rows: f64[2]!,
       };
     }
@@ -547,7 +554,7 @@ export function delaySteps(voltage: Float64Array, residual: Float64Array, useKer
 // ---------------------------------------------------------------------------------------------
 // detectInputDelay
 
-/** The increments da[k − 1] = a[k] − a[k − 1], db likewise (length n − 1), with Σda² and Σdb² (a, b of length n ≥ 1). */
+/** The increments da[k − 1] = a[k] − a[k − 1], db likewise (length n − 1), with Σda² and Σdb² (a, b of length n ≥ 1); da and db are valid until the next call of a function of this file. */
 export function increments(a: Float64Array, b: Float64Array, useKernel?: boolean): { da: Float64Array; db: Float64Array; aa: number; bb: number } {
   const n = a.length;
   if (wanted(n, useKernel) && n >= 1 && b.length === n) {
@@ -556,7 +563,7 @@ export function increments(a: Float64Array, b: Float64Array, useKernel?: boolean
       const { exports: k, f64 } = r.room;
       const daAt = r.free, dbAt = r.free + n;
       k.increments(r.at[0]!, r.at[1]!, n, 8 * daAt, 8 * dbAt, 0);
-      return { da: f64.slice(daAt, daAt + n - 1), db: f64.slice(dbAt, dbAt + n - 1), aa: f64[0]!, bb: f64[1]! };
+      return { da: f64.subarray(daAt, daAt + n - 1), db: f64.subarray(dbAt, dbAt + n - 1), aa: f64[0]!, bb: f64[1]! };
     }
   }
   const da = new Float64Array(n - 1), db = new Float64Array(n - 1);
