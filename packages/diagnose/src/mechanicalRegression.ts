@@ -144,13 +144,20 @@ export function mechanicalRegressionOf(input: MechanicalRegressionInput, finiteC
   // Filtered white noise keeps the fraction ≈ √(2·fc·h·(π/4)) of its SD (4th-order response, squared by the two passes);
   // √(2·fc·h) is used as a slightly generous bound.
   const deadBand = 4 * rawSigma * Math.sqrt(Math.min(1, 2 * fc * h)) + 1e-3 * (wmax - wmin);
-  const sgnRaw = scan.sign(deadBand);
-  const sgn = lp(sgnRaw);
   const rows: number[] = [];
   for (let k = 0; k < n; k += dec) rows.push(k);
   const used = rows.slice(trim, rows.length - trim);
   const m = used.length;
   if (m < 20) throw new RangeError(`${fn}: only ${m} rows remain after decimation by ${dec} and trimming (need >= 20)`);
+  // The sign (a view of the scan kernel's memory: read here and by the low-pass, before any other scan).
+  const sgnRaw = scan.sign(deadBand);
+  let moving = 0, pos = 0, neg = 0;
+  for (const k of used) {
+    if (sgnRaw[k]! !== 0) moving++;
+    if (sgnRaw[k]! > 0) pos++;
+    if (sgnRaw[k]! < 0) neg++;
+  }
+  const sgn = lp(sgnRaw);
   // The decimated rows (plain loops: a typed array's from() with a map function is slow).
   const cAcc = new Float64Array(m), cW = new Float64Array(m), cS = new Float64Array(m), cY = new Float64Array(m), cD = new Float64Array(m);
   for (let j = 0; j < m; j++) {
@@ -165,12 +172,6 @@ export function mechanicalRegressionOf(input: MechanicalRegressionInput, finiteC
   const drag = fitLinearModel([cAcc, cW, cD, ...extra], cY);
   const coulombDrag = fitLinearModel([cAcc, cW, cS, cD, ...extra], cY);
   const alpha = input.alpha ?? 0.01;
-  let moving = 0, pos = 0, neg = 0;
-  for (const k of used) {
-    if (sgnRaw[k]! !== 0) moving++;
-    if (sgnRaw[k]! > 0) pos++;
-    if (sgnRaw[k]! < 0) neg++;
-  }
   return {
     viscous,
     coulomb,

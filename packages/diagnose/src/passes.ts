@@ -609,7 +609,7 @@ export interface SpeedScan {
   acc: Float64Array;
   /** Smallest and largest w (read in order of k). */
   wmin: number; wmax: number;
-  /** s[k] = 1 when w[k] > band, −1 when w[k] < −band, else 0 (a fresh array). */
+  /** s[k] = 1 when w[k] > band, −1 when w[k] < −band, else 0 (a fresh array, or a view valid until the next call of a function of this file). */
   sign(band: number): Float64Array;
 }
 
@@ -624,7 +624,7 @@ export function speedScan(w: Float64Array, h2: number, useKernel?: boolean): Spe
       k.centralDifferences(r.at[0]!, n, h2, 8 * at, 0);
       return {
         acc: f64.slice(at, at + n), wmin: f64[0]!, wmax: f64[1]!,
-        sign: (band) => { k.signWithDeadBand(r.at[0]!, n, band, 8 * at); return f64.slice(at, at + n); },
+        sign: (band) => { k.signWithDeadBand(r.at[0]!, n, band, 8 * at); return f64.subarray(at, at + n); },
       };
     }
   }

@@ -244,7 +244,7 @@ describe('the sample kernels', () => {
     const v = Float64Array.from({ length: 600 }, (_, k) => (k < 200 ? 0 : k < 410 ? 6 : 2) + 0.01 * Math.sin(7 * k));
     expect(detectVoltageSegments(v, 0.01).map((s) => [s.start, s.end])).toEqual([[0, 200], [200, 410], [410, 600]]);
   });
-  it("the encoder test's steps and the largest magnitude: the same values and flags", () => {
+  it("the encoder test's steps, their median and the largest magnitude: the same values and flags", () => {
     const clock = fc.array(fc.double({ noNaN: true, min: 1e-5, max: 2e-3 }), { minLength: KERNEL_MIN_LENGTH, maxLength: 1200 }).map((steps) => {
       const t = new Float64Array(steps.length);
       for (let k = 1; k < t.length; k++) t[k] = t[k - 1]! + steps[k]!;
@@ -254,10 +254,19 @@ describe('the sample kernels', () => {
       fc.property(clock, gappySeries, (t, w0) => {
         const w = Float64Array.from({ length: t.length }, (_, k) => w0[k % w0.length]!);
         const plain = countSteps(t, w);
+        const mid = plain.d.length >> 1;
+        // (The plain median first: its selection runs in the same kernel memory, which the kernel's d is a view of.)
+        const plainMedian = !plain.nan && plain.d.length > 0 ? plain.select(mid) : NaN;
         const kernel = countStepsKernel(t, w)!;
         expect(kernel.nan).toBe(plain.nan);
         expect(Object.is(kernel.smallest, plain.smallest)).toBe(true);
         expect(sameBits(kernel.d, plain.d)).toBe(true);
+        // The median step, selected inside the kernel's memory: the value of a selection on a copy,
+        // and the steps still there after it (the encoder test reads them next).
+        if (!plain.nan && plain.d.length > 0) {
+          expect(Object.is(kernel.select(mid), plainMedian)).toBe(true);
+          expect(sameBits(kernel.d, plain.d)).toBe(true);
+        }
         let m = 0;
         for (let k = 0; k < w.length; k++) m = Math.max(m, Math.abs(w[k]!));
         expect(Object.is(largestMagnitude(w), m)).toBe(true);

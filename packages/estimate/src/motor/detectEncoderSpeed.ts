@@ -33,13 +33,13 @@ export function detectEncoderSpeed(time: Float64Array, speed: Float64Array): num
 function encoderQuantum(time: Float64Array, speed: Float64Array): number | null {
   const n = speed.length;
   if (n < 16) return null;
-  const { d, smallest, nan } = (n >= KERNEL_MIN_LENGTH && time.length >= n ? countStepsKernel(time, speed) : null) ?? countSteps(time, speed);
+  const steps = (n >= KERNEL_MIN_LENGTH && time.length >= n ? countStepsKernel(time, speed) : null) ?? countSteps(time, speed);
+  const { d, smallest, nan } = steps;
   if (!Number.isFinite(smallest)) return null;
   // The middle of the sorted |d|: by selection on a copy (the same value: no −0 after Math.abs),
   // by a sort when a NaN is present (sorted last).
-  const copy = Float64Array.from(d);
-  const middle = copy.length >> 1;
-  const median = nan ? copy.sort()[middle]! : selectKth(copy, middle);
+  const middle = d.length >> 1;
+  const median = nan ? Float64Array.from(d).sort()[middle]! : steps.select(middle);
   for (let div = 1; div <= 8; div++) {
     const q = smallest / div;
     // Counts above ~1000 per interval: the rounding in the file hides the grid, and the speed's
@@ -61,8 +61,11 @@ function encoderQuantum(time: Float64Array, speed: Float64Array): number | null 
   return null;
 }
 
-/** The angle steps d_k = |ω_k·(t_k − t_{k−1})|, the smallest one above 0, and whether one is NaN. */
-interface CountSteps { d: Float64Array; smallest: number; nan: boolean }
+/**
+ * The angle steps d_k = |ω_k·(t_k − t_{k−1})|, the smallest one above 0, whether one is NaN, and
+ * `select(k)`: the k-th smallest step as {@link selectKth} finds it on a copy of d (no NaN in d).
+ */
+interface CountSteps { d: Float64Array; smallest: number; nan: boolean; select(k: number): number }
 
 /** The first pass of `detectEncoderSpeed` in plain JavaScript (the reference of {@link countStepsKernel} and its fallback; exported for the tests). */
 export function countSteps(time: Float64Array, speed: Float64Array): CountSteps {
@@ -76,21 +79,35 @@ export function countSteps(time: Float64Array, speed: Float64Array): CountSteps 
     if (x > 0 && x < smallest) smallest = x;
     else if (x !== x) nan = true;
   }
-  return { d, smallest, nan };
+  return { d, smallest, nan, select: (k) => selectKth(Float64Array.from(d), k) };
 }
 
-/** {@link countSteps} through the WebAssembly kernel (sampleKernels.wat): the same bits; null where it cannot run (or `time` is shorter than `speed`). */
+/**
+ * {@link countSteps} through the WebAssembly kernel (sampleKernels.wat): the same bits; null where it
+ * cannot run (or `time` is shorter than `speed`). Its `d` is a view of the kernel's memory, valid
+ * until the next call of a sample kernel, and `select` copies it within that memory and selects
+ * there (the kernel `selectKth` calls: the same swaps on the same values, so the same value).
+ */
 export function countStepsKernel(time: Float64Array, speed: Float64Array): CountSteps | null {
   const n = speed.length;
   if (time.length < n || n < 1) return null;
-  const tAt = n, dAt = 2 * n, outAt = 3 * n;
+  // The steps overwrite the speeds (d[k − 1] is written after w[k − 1] was last read); the median's
+  // copy goes over the instants, which are read no more either.
+  const tAt = n, dAt = 0, outAt = 2 * n;
   const room = sampleKernels.room(8 * (outAt + 1));
   if (room === null) return null;
   const { f64, exports: k } = room;
   f64.set(speed, 0);
   f64.set(time.subarray(0, n), tAt);
   const nan = k.countSteps(0, 8 * tAt, n, 8 * dAt, 8 * outAt) === 1;
-  return { d: f64.slice(dAt, dAt + n - 1), smallest: f64[outAt]!, nan };
+  const m = n - 1;
+  return {
+    d: f64.subarray(dAt, dAt + m), smallest: f64[outAt]!, nan,
+    select: (j) => {
+      f64.copyWithin(tAt, dAt, dAt + m);
+      return k.select(8 * tAt, m, j);
+    },
+  };
 }
 
 /**

@@ -90,9 +90,11 @@ export function rebuildCommand(time: Float64Array, voltage: Float64Array, mode: 
   for (const s of segs) piecewise.fill(s.level, s.start, s.end);
   const pwRatio = rmsDiff(voltage, piecewise) / Math.max(sigma, 1e-300);
   const isPiecewise = segs.length <= n / 8 && pwRatio < ACCEPT_RATIO;
+  // Where the logged voltage is used as it is, its copy goes into the piecewise array, not needed any more
+  // (a fresh array of n doubles costs the first touch of its pages again).
   if (mode === 'measured') {
     return {
-      voltage: Float64Array.from(voltage),
+      voltage: copyInto(piecewise, voltage),
       handling: { method: 'measured', reason: 'the raw measured voltage, as asked (no rebuilt command); its noise biases the constants', stepTime: isPiecewise ? stepTime : null, residualRatio: 0, voltageSigma: sigma },
       segments: isPiecewise ? segs : null,
     };
@@ -100,7 +102,7 @@ export function rebuildCommand(time: Float64Array, voltage: Float64Array, mode: 
   if (isPiecewise && sigma === 0) {
     // Not a sample of noise inside the levels: the command as the controller logged it.
     return {
-      voltage: Float64Array.from(voltage),
+      voltage: copyInto(piecewise, voltage),
       handling: {
         method: 'exact',
         reason: `exact command: ${segs.length} level(s) with no noise at all inside them; used as logged`,
@@ -485,4 +487,10 @@ function detectPeriod(samples: Float64Array, h: number, phase: Float64Array | nu
   }
   if (best === null || !(best.rms < 0.1 * sd)) return null;
   return { samples: best.samples, sigma: best.rms / Math.SQRT2 };
+}
+
+/** `target` with the values of `source` (of its length) written into it. */
+function copyInto(target: Float64Array, source: Float64Array): Float64Array {
+  target.set(source);
+  return target;
 }

@@ -350,7 +350,8 @@
       (then (local.get $at))
       (else (i32.const -1))))
 ;; countSteps(w, t, n, d, out): detectEncoderSpeed's first pass over the speeds at w and the
-  ;; instants at t: d[k−1] = |w[k]·(t[k] − t[k−1])| for k = 1…n−1, the smallest d > 0 stored at out
+  ;; instants at t: d[k−1] = |w[k]·(t[k] − t[k−1])| for k = 1…n−1 (d may be w itself: w[k − 1] is
+  ;; read before d[k − 1] is written), the smallest d > 0 stored at out
   ;; (Infinity when none); returns 1 when some d is NaN (and no smaller d came with it), else 0 —
   ;; exactly as the JavaScript's `if (x > 0 && x < smallest) … else if (x !== x) nan = true`.
   (func (export "countSteps") (param $w i32) (param $t i32) (param $n i32) (param $d i32) (param $out i32) (result i32)
