@@ -42,8 +42,16 @@ export const CLI_REWRITES: readonly (readonly [RegExp, string | ((...groups: str
   [/\bfixed by the caller\b/g, 'pinned with --fix'],
 ];
 
-/** The union of the {@link CLI_REWRITES} patterns (each is global only, so the union matches where any one would). */
-const ANY_REWRITE = new RegExp(CLI_REWRITES.map(([pattern]) => `(?:${pattern.source})`).join('|'));
+/**
+ * Literal pieces of text, one of which every match of every {@link CLI_REWRITES} pattern contains
+ * (the words test checks each pattern holds one outside any optional or alternative part). A text
+ * with none of them matches no pattern; searching for them is cheaper than compiling and running
+ * one regular expression of all the patterns (≈ 2 ms in a fresh process, for ≈ 160 strings).
+ */
+export const REWRITE_NEEDLES: readonly string[] = [
+  'options.', 'meta.rowsDropped', 'recording.', 'to a known value', 'pin one of them', 'measured voltage',
+  'Coulomb friction', 'fitMotor option', 'windingTemperature', 'winding temperature', 'by the caller',
+];
 
 /** The command-line spelling of an ingest role (`supplyVoltage` → `supply`). */
 function cliRoleName(role: string): string {
@@ -62,9 +70,9 @@ function cliRoleName(role: string): string {
  * inCliTerms('a coast-down, or J pinned to a known value'); // => 'a coast-down, or J pinned to a known value (--fix J=VALUE)'
  */
 export function inCliTerms(text: string): string {
-  // Most texts hold none of the patterns: one test of their union says so (none of them can then
-  // match after another, as no rewrite has run), instead of 25 passes over every string printed.
-  if (!ANY_REWRITE.test(text)) return text;
+  // Most texts hold none of the patterns: a text with none of the needles matches none of them (nor
+  // can one match after another, as no rewrite has run), and is passed over without 25 passes.
+  if (!REWRITE_NEEDLES.some((needle) => text.includes(needle))) return text;
   let out = text;
   for (const [pattern, replacement] of CLI_REWRITES) {
     out = typeof replacement === 'string' ? out.replace(pattern, replacement) : out.replace(pattern, replacement as (...groups: string[]) => string);

@@ -5,7 +5,7 @@ import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { runCli, EXIT, type CliIo } from '@motorprint/cli';
 import { SUBCOMMANDS } from '../commands/index.js';
-import { CLI_REWRITES, inCliTerms } from '../cliTerms.js';
+import { CLI_REWRITES, REWRITE_NEEDLES, inCliTerms } from '../cliTerms.js';
 
 const repoRoot = resolve(dirname(fileURLToPath(import.meta.url)), '../../../..');
 
@@ -136,10 +136,18 @@ describe('command-line words', () => {
     expect(inCliTerms('"coulomb": true')).toBe('"coulomb": true');
   });
 
-  it('are rewritten the same with or without the quick test of the patterns\' union', () => {
-    // The quick test may skip a text only where no pattern matches it: each pattern is global and
-    // nothing else, so their union matches where one of them does.
-    for (const [pattern] of CLI_REWRITES) expect(pattern.flags).toBe('g');
+  it('are rewritten the same with or without the quick test of the needles', () => {
+    // The quick test may skip a text only where no pattern matches it: every pattern holds one of the
+    // needles as plain text, outside any optional (?), repeated or alternative (|) part.
+    for (const [pattern] of CLI_REWRITES) {
+      expect(pattern.flags).toBe('g');
+      const { text, alternatives } = requiredText(pattern.source);
+      expect(alternatives, `${pattern.source} has alternatives outside a group`).toBe(false);
+      expect(REWRITE_NEEDLES.some((needle) => text.includes(needle)), `${pattern.source} holds no needle`).toBe(true);
+    }
+    // The reading of a pattern's text itself: what it keeps and what it cuts.
+    expect(requiredText('\\(?fitMotor option (\\w+)\\)?').text).toBe('\u0000fitMotor option \u0000\u0000');
+    expect(requiredText('a|b').alternatives).toBe(true);
     const chain = (text: string): string => CLI_REWRITES.reduce((out, [p, r]) => out.replace(p, r as string), text);
     const texts = [
       'pass options.map.current', 'options.units', 'see meta.rowsDropped', 'kept unconverted in recording.extra', 'fix options.fix and options.initial',
@@ -188,3 +196,36 @@ describe('command-line words', () => {
     expect(printed).not.toMatch(/options\.\w|meta\.rowsDropped|recording\.(extra|time)|windingTemperature option|coulomb: true|by the caller/);
   });
 });
+
+/**
+ * The text every match of a regular expression's source must contain, piece by piece: escapes undone,
+ * word boundaries dropped, and every group, character class and optional or repeated piece replaced by
+ * NUL (so that a needle found in it lies wholly in the required text); `alternatives` when a `|` lies
+ * outside every group (then no single piece is required).
+ */
+function requiredText(source: string): { text: string; alternatives: boolean } {
+  let text = '';
+  let depth = 0;
+  let alternatives = false;
+  for (let i = 0; i < source.length; i++) {
+    const c = source[i]!;
+    if (c === '\\') {
+      const e = source[++i]!;
+      if (depth === 0) text += e === 'b' ? '' : /[wdsWDS]/.test(e) ? '\u0000' : e;
+      continue;
+    }
+    if (c === '[' && depth === 0) {
+      while (i < source.length && source[i] !== ']') i += source[i] === '\\' ? 2 : 1;
+      text += '\u0000';
+      continue;
+    }
+    if (c === '(') { if (depth++ === 0) text += '\u0000'; continue; }
+    if (c === ')') { depth--; continue; }
+    if (depth > 0) continue;
+    if (c === '|') { alternatives = true; continue; }
+    if (c === '?' || c === '*') { text = `${text.slice(0, -1)}\u0000`; continue; }
+    if (c === '+' || c === '^' || c === '$') continue;
+    text += c;
+  }
+  return { text, alternatives };
+}
