@@ -67,6 +67,22 @@ export interface MotorProblem extends LeastSquaresProblem {
 const CHUNK = 4096;
 
 /**
+ * The sweep's row buffers (residual rows and the Jacobian chunk), shared by every problem: a run
+ * starts them from row 0 (zeroing the Jacobian first) and has summed every row it wrote before it
+ * returns, and no run starts inside another, so what one problem leaves in them no other reads.
+ * Kept, because a fresh Jacobian chunk of ≈ 0.5 MB costs the first touch of its pages in every
+ * problem (five per fit of one recording; DEVELOPERS.md, "Speed of a fresh process").
+ */
+const sharedRows = { r: new Float64Array(0), jac: new Float64Array(0) };
+
+/** Views of the shared row buffers of the given lengths (grown when too short). */
+function rowBuffers(rLength: number, jacLength: number): { r: Float64Array; jac: Float64Array } {
+  if (sharedRows.r.length < rLength) sharedRows.r = new Float64Array(rLength);
+  if (sharedRows.jac.length < jacLength) sharedRows.jac = new Float64Array(jacLength);
+  return { r: sharedRows.r.subarray(0, rLength), jac: sharedRows.jac.subarray(0, jacLength) };
+}
+
+/**
  * Builds the joint weighted least-squares problem over all prepared recordings: residuals
  * (model − measured)/σ per channel and sample, plus the voltage (and torque) samples as rows of
  * their own, with the analytic Jacobian w.r.t. θ accumulated chunk by chunk into JᵀJ and Jᵀr
@@ -122,7 +138,7 @@ export function createMotorProblem(recs: PreparedRecording[], layout: ParameterL
   const full = Float64Array.from(thetaFull);
   const maxBasis = Math.max(1, ...recs.map((x) => (x.levels !== null ? x.levels.classes.length : x.sines !== null ? x.sines.coefficients.length : 0)));
   const buf: SweepBuffers = {
-    st, r: new Float64Array(st), jac: new Float64Array(pCols * st), sink, rows: 0, acc: null, wantJ: false,
+    st, ...rowBuffers(st, pCols * st), sink, rows: 0, acc: null, wantJ: false,
     mats: new Float64Array(56), work: new Float64Array(128), slot: new Float64Array(56), slot2: new Float64Array(56),
     x: new Float64Array(16), su: new Float64Array(2 * maxBasis), phi: new Float64Array(maxBasis),
     effects: effects === null ? null : { col: p, tau: effects.tau, copper: effects.copper, state: new Float64Array(10) },
