@@ -206,7 +206,7 @@ function endToEnd(): void {
     ]);
     if (peerRow) rows.push(peerRow);
   }
-  console.log(`\n### End to end: fit FILE --json vs the numpy/scipy peer (best of ${REPEATS}, taking turns; goal work / peer ≤ 0.5, stretch 0.2)\n`);
+  console.log(`\n### End to end: fit FILE --json vs the numpy/scipy peer (best of ${REPEATS}, taking turns; goal work / peer load+fit ≤ 0.5, stretch 0.2)\n`);
   printTable(rows);
   console.log('\nwork = process − load-only (`fit --help`: the same executable loading everything fit needs, as the fit does,');
   console.log('and printing the help instead of fitting); the peer\'s work likewise is its process − a python3 process that only');
