@@ -210,7 +210,8 @@ function endToEnd(): void {
   printTable(rows);
   console.log('\nwork = process − load-only (`fit --help`: the same executable loading everything fit needs, as the fit does,');
   console.log('and printing the help instead of fitting); the peer\'s work likewise is its process − a python3 process that only');
-  console.log('imports what it imports; "load+fit inside" is the peer\'s own clock around loadtxt + least_squares; errors are relative to the');
+  console.log('imports what it imports (a difference of two ≈ 1 s processes, so noisier than "load+fit inside", the peer\'s own clock');
+  console.log('around loadtxt + least_squares, which the goal is read from); errors are relative to the');
   console.log('true constants; right? = every error < 1 % (and for motorprint every |estimate − truth| < 3 standard errors).');
   for (const note of notes) console.log(note);
   if (peerMissing !== null) console.log(`peer skipped: ${peerMissing}`);
