@@ -44,8 +44,8 @@ export interface Ingestor {
   finish(): IngestResult;
 }
 
-/** Bytes gathered before the encoding is settled. */
-const HEAD_BYTES = 65536;
+/** Bytes gathered before the encoding is settled (readRecording's first read is this long). */
+export const HEAD_BYTES = 65536;
 /** Characters gathered before the dialect is settled. */
 const HEAD_CHARS = 65536;
 const LISTED_LINES = 20;

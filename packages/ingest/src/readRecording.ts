@@ -1,16 +1,10 @@
 import { open, stat } from 'node:fs/promises';
-import { createIngestor } from './createIngestor.js';
+import { createIngestor, HEAD_BYTES } from './createIngestor.js';
 import { IngestError } from './IngestError.js';
 import type { IngestOptions, IngestResult } from './types.js';
 
 /** Bytes per read. */
 const CHUNK = 1 << 20;
-/**
- * The first read: what the ingestor needs to settle the dialect (its head of 64 KiB). A whole first
- * chunk would be decoded into a string of 1 MB only for that (measured: ≈ 250 pages touched and the
- * dialect's scan over all of it); the chunks after it are read as bytes.
- */
-const FIRST_READ = 1 << 16;
 
 /**
  * Reads a CSV file from disk, streaming it through {@link createIngestor} in 1 MiB chunks (the file
@@ -44,7 +38,10 @@ export async function readRecording(path: string, options: IngestOptions = {}): 
     handle = await open(path, 'r');
     const buffers = [Buffer.allocUnsafeSlow(CHUNK), Buffer.allocUnsafeSlow(CHUNK)];
     let turn = 0;
-    next = handle.read(buffers[0]!, 0, FIRST_READ, null);
+    // The first read is the head the ingestor settles the encoding and dialect on: a whole first chunk
+    // would be decoded into a string of 1 MB for that alone (≈ 250 pages touched, and the dialect's
+    // scan over all of it); the chunks after it are read as bytes.
+    next = handle.read(buffers[0]!, 0, HEAD_BYTES, null);
     for (;;) {
       const { bytesRead } = await next;
       next = undefined;
