@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { estimateNoiseLevel } from '../motor/estimateNoiseLevel.js';
+import { estimateNoiseLevel, keepsUnchanged, onceForUnchanged, shareUnchangedNoise } from '../motor/estimateNoiseLevel.js';
 import { fitMotor } from '../motor/fitMotor.js';
 import { sharePreparation } from '../motor/prepareRecording.js';
 
@@ -115,6 +115,38 @@ describe('estimateNoiseLevel', () => {
     const b = estimateNoiseLevel(x);
     expect(b).toEqual(estimateNoiseLevel(Float64Array.from(x)));
     expect(b.sigma).toBeGreaterThan(0);
+  });
+
+  it('onceForUnchanged: computes once per name, arrays and numbers while the arrays are kept unchanged, and every time elsewhere', () => {
+    const x = Float64Array.of(1, 2, 3), y = Float64Array.of(4, 5), other = Float64Array.of(1, 2, 3);
+    let runs = 0;
+    const segs = (k: number): { at: number }[] => onceForUnchanged('segs', [x, y], [k], () => { runs++; return [{ at: k }]; }, (v) => v.map((s) => ({ ...s })));
+    segs(1);
+    segs(1);
+    expect(runs).toBe(2); // outside a scope: no sharing
+    shareUnchangedNoise(() => {
+      keepsUnchanged([x, y]);
+      runs = 0;
+      const first = segs(1);
+      first[0]!.at = 99; // the caller's own copy
+      const second = segs(1);
+      expect(second).toEqual([{ at: 1 }]);
+      second[0]!.at = 98; // a later caller's too
+      expect(segs(1)).toEqual([{ at: 1 }]);
+      expect(runs).toBe(1);
+      segs(2); // other numbers
+      segs(-0); // −0 is not 0
+      segs(0);
+      expect(runs).toBe(4);
+      onceForUnchanged('segs', [x, other], [1], () => runs++, (v) => v); // an array not kept
+      onceForUnchanged('segs', [x, other], [1], () => runs++, (v) => v);
+      expect(runs).toBe(6);
+      onceForUnchanged('segs', [y, x], [1], () => runs++, (v) => v); // other arrays, by identity and order
+      onceForUnchanged('other', [x, y], [1], () => runs++, (v) => v); // another name
+      expect(runs).toBe(8);
+    });
+    segs(1);
+    expect(runs).toBe(9); // the scope has ended
   });
 
   it('rejects what is not a Float64Array and too few finite samples', () => {

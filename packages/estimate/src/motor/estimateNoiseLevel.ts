@@ -138,13 +138,13 @@ export function keepsUnchanged(arrays: readonly unknown[]): void {
  * @param copy - a copy of a value for a later caller
  * @returns the value
  * @example
- * onceForUnchanged('encoder', [time, speed], [], () => detectEncoderSpeedAfresh(time, speed), (q) => q);
+ * onceForUnchanged('mean', [x], [], () => x.reduce((a, b) => a + b, 0) / x.length, (m) => m); // inside sharePreparation, once per x
  */
 export function onceForUnchanged<T>(what: string, arrays: readonly Float64Array[], numbers: readonly number[], compute: () => T, copy: (value: T) => T): T {
   const scope = unchanged;
   if (scope === null || arrays.length === 0 || !arrays.every((a) => scope.arrays.has(a))) return compute();
   const [first, ...others] = arrays as [Float64Array, ...Float64Array[]];
-  // Numbers by their bits (String keeps −0 apart from 0 only through Object.is, so both are written out).
+  // Numbers by value: String gives each double its own text, except −0 (written "0"), written out here.
   const key = `${what}|${numbers.map((x) => (Object.is(x, -0) ? '-0' : String(x))).join(',')}`;
   let byKey = scope.results.get(first);
   if (byKey === undefined) scope.results.set(first, (byKey = new Map()));
